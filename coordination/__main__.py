@@ -1,0 +1,3 @@
+from coordination.cli import main
+
+main()

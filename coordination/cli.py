@@ -1,0 +1,290 @@
+"""The command line: parse, call the same functions as the Python API, print.
+
+Exit codes: 0 every requirement met, 1 a requirement not met, 2 bad input or usage.
+Heavy modules (matplotlib, the report) are imported only inside the commands that need them.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import sys
+from collections.abc import Callable
+from functools import wraps
+from pathlib import Path
+from typing import Annotated, Any
+
+import typer
+
+from coordination import CAUTION, __version__
+from curves.errors import InputError
+
+app = typer.Typer(
+    add_completion=False,
+    no_args_is_help=True,
+    pretty_exceptions_enable=False,
+    help=(
+        "Selectivity studies of low-voltage protective devices: device bands, fault levels, "
+        "selectivity of every upstream/downstream pair, protection checks, a chooser, plots "
+        "and a report. " + CAUTION
+    ),
+)
+
+JsonOption = Annotated[bool, typer.Option("--json", help="Machine-readable JSON on stdout.")]
+StudyArg = Annotated[Path, typer.Argument(help="The study file (TOML).", show_default=False)]
+BasisOption = Annotated[
+    str | None,
+    typer.Option("--basis", help="Band basis for selectivity: typical or envelope "
+                 "(default: the study's, else typical)."),
+]
+
+
+def fail(message: str) -> None:
+    """Print one line on stderr and exit with code 2."""
+    typer.echo(f"error: {message}", err=True)
+    raise typer.Exit(2)
+
+
+def guarded(command: Callable[..., Any]) -> Callable[..., Any]:
+    """Turn our input errors and unwritable paths into one line and exit code 2."""
+
+    @wraps(command)
+    def run(*args: Any, **kwargs: Any) -> Any:
+        try:
+            return command(*args, **kwargs)
+        except InputError as error:
+            fail(str(error))
+        except (OSError, UnicodeError) as error:
+            where = getattr(error, "filename", None)
+            reason = getattr(error, "strerror", None) or str(error)
+            fail(f"{where}: {reason}" if where else reason)
+        except RecursionError:  # pragma: no cover - the code is iterative; a last guard
+            fail("the study is nested too deeply to process")
+
+    return run
+
+
+def to_json(value: Any) -> str:
+    """JSON with inf/NaN as null, for the contract's ``null`` for never."""
+
+    def clean(v: Any) -> Any:
+        if isinstance(v, float):
+            return v if math.isfinite(v) else None
+        if isinstance(v, dict):
+            return {k: clean(x) for k, x in v.items()}
+        if isinstance(v, list | tuple):
+            return [clean(x) for x in v]
+        if hasattr(v, "item") and callable(v.item):  # numpy scalars
+            return clean(v.item())
+        return v
+
+    return json.dumps(clean(value), indent=2)
+
+
+def load_study(path: Path):
+    from coordination import study
+
+    return study.load(path)
+
+
+def check_basis(basis: str | None) -> str | None:
+    if basis is not None and basis not in ("typical", "envelope"):
+        raise InputError(f"unknown basis {basis!r}; allowed: typical, envelope", key="--basis")
+    return basis
+
+
+@app.callback(invoke_without_command=True)
+def _root(
+    version: Annotated[bool, typer.Option("--version", help="Print the version and exit.")] = False,
+) -> None:
+    if version:
+        typer.echo(f"coordination {__version__}")
+        raise typer.Exit(0)
+
+
+# ---------------------------------------------------------------------------------------------
+@app.command()
+@guarded
+def times(
+    spec: Annotated[str, typer.Argument(help='Device: shorthand ("B32", "C16", "gG100") or an '
+                                        'inline TOML table ("{family=\'tm\', In_a=250}").',
+                                        show_default=False)],
+    current: Annotated[list[float], typer.Option("--current", "-i",
+                                                 help="Prospective current [A]; repeat.")],
+    basis: Annotated[str, typer.Option("--basis", help="typical or envelope.")] = "typical",
+    as_json: JsonOption = False,
+) -> None:
+    """Earliest and latest operating time of one device at given currents."""
+    from curves.spec import band_from_spec, parse_inline
+
+    check_basis(basis)
+    for i in current:
+        if not math.isfinite(i) or i <= 0:
+            raise InputError(f"current {i:g} A is not allowed; give a finite positive current",
+                             key="--current")
+    band = band_from_spec(parse_inline(spec), basis=basis)
+    t_lo = band.t_min(current)
+    t_hi = band.t_max(current)
+    points = [
+        {"current_a": float(i), "t_min_s": float(lo), "t_max_s": float(hi)}
+        for i, lo, hi in zip(current, t_lo, t_hi, strict=True)
+    ]
+    if as_json:
+        typer.echo(to_json({"device": band.name, "basis": band.basis,
+                            "settings": dict(band.settings), "notes": list(band.notes),
+                            "points": points}))
+        return
+    from coordination.text import format_times
+
+    typer.echo(format_times(band, points))
+
+
+@app.command()
+@guarded
+def faults(study_path: StudyArg, as_json: JsonOption = False) -> None:
+    """Fault levels at every board and circuit end."""
+    from coordination import faults as fault_levels
+
+    s = load_study(study_path)
+    levels = fault_levels.compute(s)
+    if as_json:
+        typer.echo(to_json(levels.to_json()))
+    else:
+        typer.echo(fault_levels.format_table(s, levels))
+
+
+@app.command()
+@guarded
+def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption = None) -> None:
+    """Selectivity of every upstream/downstream pair, plus the protection checks."""
+    from coordination import checks, engine
+    from coordination import faults as fault_levels
+
+    s = load_study(study_path)
+    levels = fault_levels.compute(s)
+    analysis = engine.analyse(s, levels, basis=check_basis(basis))
+    results = checks.run(s, levels)
+    ok = analysis.ok and all(r.ok for r in results)
+    if as_json:
+        typer.echo(to_json({**analysis.to_json(), "checks": [r.to_json() for r in results],
+                            "ok": ok, "caution": CAUTION}))
+    else:
+        typer.echo(engine.format_table(s, levels, analysis))
+        typer.echo("")
+        typer.echo(checks.format_table(results))
+        typer.echo("")
+        typer.echo(CAUTION)
+    raise typer.Exit(0 if ok else 1)
+
+
+@app.command()
+@guarded
+def choose(
+    study_path: StudyArg,
+    circuit: Annotated[str | None, typer.Option("--circuit", help="Circuit id to choose for.")]
+    = None,
+    board: Annotated[str | None, typer.Option(
+        "--board", help="Choose every sub-main and incomer above the final circuits fed from "
+        "this circuit's board, bottom up ('supply' for the whole study).")] = None,
+    family: Annotated[str | None, typer.Option(
+        "--family", help="Device family to search: B, C, D (MCB types), gG, tm, electronic.")]
+    = None,
+    as_json: JsonOption = False,
+) -> None:
+    """Smallest rating or settings for a circuit's device that meet every requirement."""
+    from coordination import choose as chooser
+
+    s = load_study(study_path)
+    if (circuit is None) == (board is None):
+        raise InputError("give exactly one of --circuit ID or --board ID", key="--circuit")
+    if circuit is not None:
+        result = chooser.choose(s, circuit, family=family)
+        results = [result]
+    else:
+        results = list(chooser.choose_board(s, board, family=family))
+    if as_json:
+        payload = results[0].to_json() if circuit is not None else {
+            "choices": [r.to_json() for r in results]}
+        typer.echo(to_json(payload))
+    else:
+        typer.echo(chooser.format_results(results))
+        typer.echo(CAUTION)
+    raise typer.Exit(0 if all(r.found for r in results) else 1)
+
+
+@app.command()
+@guarded
+def plot(
+    study_path: StudyArg,
+    circuit: Annotated[str, typer.Option("--circuit", help="Circuit id to plot.")],
+    output: Annotated[Path, typer.Option("-o", "--output", help="PNG, SVG or PDF file.")],
+    basis: BasisOption = None,
+) -> None:
+    """Time-current plot of a circuit and everything above it."""
+    from coordination.io import check_output_path
+
+    check_output_path(output, inputs=(study_path,), key="-o")
+    if output.suffix.lower() not in (".png", ".svg", ".pdf"):
+        raise InputError(f"unknown plot format {output.suffix!r}; allowed: .png, .svg, .pdf",
+                         key="-o")
+    from coordination import engine
+    from coordination import faults as fault_levels
+    from coordination import plot as plotting
+
+    s = load_study(study_path)
+    if circuit not in s.by_id:
+        raise InputError(f"no circuit {circuit!r} in the study", key="--circuit")
+    levels = fault_levels.compute(s)
+    analysis = engine.analyse(s, levels, basis=check_basis(basis))
+    fig = plotting.plot_circuit(s, levels, analysis, circuit)
+    plotting.save_figure(fig, output)
+    typer.echo(f"wrote {output}")
+
+
+@app.command()
+@guarded
+def report(
+    study_path: StudyArg,
+    output: Annotated[Path, typer.Option("-o", "--output", help="The PDF to write.")],
+    csv: Annotated[bool, typer.Option("--csv", help="Also write the tables as CSV beside it.")]
+    = False,
+    basis: BasisOption = None,
+) -> None:
+    """The selectivity report of the whole study (PDF)."""
+    from coordination.io import check_output_path
+
+    check_output_path(output, inputs=(study_path,), key="-o")
+    if output.suffix.lower() != ".pdf":
+        raise InputError(f"the report is a PDF; give a file ending in .pdf, not {output.name!r}",
+                         key="-o")
+    from coordination import report as reporting
+
+    s = load_study(study_path)
+    summary = reporting.write_report(s, output, csv=csv, basis=check_basis(basis),
+                                     progress=sys.stderr.isatty())
+    typer.echo(f"wrote {output}")
+    for extra in summary.extra_files:
+        typer.echo(f"wrote {extra}")
+    raise typer.Exit(0 if summary.ok else 1)
+
+
+@app.command()
+@guarded
+def demo(
+    output_dir: Annotated[Path, typer.Option("-o", "--output-dir", help="Folder for the report.")]
+    = Path("coordination-demo"),
+) -> None:
+    """Run check and the report on the bundled example installation."""
+    from coordination import report as reporting
+
+    code = reporting.run_demo(output_dir)
+    raise typer.Exit(code)
+
+
+def main() -> None:
+    """Console entry point."""
+    app(prog_name="coordination")
+
+
+if __name__ == "__main__":  # pragma: no cover
+    main()

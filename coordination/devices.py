@@ -1,0 +1,65 @@
+"""Bands for a study's devices, built once per distinct device and basis."""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from functools import lru_cache
+from typing import Any
+
+from coordination.model import Study
+from curves.band import Band
+from curves.errors import InputError
+
+
+def freeze(value: Any) -> Any:
+    """A hashable copy of a device spec (nested mappings and lists become sorted tuples)."""
+    if isinstance(value, Mapping):
+        return tuple(sorted((str(k), freeze(v)) for k, v in value.items()))
+    if isinstance(value, list | tuple):
+        return tuple(freeze(v) for v in value)
+    return value
+
+
+def thaw(value: Any) -> Any:
+    """Undo :func:`freeze` for a spec that was a mapping."""
+    if isinstance(value, tuple) and all(isinstance(x, tuple) and len(x) == 2
+                                        and isinstance(x[0], str) for x in value) and value:
+        return {k: thaw(v) for k, v in value}
+    if isinstance(value, tuple):
+        return [thaw(v) for v in value]
+    return value
+
+
+@lru_cache(maxsize=4096)
+def _band(frozen_spec: Any, basis: str) -> Band:
+    from curves.spec import band_from_spec
+
+    spec = frozen_spec if isinstance(frozen_spec, str) else thaw(frozen_spec)
+    return band_from_spec(spec, basis=basis)
+
+
+def device_band(device: str | Mapping[str, Any], basis: str = "typical") -> Band:
+    """The band of a device spec on a basis, cached: identical devices share one Band."""
+    return _band(freeze(device), basis)
+
+
+def band_for(study: Study, circuit_id: str, basis: str | None = None) -> Band:
+    """The band of a circuit's device.
+
+    Parameters
+    ----------
+    basis : str, optional
+        ``"typical"`` or ``"envelope"``; ``None`` takes the circuit's own basis, else the
+        study's. Safety checks pass ``"envelope"``.
+
+    Raises
+    ------
+    InputError
+        Naming the circuit and the ``device`` key.
+    """
+    circuit = study.by_id[circuit_id]
+    chosen = basis or study.basis_of(circuit_id)
+    try:
+        return device_band(circuit.device, chosen)
+    except InputError as error:
+        raise error.within(circuit=circuit_id, key="device") from None

@@ -1,0 +1,69 @@
+"""Writing output files safely: atomically, never over the study, never half-written."""
+
+from __future__ import annotations
+
+import contextlib
+import os
+import tempfile
+from collections.abc import Callable, Iterator
+from pathlib import Path
+
+from curves.errors import InputError
+
+
+def check_output_path(out: str | os.PathLike, *, inputs: tuple[str | os.PathLike, ...] = (),
+                      key: str = "output") -> Path:
+    """Refuse an output path that is an input file or whose folder does not exist.
+
+    Raises
+    ------
+    InputError
+        Naming the path and what is allowed.
+    """
+    path = Path(out)
+    for source in inputs:
+        if source is not None and path.exists() and Path(source).exists():
+            if path.resolve() == Path(source).resolve():
+                raise InputError(f"output path {str(path)!r} is the input study; choose another",
+                                 key=key)
+    parent = path.parent if str(path.parent) else Path(".")
+    if not parent.is_dir():
+        raise InputError(f"folder {str(parent)!r} does not exist; create it or choose another",
+                         key=key)
+    if path.is_dir():
+        raise InputError(f"{str(path)!r} is a folder; give a file name", key=key)
+    if not os.access(parent, os.W_OK):
+        raise InputError(f"folder {str(parent)!r} is not writable", key=key)
+    return path
+
+
+@contextlib.contextmanager
+def atomic_path(out: str | os.PathLike) -> Iterator[Path]:
+    """A temporary path beside ``out`` that replaces ``out`` only if the block succeeds.
+
+    On any exception the temporary file is removed and ``out`` (if it existed) is untouched.
+    """
+    target = Path(out)
+    fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=target.suffix or ".tmp",
+                               dir=target.parent if str(target.parent) else ".")
+    os.close(fd)
+    tmp_path = Path(tmp)
+    try:
+        yield tmp_path
+        os.replace(tmp_path, target)
+    except BaseException:
+        with contextlib.suppress(OSError):
+            tmp_path.unlink()
+        raise
+
+
+def atomic_write_text(out: str | os.PathLike, text: str) -> None:
+    """Write text to ``out`` atomically."""
+    with atomic_path(out) as tmp:
+        tmp.write_text(text, encoding="utf-8")
+
+
+def atomic_write(out: str | os.PathLike, writer: Callable[[Path], None]) -> None:
+    """Call ``writer(tmp_path)`` and move the result onto ``out`` atomically."""
+    with atomic_path(out) as tmp:
+        writer(tmp)

@@ -1,0 +1,146 @@
+"""Frozen dataclasses of a loaded study: the supply and a tree of circuits.
+
+``coordination.study.load()`` builds these from the TOML study file and validates them; every
+later step (faults, engine, checks, chooser, plot, report) reads them and never mutates them.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from dataclasses import dataclass, field
+from functools import cached_property
+from types import MappingProxyType
+from typing import Any
+
+SUPPLY_ID = "supply"
+
+
+@dataclass(frozen=True)
+class Transformer:
+    """A supply transformer (IEC 60909-0 clause 6.3)."""
+
+    rating_kva: float
+    impedance_pct: float  # short-circuit voltage u_k [%]
+    x_r: float = 6.0  # X/R of the transformer
+    upstream_pfc_a: float | None = None  # the network's fault level referred to LV [A], or infinite
+    upstream_x_r: float = 10.0
+
+
+@dataclass(frozen=True)
+class Supply:
+    """The origin of the installation.
+
+    One of ``pfc_a``, ``ze_ohm`` or ``transformer`` fixes the source impedance; ``ze_ohm`` may be
+    given with ``pfc_a`` (the earth-fault loop outside the installation).
+    """
+
+    u0_v: float = 230.0  # line-to-earth nominal voltage [V]
+    phases: int = 3
+    earthing: str = "TN-C-S"  # "TN-S", "TN-C-S" or "TT"
+    pfc_a: float | None = None  # prospective fault current at the origin [A]
+    ze_ohm: float | None = None  # external earth-fault loop impedance [ohm]
+    x_r: float = 1.0  # X/R of the source impedance when given by pfc_a or ze_ohm
+    transformer: Transformer | None = None
+    c_max: float = 1.05  # IEC 60909-0 Table 1 voltage factor for maximum currents (LV, +6 %)
+    c_min: float = 0.95  # IEC 60909-0 Table 1 voltage factor for minimum currents (LV)
+
+
+@dataclass(frozen=True)
+class Cable:
+    """The cable a circuit feeds through (from its board to its far end)."""
+
+    length_m: float
+    csa_mm2: float  # line conductor cross-section, per conductor
+    cpc_mm2: float | None = None  # protective conductor; None: same as line
+    material: str = "copper"  # "copper" or "aluminium"
+    insulation: str = "pvc"  # "pvc" or "xlpe"
+    iz_a: float | None = None  # current-carrying capacity after derating [A]
+    parallel: int = 1  # conductors in parallel per phase
+    neutral_mm2: float | None = None  # None: same as line
+    x_ohm_per_m: float | None = None  # reactance per metre per conductor; None: common practice
+    cpc_material: str | None = None  # None: same as line conductors
+
+
+@dataclass(frozen=True)
+class Circuit:
+    """One circuit: its protective device at the board, and the cable it feeds.
+
+    ``parent`` is the circuit that feeds the board this circuit's device sits on, or ``"supply"``.
+    ``device`` is the trade shorthand (``"B32"``) or an inline table (a read-only mapping); build
+    its band with ``curves.spec.band_from_spec(device, basis=...)``.
+    """
+
+    id: str
+    parent: str
+    device: str | Mapping[str, Any]
+    phases: int = 3
+    load_a: float | None = None  # design current Ib [A]
+    cable: Cable | None = None
+    basis: str | None = None  # band basis for this device; None: the study's
+    final: bool | None = None  # final circuit (0.4 s class); None: a circuit with no children
+    selective_to_a: float | None = None  # required selectivity up to this current; None: total
+    tested_limits_a: Mapping[str, float] = field(default_factory=dict)  # upstream id -> Is [A]
+    breaking_capacity_a: float | None = None  # overrides the device's own / family default
+    margin: float | None = None  # time margin factor for pairs where this is downstream
+    interval_s: float | None = None  # coordination time interval over adjustable breakers [s]
+    board: str | None = None  # name of the board this circuit feeds (shown in printouts)
+
+    def __post_init__(self) -> None:
+        if isinstance(self.device, Mapping) and not isinstance(self.device, MappingProxyType):
+            object.__setattr__(self, "device", MappingProxyType(dict(self.device)))
+        object.__setattr__(self, "tested_limits_a", MappingProxyType(dict(self.tested_limits_a)))
+
+
+@dataclass(frozen=True)
+class Study:
+    """A whole installation: the supply and its circuits, parents listed before children."""
+
+    title: str
+    supply: Supply
+    circuits: tuple[Circuit, ...]
+    basis: str = "typical"  # default band basis: "typical" or "envelope"
+    margin: float = 1.0  # default time margin factor: D's t_max * margin must stay below U's t_min
+    interval_s: float = 0.0  # default coordination time interval over adjustable breakers [s]
+    source: str | None = None  # path of the study file, when loaded from one
+
+    # -- navigation (computed once, iteratively: deep trees never recurse) ----------------------
+    @cached_property
+    def by_id(self) -> Mapping[str, Circuit]:
+        return MappingProxyType({c.id: c for c in self.circuits})
+
+    @cached_property
+    def children(self) -> Mapping[str, tuple[str, ...]]:
+        kids: dict[str, list[str]] = {SUPPLY_ID: []}
+        for c in self.circuits:
+            kids.setdefault(c.id, [])
+            kids.setdefault(c.parent, []).append(c.id)
+        return MappingProxyType({k: tuple(v) for k, v in kids.items()})
+
+    @cached_property
+    def _ancestors(self) -> Mapping[str, tuple[str, ...]]:
+        # circuits are ordered parents-first, so each parent's chain is known when needed
+        chains: dict[str, tuple[str, ...]] = {}
+        for c in self.circuits:
+            chains[c.id] = () if c.parent == SUPPLY_ID else (c.parent, *chains[c.parent])
+        return MappingProxyType(chains)
+
+    def ancestors(self, circuit_id: str) -> tuple[str, ...]:
+        """Ids of every circuit above this one, nearest first."""
+        return self._ancestors[circuit_id]
+
+    def is_final(self, circuit_id: str) -> bool:
+        """A final circuit: said so in the study, or else one that feeds no board."""
+        c = self.by_id[circuit_id]
+        return c.final if c.final is not None else not self.children.get(circuit_id)
+
+    def board_name(self, circuit_id: str) -> str:
+        """Name of the board a circuit's device sits on (its parent's board, or the origin)."""
+        parent = self.by_id[circuit_id].parent
+        if parent == SUPPLY_ID:
+            return "origin"
+        return self.by_id[parent].board or parent
+
+    def basis_of(self, circuit_id: str) -> str:
+        """The band basis used for this circuit's device in selectivity."""
+        c = self.by_id[circuit_id]
+        return c.basis or self.basis

@@ -1,0 +1,52 @@
+"""Plain-text tables for the terminal (no colour codes: output is often piped or printed)."""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+
+from curves.band import Band
+
+
+def format_seconds(t: float | None) -> str:
+    """A time for people: 'never', ms below 1 s, s above."""
+    if t is None or not math.isfinite(t):
+        return "never"
+    if t < 1.0:
+        return f"{t * 1000:.3g} ms"
+    return f"{t:.4g} s"
+
+
+def format_current(i_a: float | None) -> str:
+    """A current for people: A below 1 kA, kA above."""
+    if i_a is None or not math.isfinite(i_a):
+        return "-"
+    return f"{i_a / 1000:.3g} kA" if i_a >= 1000 else f"{i_a:.4g} A"
+
+
+def table(headers: Sequence[str], rows: Sequence[Sequence[str]], align: str | None = None) -> str:
+    """A plain aligned table; ``align`` is one character per column, 'l' or 'r'."""
+    align = align or "l" * len(headers)
+    widths = [len(h) for h in headers]
+    for row in rows:
+        widths = [max(w, len(cell)) for w, cell in zip(widths, row, strict=True)]
+
+    def line(cells: Sequence[str]) -> str:
+        return "  ".join(c.rjust(w) if a == "r" else c.ljust(w)
+                         for c, w, a in zip(cells, widths, align, strict=True)).rstrip()
+
+    rule = "  ".join("-" * w for w in widths)
+    return "\n".join([line(headers), rule, *(line(r) for r in rows)])
+
+
+def format_times(band: Band, points: Sequence[dict]) -> str:
+    """The `times` table: earliest and latest operating time per current."""
+    head = f"{band.name}  basis: {band.basis}"
+    rows = [
+        [format_current(p["current_a"]), f"{p['current_a'] / band.rating_a:.3g}",
+         format_seconds(p["t_min_s"]), format_seconds(p["t_max_s"])]
+        for p in points
+    ]
+    body = table(["current", "x In", "earliest (t_min)", "latest (t_max)"], rows, "rrrr")
+    notes = "".join(f"\nnote: {n}" for n in band.notes)
+    return f"{head}\n{body}{notes}"
