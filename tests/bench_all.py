@@ -1,0 +1,125 @@
+"""Benchmark: whole processes and in-process stages, on invented buildings of two sizes.
+
+Run from the repository root (not collected by pytest)::
+
+    python tests/bench_all.py
+
+It generates an invented building (an incomer, 10 risers, 5 boards each, 40 final circuits per
+board: 2,061 circuits) and a quarter-size one, then times as whole processes ``--help``, ``times``,
+``faults``, ``check``, ``choose`` on a riser and ``report`` on the multi-board example, against the
+floor any tool on these libraries pays (``python -c "import numpy, scipy, shapely"``), and the
+same stages inside one process. Peak memory is the children's maximum resident set size.
+"""
+
+from __future__ import annotations
+
+import os
+import statistics
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+HERE = Path(__file__).resolve().parent
+sys.path.insert(0, str(HERE))
+sys.path.insert(0, str(HERE.parent))
+
+from generate import building  # noqa: E402
+
+REPEATS = 3
+
+
+def wall(cmd: list[str], repeats: int = REPEATS) -> tuple[float, int]:
+    """Median wall time [s] of a command and its exit code."""
+    times, code = [], 0
+    for _ in range(repeats):
+        start = time.perf_counter()
+        code = subprocess.run(cmd, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL).returncode
+        times.append(time.perf_counter() - start)
+    return statistics.median(times), code
+
+
+def peak_rss_mb(cmd: list[str]) -> float:
+    """Peak resident memory of one run of a command [MB] (Linux: ru_maxrss in KiB)."""
+    script = ("import resource, subprocess, sys; subprocess.run(sys.argv[1:], "
+              "stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL); "
+              "print(resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss)")
+    out = subprocess.run([sys.executable, "-c", script, *cmd], capture_output=True, text=True)
+    return int(out.stdout.strip() or 0) / 1024
+
+
+def in_process(path: Path) -> dict[str, float]:
+    """Stage times inside one process [s]."""
+    from coordination import checks, engine, faults, study
+    from coordination.devices import _band
+
+    _band.cache_clear()
+    t0 = time.perf_counter()
+    s = study.load(path)
+    t1 = time.perf_counter()
+    levels = faults.compute(s)
+    t2 = time.perf_counter()
+    analysis = engine.analyse(s, levels)
+    t3 = time.perf_counter()
+    checks.run(s, levels)
+    t4 = time.perf_counter()
+    return {"load": t1 - t0, "faults": t2 - t1, "engine": t3 - t2, "checks": t4 - t3,
+            "pairs": len(analysis.pairs)}
+
+
+def main() -> None:
+    exe = [sys.executable, "-m", "coordination"]
+    example = HERE.parent / "examples" / "office-building.toml"
+    print(f"machine: {os.cpu_count()} cores, Python {sys.version.split()[0]}")
+    with tempfile.TemporaryDirectory() as tmp:
+        full = Path(tmp) / "building-2061.toml"
+        full.write_text(building(10, 5, 40))
+        quarter = Path(tmp) / "building-quarter.toml"
+        quarter.write_text(building(10, 5, 10))
+        n_quarter = 1 + 10 + 50 + 500
+
+        floor, _ = wall([sys.executable, "-c", "import numpy, scipy, shapely"])
+        rows = [("import floor (numpy, scipy, shapely)", floor, 0)]
+        rows.append(("coordination --help", *wall([*exe, "--help"])))
+        rows.append(("times B32 (3 currents)",
+                     *wall([*exe, "times", "B32", "-i", "100", "-i", "200", "-i", "5000"])))
+        for label, path in ((f"quarter ({n_quarter} circuits)", quarter),
+                            ("full (2,061 circuits)", full)):
+            rows.append((f"faults, {label}", *wall([*exe, "faults", str(path), "--json"])))
+            rows.append((f"check, {label}", *wall([*exe, "check", str(path), "--json"])))
+        rows.append(("choose riser-1, full",
+                     *wall([*exe, "choose", str(full), "--circuit", "riser-1", "--json"], 1)))
+        pdf = Path(tmp) / "report.pdf"
+        rows.append(("report, office-building example",
+                     *wall([*exe, "report", str(example), "-o", str(pdf)], 1)))
+        pages = 0
+        if pdf.exists():
+            from pypdf import PdfReader
+
+            pages = len(PdfReader(pdf).pages)
+
+        print(f"\n{'whole process (median of ' + str(REPEATS) + ')':44} {'wall s':>8} "
+              f"{'over floor':>10} {'exit':>4}")
+        for label, seconds, code in rows:
+            print(f"{label:44} {seconds:8.3f} {seconds - floor:10.3f} {code:4d}")
+        if pages:
+            report_s = next(s for lab, s, _ in rows if lab.startswith("report"))
+            print(f"report: {pages} pages, {report_s / pages:.3f} s a page")
+        check_full = next(s for lab, s, _ in rows if lab == "check, full (2,061 circuits)")
+        check_quarter = next(s for lab, s, _ in rows if lab.startswith("check, quarter"))
+        print(f"check full / floor: {check_full / floor:.2f}x; growth above the floor for "
+              f"{2061 / n_quarter:.1f}x the circuits: "
+              f"{(check_full - floor) / max(check_quarter - floor, 1e-9):.2f}x")
+        peak = peak_rss_mb([*exe, "check", str(full), "--json"])
+        print(f"peak memory, check full: {peak:.0f} MB")
+
+        print("\nin process (first run, cold caches):")
+        for label, path in (("quarter", quarter), ("full", full)):
+            stages = in_process(path)
+            print(f"  {label:8} " + "  ".join(
+                f"{k} {v:.3f} s" if k != "pairs" else f"{int(v)} pairs" for k, v in stages.items()))
+
+
+if __name__ == "__main__":
+    main()
