@@ -205,6 +205,7 @@ def choose(
     if as_json:
         payload = results[0].to_json() if circuit is not None else {
             "choices": [r.to_json() for r in results]}
+        payload["caution"] = CAUTION
         typer.echo(to_json(payload))
     else:
         typer.echo(chooser.format_results(results))
@@ -282,8 +283,23 @@ def demo(
 
 
 def main() -> None:
-    """Console entry point."""
-    app(prog_name="coordination")
+    """Console entry point: usage errors, like input errors, are one line and exit code 2."""
+    try:
+        code = app(prog_name="coordination", standalone_mode=False)
+    except typer.Abort:
+        typer.echo("error: interrupted", err=True)
+        sys.exit(130)
+    except Exception as error:  # click's usage errors (vendored by newer typer releases)
+        if not (hasattr(error, "format_message") and hasattr(error, "exit_code")):
+            raise
+        ctx = getattr(error, "ctx", None)
+        if type(error).__name__ == "NoArgsIsHelpError" and ctx is not None:
+            typer.echo(ctx.get_help())
+            sys.exit(0)
+        hint = f" (see '{ctx.command_path} --help')" if ctx is not None else ""
+        typer.echo(f"error: {error.format_message()}{hint}", err=True)
+        sys.exit(error.exit_code)
+    sys.exit(code if isinstance(code, int) else 0)
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -36,13 +36,17 @@ class Supply:
 
     u0_v: float = 230.0  # line-to-earth nominal voltage [V]
     phases: int = 3
-    earthing: str = "TN-C-S"  # "TN-S", "TN-C-S" or "TT"
-    pfc_a: float | None = None  # prospective fault current at the origin [A]
+    earthing: str = "TN-C-S"  # "TN-S", "TN-C-S", "TN-C" or "TT"
+    pfc_a: float | None = None  # prospective fault current at the origin [A]: line-neutral for a
+    # single-phase supply, three-phase symmetrical for a three-phase one
     ze_ohm: float | None = None  # external earth-fault loop impedance [ohm]
     x_r: float = 1.0  # X/R of the source impedance when given by pfc_a or ze_ohm
     transformer: Transformer | None = None
     c_max: float = 1.05  # IEC 60909-0 Table 1 voltage factor for maximum currents (LV, +6 %)
     c_min: float = 0.95  # IEC 60909-0 Table 1 voltage factor for minimum currents (LV)
+    pfc_ln_a: float | None = None  # line-neutral prospective fault current at the origin of a
+    # three-phase supply [A]; None: bounded, pfc_a for maximum currents, a loop of twice the
+    # phase impedance (half the current) for minimum currents (see coordination.faults)
 
 
 @dataclass(frozen=True)
@@ -56,9 +60,10 @@ class Cable:
     insulation: str = "pvc"  # "pvc" or "xlpe"
     iz_a: float | None = None  # current-carrying capacity after derating [A]
     parallel: int = 1  # conductors in parallel per phase
-    neutral_mm2: float | None = None  # None: same as line
+    neutral_mm2: float | None = None  # None: same as line; 0: no neutral (three-phase only)
     x_ohm_per_m: float | None = None  # reactance per metre per conductor; None: common practice
     cpc_material: str | None = None  # None: same as line conductors
+    cpc_parallel: int | None = None  # protective conductors in parallel; None: same as parallel
 
 
 @dataclass(frozen=True)

@@ -207,5 +207,8 @@ class Band:
 
     def describe(self) -> str:
         """One line: name, basis and the settings that define it."""
-        settings = ", ".join(f"{k}={v:g}" for k, v in self.settings.items())
+        settings = ", ".join(
+            f"{k}={v:g}" if isinstance(v, int | float) and not isinstance(v, bool) else f"{k}={v}"
+            for k, v in self.settings.items()
+        )
         return f"{self.name} ({self.basis}{'; ' + settings if settings else ''})"

@@ -90,3 +90,54 @@ def wide(width: int) -> str:
         parts.append(_circuit(f"c{f + 1}", "incomer", device, phases=1, length_m=12,
                               csa_mm2=csa, cpc_mm2=cpc, iz_a=iz))
     return "\n".join(parts)
+
+
+def _toml_value(value: object) -> str:
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, float):
+        if value != value:
+            return "nan"
+        if value in (float("inf"), float("-inf")):
+            return "inf" if value > 0 else "-inf"
+        return repr(value)
+    if isinstance(value, int):
+        return str(value)
+    if isinstance(value, str):
+        return '"' + value.replace("\\", "\\\\").replace('"', '\\"') + '"'
+    if isinstance(value, list):
+        return "[" + ", ".join(_toml_value(v) for v in value) + "]"
+    if isinstance(value, dict):
+        return "{" + ", ".join(f'"{k}" = {_toml_value(v)}' for k, v in value.items()) + "}"
+    raise TypeError(f"cannot write {type(value).__name__} as TOML")
+
+
+def to_toml(doc: dict) -> str:
+    """A study document (nested dicts, a list of circuit tables) as TOML text.
+
+    Scalars and inline values of a table come first, then its sub-tables, then arrays of tables,
+    as TOML requires. Enough for study documents; not a general TOML writer.
+    """
+    out: list[str] = []
+
+    def table(prefix: str, body: dict, array: bool = False) -> None:
+        if prefix:
+            out.append(f"[[{prefix}]]" if array else f"[{prefix}]")
+        subtables = []
+        for key, value in body.items():
+            if isinstance(value, dict) and key != "device" and key != "tested_limits_a":
+                subtables.append((key, value, False))
+            elif isinstance(value, list) and value and all(isinstance(v, dict) for v in value):
+                subtables.append((key, value, True))
+            else:
+                out.append(f'"{key}" = {_toml_value(value)}')
+        for key, value, is_array in subtables:
+            name = f"{prefix}.{key}" if prefix else key
+            if is_array:
+                for item in value:
+                    table(name, item, array=True)
+            else:
+                table(name, value)
+
+    table("", doc)
+    return "\n".join(out) + "\n"

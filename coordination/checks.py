@@ -1,0 +1,850 @@
+"""Protection checks beside selectivity: disconnection, overload, fault energy, breaking capacity.
+
+A selective design that leaves a cable unprotected or an earth fault uncleared is no design. For
+every circuit of a study, with the fault levels of :func:`coordination.faults.compute`, this module
+runs four checks a designer documents beside selectivity:
+
+``disconnection``
+    The device's latest operating time at the minimum earth-fault current at the circuit's far
+    end against IEC 60364-4-41 Table 41.1 (final circuits) or the 5 s / 1 s of distribution
+    circuits; the maximum loop impedance Zs for that device is shown beside the circuit's Zs.
+``overload``
+    Ib <= In <= Iz and I2 <= 1.45 Iz (IEC 60364-4-43, 433.1), where the study gives Ib or Iz.
+``fault-energy``
+    The adiabatic rule S >= sqrt(I2t) / k (IEC 60364-4-43, 434.5.2; IEC 60364-5-54, 543.1.2) for
+    the line conductors and the protective conductor.
+``breaking-capacity``
+    The device's rated short-circuit breaking capacity against the largest fault at its board
+    (IEC 60364-4-43, 434.5.1).
+
+These are safety checks: they always take the worst case that a device complying with its
+standard allows (the band's envelope basis: the upper edge, the maximum let-through energy),
+whatever basis the study chose for selectivity. For MCBs this reproduces BS 7671 Table 41.3: the
+0.4 s of Table 41.1 is met only in the instantaneous region, so Ia is the upper instantaneous
+multiple times In.
+
+Every result reads the same way: it passes when ``value <= limit`` (a time, a current or a
+cross-section in ``unit``), and its ``reason`` is one line a designer can act on.
+"""
+
+from __future__ import annotations
+
+import math
+from collections import defaultdict
+from collections.abc import Iterable, Mapping, Sequence
+from dataclasses import dataclass, field
+from functools import lru_cache
+from types import MappingProxyType
+from typing import Any
+
+import numpy as np
+
+from coordination.model import Study
+from curves.band import Band
+from curves.errors import InputError
+
+#: Check names, in the order they are run and printed.
+CHECK_NAMES = ("disconnection", "overload", "fault-energy", "breaking-capacity")
+
+#: The adiabatic rule holds for faults cleared within this time [s] (IEC 60364-4-43, 434.5.2).
+ADIABATIC_LIMIT_S = 5.0
+
+#: Final circuits within the scope of Table 41.1 carry at most this current [A]
+#: (IEC 60364-4-41:2005, 411.3.2.2; larger final circuits take the 5 s / 1 s of 411.3.2.4 /
+#: 411.3.2.4 for TT). BS 7671 raises it to 63 A for socket-outlet circuits (from memory).
+FINAL_CIRCUIT_SCOPE_A = 32.0
+
+#: IEC 60364-4-41:2005 Table 41.1, maximum disconnection times of final circuits, a.c. [s]:
+#: (U0 above [V], U0 up to [V], TN [s], TT [s]).
+#: Rows 120 < U0 <= 230 V and 230 < U0 <= 400 V: confirmed (REFERENCE.md);
+#: rows 50 < U0 <= 120 V and U0 > 400 V: from memory.
+TABLE_41_1 = (
+    (50.0, 120.0, 0.8, 0.3),  # from memory
+    (120.0, 230.0, 0.4, 0.2),  # confirmed
+    (230.0, 400.0, 0.2, 0.07),  # confirmed
+    (400.0, math.inf, 0.1, 0.04),  # from memory
+)
+TABLE_41_1_SOURCE = "IEC 60364-4-41 Table 41.1"
+
+#: Distribution circuits (and final circuits beyond the scope of Table 41.1) [s]:
+#: TN 5 s (IEC 60364-4-41, 411.3.2.3), TT 1 s (411.3.2.4). Confirmed (REFERENCE.md).
+DISTRIBUTION_TIME_S = {"TN": 5.0, "TT": 1.0}
+
+#: The earthing systems the checks know, and the row of Table 41.1 they read.
+EARTHING_KIND = {"TN-S": "TN", "TN-C-S": "TN", "TN-C": "TN", "TN": "TN", "TT": "TT"}
+
+#: k for the adiabatic rule [A s^0.5 / mm2]: (material, insulation) -> (k up to 300 mm2,
+#: k above 300 mm2). IEC 60364-4-43 Table 43A (line conductors) and IEC 60364-5-54 Table A.54.3
+#: (a protective conductor that is a core of the cable). Copper PVC 115 / 103, copper XLPE/EPR
+#: 143, aluminium PVC 76, aluminium XLPE 94: confirmed (REFERENCE.md); aluminium PVC above
+#: 300 mm2 (68): from memory.
+K_TABLE = {
+    ("copper", "pvc"): (115.0, 103.0),
+    ("copper", "xlpe"): (143.0, 143.0),
+    ("aluminium", "pvc"): (76.0, 68.0),  # 68 above 300 mm2: from memory
+    ("aluminium", "xlpe"): (94.0, 94.0),
+}
+K_TABLE_SOURCE = "IEC 60364-4-43 Table 43A / IEC 60364-5-54 Table A.54.3"
+#: Other spellings accepted for the table's keys.
+MATERIAL_ALIASES = {"cu": "copper", "copper": "copper", "al": "aluminium",
+                    "aluminium": "aluminium", "aluminum": "aluminium"}
+INSULATION_ALIASES = {"pvc": "pvc", "xlpe": "xlpe", "epr": "xlpe", "xlpe/epr": "xlpe"}
+
+#: The fastest overcurrent device a circuit can have operates within 0.1 s at 5 In (an IEC
+#: 60898-1 type B MCB's upper instantaneous multiple): below 5 Ib no overcurrent device able to
+#: carry the load disconnects fast enough, and only an RCD can (common practice).
+FASTEST_OVERCURRENT_MULTIPLE = 5.0
+
+#: Study-file keys of a device table that state its breaking capacity.
+CAPACITY_KEYS = ("icn_a", "icu_a", "ics_a", "breaking_capacity_a")
+
+
+# -------------------------------------------------------------------------------------------
+# the result
+@dataclass(frozen=True)
+class CheckResult:
+    """One protection check of one circuit.
+
+    Parameters
+    ----------
+    circuit : str
+        Circuit id.
+    check : str
+        One of :data:`CHECK_NAMES`.
+    ok : bool
+        The check passes (``value <= limit`` and nothing else stands against it).
+    value : float
+        What the installation has or needs, in ``unit`` (operating time [s], current [A],
+        required cross-section [mm2]); ``inf`` for never.
+    limit : float
+        What it must not exceed, in ``unit``.
+    unit : str
+        ``"s"``, ``"A"`` or ``"mm2"``.
+    reason : str
+        One line a designer can act on.
+    basis : str
+        Basis of the band used (``"envelope"``, or ``"datasheet"`` for a device given by points).
+    details : mapping
+        Further numbers with units in their keys (``zs_ohm``, ``zs_max_ohm``, ``current_a``,
+        ``source`` ...), for the JSON output and the report.
+    """
+
+    circuit: str
+    check: str
+    ok: bool
+    value: float
+    limit: float
+    unit: str
+    reason: str
+    basis: str
+    details: Mapping[str, Any] = field(default_factory=dict)
+
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "details", MappingProxyType(dict(self.details)))
+
+    def to_json(self) -> dict[str, Any]:
+        """The contract keys (circuit, check, ok, value, limit, unit) and more; ``None`` for
+        never."""
+        out = {
+            "circuit": self.circuit,
+            "check": self.check,
+            "ok": bool(self.ok),
+            "value": _finite(self.value),
+            "limit": _finite(self.limit),
+            "unit": self.unit,
+            "reason": self.reason,
+            "basis": self.basis,
+        }
+        for key, val in self.details.items():
+            numeric = isinstance(val, float | int) and not isinstance(val, bool)
+            out.setdefault(key, _finite(val) if numeric else val)
+        return out
+
+
+def _finite(x: Any) -> Any:
+    if x is None:
+        return None
+    x = float(x)
+    return x if math.isfinite(x) else None
+
+
+# -------------------------------------------------------------------------------------------
+# pure physics and tables
+def disconnection_time_s(u0_v: float, earthing: str, final: bool) -> float:
+    """Maximum disconnection time for fault protection by automatic disconnection [s].
+
+    Parameters
+    ----------
+    u0_v : float
+        Nominal a.c. line-to-earth voltage U0 [V], above 50 V.
+    earthing : str
+        ``"TN-S"``, ``"TN-C-S"``, ``"TN-C"`` or ``"TT"``.
+    final : bool
+        ``True`` for a final circuit within the scope of Table 41.1; ``False`` for a
+        distribution circuit (or a final circuit beyond that scope).
+
+    Returns
+    -------
+    float
+        The time [s].
+
+    Raises
+    ------
+    InputError
+        For U0 of 50 V or less, or an earthing system not in the list.
+
+    References
+    ----------
+    IEC 60364-4-41:2005, 411.3.2.2 and Table 41.1 (final circuits); 411.3.2.3 (TN distribution
+    circuits, 5 s); 411.3.2.4 (TT distribution circuits, 1 s).
+
+    Examples
+    --------
+    >>> print(disconnection_time_s(230.0, "TN-C-S", True))
+    0.4
+    """
+    kind = EARTHING_KIND.get(str(earthing).upper())
+    if kind is None:
+        allowed = ", ".join(k for k in EARTHING_KIND if k != "TN")
+        raise InputError(f"earthing {earthing!r} is not covered by the checks; allowed: {allowed}",
+                         key="supply.earthing")
+    if not (math.isfinite(u0_v) and u0_v > 50.0):
+        raise InputError(f"U0 {u0_v:g} V is outside Table 41.1 of IEC 60364-4-41; give U0 above "
+                         "50 V a.c.", key="supply.u0_v")
+    if not final:
+        return DISTRIBUTION_TIME_S[kind]
+    for above, up_to, tn, tt in TABLE_41_1:
+        if above < u0_v <= up_to:
+            return tn if kind == "TN" else tt
+    raise AssertionError("Table 41.1 covers every U0 above 50 V")  # pragma: no cover
+
+
+def operating_current_a(band: Band, t_s: float) -> float:
+    """Least current at which the band's upper edge is at or below ``t_s`` [A].
+
+    The worst case a device of this band allows: at this current and above, it has cleared by
+    ``t_s``. Found by a vectorised scan in log current followed by bisection on the upper edge
+    (which never rises with current), so a step in the edge (an instantaneous release) is found
+    exactly.
+
+    Parameters
+    ----------
+    band : Band
+        The device (use the envelope basis for a safety check).
+    t_s : float
+        Operating time [s], positive.
+
+    Returns
+    -------
+    float
+        Ia [A]; ``inf`` when the device may never operate that fast.
+
+    References
+    ----------
+    IEC 60364-4-41:2005, 411.4.4 (Ia, the current causing automatic operation within the time).
+
+    Examples
+    --------
+    >>> from curves.mcb import mcb_band
+    >>> print(round(operating_current_a(mcb_band("B", 32, basis="envelope"), 0.4), 6))
+    160.0
+    """
+    return _operating_current_a(band, float(t_s))
+
+
+@lru_cache(maxsize=4096)
+def _operating_current_a(band: Band, t_s: float) -> float:
+    # bands are hashable by their key and shared through coordination.devices' cache
+    lo = max(float(band.pickup_min_a), 1e-6)
+    hi = max(float(band.rating_a), lo) * 1e6
+    grid = np.geomspace(lo, hi, 4001)
+    fast = band.t_max(grid) <= t_s
+    if not fast.any():
+        return math.inf
+    k = int(np.argmax(fast))
+    if k == 0:
+        return float(grid[0])
+    a, b = math.log(grid[k - 1]), math.log(grid[k])  # t_max(e^a) > t_s >= t_max(e^b)
+    for _ in range(60):
+        mid = 0.5 * (a + b)
+        if float(band.t_max(math.exp(mid))) <= t_s:
+            b = mid
+        else:
+            a = mid
+        if b - a < 1e-13:
+            break
+    return math.exp(b)
+
+
+def max_zs_ohm(band: Band, u0_v: float, t_s: float, c_min: float = 0.95) -> float:
+    """Largest earth-fault loop impedance with which the device disconnects within ``t_s`` [ohm].
+
+    ``Zs_max = c_min * U0 / Ia`` with Ia the current at which the band's upper edge reaches
+    ``t_s`` (:func:`operating_current_a`). For an MCB on its envelope, 0.4 s is reached only in
+    the instantaneous region, so Ia is the upper instantaneous multiple times In (5, 10, 20 In for
+    types B, C, D) and the result is BS 7671 Table 41.3.
+
+    Parameters
+    ----------
+    band : Band
+        The device, on the envelope basis for a safety check.
+    u0_v : float
+        Nominal line-to-earth voltage U0 [V].
+    t_s : float
+        Required disconnection time [s].
+    c_min : float
+        Voltage factor for minimum fault currents [-] (0.95, IEC 60909-0 Table 1; BS 7671 Cmin).
+
+    Returns
+    -------
+    float
+        Zs_max [ohm]; 0 when the device never operates that fast.
+
+    References
+    ----------
+    IEC 60364-4-41:2005, 411.4.4 (Zs x Ia <= U0); BS 7671:2018 Table 41.3 and Appendix 3
+    (Cmin = 0.95).
+
+    Examples
+    --------
+    >>> from curves.mcb import mcb_band
+    >>> print(round(max_zs_ohm(mcb_band("B", 32, basis="envelope"), 230.0, 0.4), 2))
+    1.37
+    """
+    ia = operating_current_a(band, t_s)
+    return c_min * u0_v / ia if math.isfinite(ia) else 0.0
+
+
+def adiabatic_min_csa_mm2(i2t_a2s: Any, k: float) -> Any:
+    """Least conductor cross-section that withstands a fault's energy adiabatically [mm2].
+
+    ``S = sqrt(I2t) / k``, valid for faults cleared within 5 s.
+
+    Parameters
+    ----------
+    i2t_a2s : float or array_like
+        Energy let through by the protective device, I^2 t [A^2 s].
+    k : float
+        Factor of the conductor material and insulation [A s^0.5 / mm2] (:func:`k_factor`).
+
+    Returns
+    -------
+    float or ndarray
+        S [mm2].
+
+    References
+    ----------
+    IEC 60364-4-43:2008, 434.5.2 (line conductors); IEC 60364-5-54:2011, 543.1.2 (protective
+    conductors).
+
+    Examples
+    --------
+    >>> print(round(adiabatic_min_csa_mm2(460.0**2 * 0.1, 115.0), 2))
+    1.26
+    """
+    out = np.sqrt(np.asarray(i2t_a2s, dtype=np.float64)) / float(k)
+    return float(out) if out.ndim == 0 else out
+
+
+def k_factor(material: str, insulation: str, csa_mm2: float) -> float:
+    """The adiabatic factor k of a conductor [A s^0.5 / mm2].
+
+    Parameters
+    ----------
+    material : str
+        ``"copper"`` or ``"aluminium"``.
+    insulation : str
+        ``"pvc"`` (70 degC) or ``"xlpe"`` (90 degC; ``"epr"`` is the same).
+    csa_mm2 : float
+        Cross-section of one conductor [mm2] (PVC changes above 300 mm2).
+
+    Returns
+    -------
+    float
+        k [A s^0.5 / mm2].
+
+    Raises
+    ------
+    InputError
+        For a material or insulation not in the table.
+
+    References
+    ----------
+    IEC 60364-4-43:2008 Table 43A (line conductors); IEC 60364-5-54:2011 Table A.54.3 (a
+    protective conductor that is a core of a multicore cable).
+
+    Examples
+    --------
+    >>> print(k_factor("copper", "pvc", 2.5))
+    115.0
+    """
+    mat = MATERIAL_ALIASES.get(str(material).lower())
+    ins = INSULATION_ALIASES.get(str(insulation).lower())
+    if mat is None:
+        raise InputError(f"conductor material {material!r} has no k; allowed: copper, aluminium",
+                         key="cable.material")
+    if ins is None:
+        raise InputError(f"insulation {insulation!r} has no k; allowed: pvc, xlpe, epr",
+                         key="cable.insulation")
+    small, large = K_TABLE[(mat, ins)]
+    return small if csa_mm2 <= 300.0 else large
+
+
+def overload_conditions(ib_a: float | None, in_a: float, iz_a: float | None,
+                        i2_a: float) -> tuple[tuple[str, float, float], ...]:
+    """The overload conditions that the given data allow, as (name, value [A], limit [A]).
+
+    ``Ib <= In`` when Ib is given; ``In <= Iz`` and ``I2 <= 1.45 Iz`` when Iz is given. Each
+    holds when value <= limit.
+
+    Parameters
+    ----------
+    ib_a : float or None
+        Design current Ib [A].
+    in_a : float
+        Rated current or current setting of the device In (Ir) [A].
+    iz_a : float or None
+        Current-carrying capacity of the cable after derating Iz [A].
+    i2_a : float
+        Current ensuring the device operates within the conventional time I2 [A].
+
+    References
+    ----------
+    IEC 60364-4-43:2008, 433.1, equations (1) and (2).
+
+    Examples
+    --------
+    >>> print(overload_conditions(None, 32.0, 34.0, 1.6 * 32.0)[-1])
+    ('I2 <= 1.45 Iz', 51.2, 49.3)
+    """
+    terms: list[tuple[str, float, float]] = []
+    if ib_a is not None:
+        terms.append(("Ib <= In", float(ib_a), float(in_a)))
+    if iz_a is not None:
+        terms.append(("In <= Iz", float(in_a), float(iz_a)))
+        terms.append(("I2 <= 1.45 Iz", float(i2_a), round(1.45 * float(iz_a), 12)))
+    return tuple(terms)
+
+
+def overload_ok(ib_a: float | None, in_a: float, iz_a: float | None, i2_a: float) -> bool:
+    """Whether Ib <= In <= Iz and I2 <= 1.45 Iz hold (those the data allow).
+
+    References
+    ----------
+    IEC 60364-4-43:2008, 433.1.
+
+    Examples
+    --------
+    >>> print(overload_ok(20.0, 32.0, 34.0, 1.45 * 32.0))
+    True
+    """
+    return all(v <= lim for _, v, lim in overload_conditions(ib_a, in_a, iz_a, i2_a))
+
+
+# -------------------------------------------------------------------------------------------
+# formatting helpers (our own wording)
+def _a(i: float) -> str:
+    if not math.isfinite(i):
+        return "-"
+    return f"{i / 1000:.3g} kA" if i >= 1000 else f"{i:.3g} A"
+
+
+def _s(t: float) -> str:
+    if not math.isfinite(t):
+        return "never"
+    return f"{t * 1000:.3g} ms" if t < 0.1 else f"{t:.3g} s"
+
+
+def _ohm(z: float) -> str:
+    return f"{z:.3g} ohm" if z < 0.1 else f"{z:.2f} ohm"
+
+
+def _mm2(s: float) -> str:
+    return "-" if not math.isfinite(s) else f"{s:.3g} mm2"
+
+
+def _in_a(band: Band) -> float:
+    """The device's current setting: Ir for adjustable breakers, else In [A]."""
+    return float(band.settings.get("Ir_a", band.rating_a) or band.rating_a)
+
+
+def _get(node: Any, name: str, default: float | None = None) -> float | None:
+    value = getattr(node, name, None)
+    return default if value is None else float(value)
+
+
+def _tmax(band: Band, i: float) -> float:
+    return float(band.t_max(i)) if i > 0 else math.inf
+
+
+# -------------------------------------------------------------------------------------------
+# the four checks of one circuit
+def _disconnection(study: Study, cid: str, band: Band, node: Any) -> CheckResult:
+    supply = study.supply
+    kind = EARTHING_KIND.get(str(supply.earthing).upper(), "TN")
+    in_a = _in_a(band)
+    final = study.is_final(cid)
+    in_scope = final and in_a <= FINAL_CIRCUIT_SCOPE_A
+    limit = disconnection_time_s(supply.u0_v, supply.earthing, in_scope)
+    if in_scope:
+        what, source = f"final circuit, {kind}", TABLE_41_1_SOURCE
+    else:
+        clause = f"IEC 60364-4-41 411.3.2.{3 if kind == 'TN' else 4}"
+        what = (f"final circuit above {FINAL_CIRCUIT_SCOPE_A:g} A, {kind}" if final
+                else f"distribution circuit, {kind}")
+        source = clause
+    ief = _get(node, "ief_min_a", 0.0) or 0.0
+    zs = _get(node, "zs_ohm", math.nan)
+    zs = math.nan if zs is None else zs
+    t = _tmax(band, ief)
+    ia = operating_current_a(band, limit)
+    zs_max = supply.c_min * supply.u0_v / ia if math.isfinite(ia) else 0.0
+    ok = t <= limit
+    details = {"current_a": ief, "zs_ohm": zs, "zs_max_ohm": zs_max, "ia_a": ia,
+               "final": final, "circuit_class": what, "source": source}
+    zs_text = f"Zs {_ohm(zs)}" if math.isfinite(zs) else "Zs"
+    times = f"{_a(ief)} may take {_s(t)}, limit {_s(limit)} ({what})"
+    if ok:
+        reason = (f"{zs_text} within {_ohm(zs_max)} for {band.name}: {_a(ief)} cleared within "
+                  f"{_s(t)}, limit {_s(limit)} ({what})")
+    else:
+        ib = study.by_id[cid].load_a
+        carry = float(ib) if ib else in_a
+        head = f"{zs_text} exceeds {_ohm(zs_max)} for {band.name}"
+        if kind == "TT" and ief < FASTEST_OVERCURRENT_MULTIPLE * carry:
+            reason = (f"{head}: {times}; too high for any overcurrent device carrying "
+                      f"{_a(carry)} (a type B needs {_a(FASTEST_OVERCURRENT_MULTIPLE * carry)}): "
+                      "an RCD is needed")
+        else:
+            reason = (f"{head}: {times}; shorten the run, enlarge the conductors, choose a "
+                      "faster device or use an RCD")
+    return CheckResult(cid, "disconnection", ok, t, limit, "s", reason, band.basis, details)
+
+
+def _overload(study: Study, cid: str, band: Band) -> CheckResult | None:
+    circuit = study.by_id[cid]
+    ib = circuit.load_a
+    iz = circuit.cable.iz_a if circuit.cable is not None else None
+    if ib is None and iz is None:
+        return None
+    in_a = _in_a(band)
+    i2 = float(band.pickup_max_a)
+    terms = overload_conditions(ib, in_a, iz, i2)
+    name, value, limit = max(terms, key=lambda t: t[1] / t[2] if t[2] > 0 else math.inf)
+    ok = all(v <= lim for _, v, lim in terms)
+    details: dict[str, Any] = {"ib_a": ib, "in_a": in_a, "iz_a": iz, "i2_a": i2,
+                               "binding": name, "source": "IEC 60364-4-43 433.1"}
+    if ok:
+        have = ", ".join(f"{n} ({_a(v)} <= {_a(lim)})" for n, v, lim in terms)
+        reason = f"{band.name} protects against overload: {have}"
+    else:
+        failing = [f"{n.replace(' <= ', ' > ')} ({_a(v)} > {_a(lim)})"
+                   for n, v, lim in terms if v > lim]
+        fixes = []
+        if any(n == "Ib <= In" and v > lim for n, v, lim in terms):
+            fixes.append("a larger device (and cable)")
+        if iz is not None and any(n != "Ib <= In" and v > lim for n, v, lim in terms):
+            need = max(in_a, i2 / 1.45)
+            need = math.ceil(need * 10.0 - 1e-9) / 10.0  # round up to 0.1 A: never too small
+            fixes.append(f"a cable with Iz >= {need:g} A or a smaller device")
+        reason = f"{band.name} (I2 {_a(i2)}): {'; '.join(failing)}: choose {' or '.join(fixes)}"
+    return CheckResult(cid, "overload", ok, value, limit, "A", reason, band.basis, details)
+
+
+def _fault_energy(study: Study, cid: str, band: Band, node: Any,
+                  overload_protected: bool) -> CheckResult | None:
+    circuit = study.by_id[cid]
+    cable = circuit.cable
+    if cable is None:
+        return None
+    parallel = max(int(cable.parallel or 1), 1)
+    s_line = float(cable.csa_mm2) * parallel
+    k_line = k_factor(cable.material, cable.insulation, float(cable.csa_mm2))
+    cpc_each = float(cable.cpc_mm2 if cable.cpc_mm2 is not None else cable.csa_mm2)
+    cpc_parallel = max(int(getattr(cable, "cpc_parallel", None) or parallel), 1)
+    s_cpc = cpc_each * cpc_parallel
+    k_cpc = k_factor(cable.cpc_material or cable.material, cable.insulation, cpc_each)
+
+    # (what, conductor, current [A], installed S [mm2], k)
+    ik_max = _get(node, "ik_max_a")
+    ik3 = _get(node, "ik3_max_a", ik_max)
+    ik1 = _get(node, "ik1_max_a", ik_max)
+    if circuit.phases == 3:
+        i_max = max(x for x in (ik3, ik1, ik_max) if x is not None)
+    else:
+        i_max = ik1 if ik1 is not None else ik_max
+    cases = [("maximum fault at the board", "line", i_max, s_line, k_line)]
+    ik_min = _get(node, "ik_min_end_a")
+    if ik_min is not None and ik_min > 0:
+        cases.append(("minimum fault at the far end", "line", ik_min, s_line, k_line))
+    ief = _get(node, "ief_min_a")
+    if ief is not None and ief > 0:
+        cases.append(("minimum earth fault", "protective", ief, s_cpc, k_cpc))
+
+    rows = []
+    problems = []
+    for what, conductor, i, s, k in cases:
+        if i is None or not (i > 0):
+            continue
+        t = _tmax(band, i)
+        energy = float(band.i2t_let_through(i))
+        need = adiabatic_min_csa_mm2(energy, k) if math.isfinite(energy) else math.inf
+        if t > ADIABATIC_LIMIT_S:
+            if conductor == "line" and overload_protected:
+                continue  # IEC 60364-4-43 435.1: overload protection also protects the conductor
+            problems.append(f"{band.name} may take {_s(t)} at the {what} ({_a(i)}): beyond "
+                            f"{ADIABATIC_LIMIT_S:g} s the adiabatic rule does not hold; choose a "
+                            "faster or smaller device")
+            rows.append((math.inf, need, s, what, conductor, i, energy, k))
+            continue
+        rows.append((need / s, need, s, what, conductor, i, energy, k))
+    if not rows:
+        return None
+    worst = max(rows, key=lambda r: r[0])
+    _, need, s, what, conductor, i, energy, k = worst
+    ok = not problems and all(r[1] <= r[2] for r in rows)
+    details = {"current_a": i, "i2t_a2s": energy, "k": k, "conductor": conductor,
+               "line_mm2": s_line, "cpc_mm2": s_cpc, "k_line": k_line, "k_cpc": k_cpc,
+               "source": K_TABLE_SOURCE,
+               "assumption": "protective conductor taken as a core of the same cable "
+                             "(Table A.54.3); a separate cpc has a higher k"}
+    if problems:
+        reason = problems[0]
+    elif ok:
+        reason = (f"{conductor} conductor {_mm2(s)} withstands the {what} ({_a(i)}, "
+                  f"I2t {energy:.3g} A2s, k {k:g}): needs {_mm2(need)}")
+    else:
+        part = "protective conductor" if conductor == "protective" else "line conductors"
+        reason = (f"{part} {_mm2(s)} too small for the {what} ({_a(i)}): {band.name} lets "
+                  f"through {energy:.3g} A2s, needing {_mm2(need)} at k {k:g}; enlarge the "
+                  f"{'cpc' if conductor == 'protective' else 'conductors'} or choose a device "
+                  "that lets through less energy")
+    return CheckResult(cid, "fault-energy", ok, need, s, "mm2", reason, band.basis, details)
+
+
+def _breaking_capacity(study: Study, cid: str, band: Band, node: Any) -> CheckResult:
+    circuit = study.by_id[cid]
+    ik_max = _get(node, "ik_max_a")
+    ik3 = _get(node, "ik3_max_a", ik_max)
+    ik1 = _get(node, "ik1_max_a", ik_max)
+    if circuit.phases == 3:
+        options = [(x, n) for x, n in ((ik3, "three-phase"), (ik1, "line-neutral"))
+                   if x is not None]
+        fault, kind = max(options) if options else (ik_max or 0.0, "maximum")
+    else:
+        fault, kind = (ik1, "line-neutral") if ik1 is not None else (ik_max or 0.0, "maximum")
+    device = circuit.device
+    stated = isinstance(device, Mapping) and any(k in device for k in CAPACITY_KEYS)
+    if circuit.breaking_capacity_a is not None:
+        capacity, origin = float(circuit.breaking_capacity_a), "given in the study"
+    elif band.breaking_capacity_a is not None:
+        capacity = float(band.breaking_capacity_a)
+        origin = "given in the study" if stated else f"assumed: the {band.family} family default"
+    else:
+        capacity, origin = math.nan, "unknown"
+    details = {"current_a": fault, "fault": kind, "capacity_origin": origin,
+               "source": "IEC 60364-4-43 434.5.1"}
+    if not math.isfinite(capacity):
+        reason = (f"breaking capacity of {band.name} unknown; give the circuit's "
+                  "breaking_capacity_a")
+        return CheckResult(cid, "breaking-capacity", False, fault, math.nan, "A", reason,
+                           band.basis, details)
+    ok = fault <= capacity
+    if ok:
+        reason = (f"{band.name} breaks {_a(capacity)} ({origin}) >= {kind} fault {_a(fault)} "
+                  "at its board")
+    else:
+        reason = (f"{kind} fault {_a(fault)} at the board exceeds the {_a(capacity)} of "
+                  f"{band.name} ({origin}): choose a device rated for at least {_a(fault)}, or "
+                  "back-up protection proven by the maker's tests")
+    return CheckResult(cid, "breaking-capacity", ok, fault, capacity, "A", reason, band.basis,
+                       details)
+
+
+# -------------------------------------------------------------------------------------------
+# public entry points
+def check_device(study: Study, levels: Any, circuit_id: str,
+                 band: Band) -> tuple[CheckResult, ...]:
+    """The protection checks of one circuit with a given device.
+
+    Used by :func:`run` with the circuit's own device, and by the chooser on candidate devices.
+
+    Parameters
+    ----------
+    study : Study
+        The installation.
+    levels : FaultLevels
+        Fault levels of the study (``levels.by_circuit[circuit_id]`` with ``ik3_max_a``,
+        ``ik1_max_a``, ``ik_max_a`` at the circuit's board, ``ief_min_a``, ``zs_ohm``,
+        ``ik_min_end_a`` at its far end) [A], [ohm].
+    circuit_id : str
+        The circuit.
+    band : Band
+        The device, on the envelope basis (the worst case a compliant device allows).
+
+    Returns
+    -------
+    tuple of CheckResult
+        In the order of :data:`CHECK_NAMES`; a check the study gives no data for (overload
+        without Ib and Iz, fault energy without a cable) is left out.
+
+    References
+    ----------
+    IEC 60364-4-41:2005, 411.3.2 and Table 41.1; IEC 60364-4-43:2008, 433.1, 434.5.1, 434.5.2;
+    IEC 60364-5-54:2011, 543.1.2.
+
+    Examples
+    --------
+    >>> from coordination import faults, study
+    >>> s = study.loads('''
+    ... [supply]
+    ... u0_v = 230
+    ... phases = 1
+    ... earthing = "TN-C-S"
+    ... pfc_a = 6000
+    ... ze_ohm = 0.35
+    ... [[circuit]]
+    ... id = "lights"
+    ... from = "supply"
+    ... device = "B6"
+    ... phases = 1
+    ... ''')
+    >>> from coordination.devices import band_for
+    >>> r = check_device(s, faults.compute(s), "lights", band_for(s, "lights", "envelope"))
+    >>> print(r[0].check, r[0].limit)
+    disconnection 0.4
+    """
+    if circuit_id not in study.by_id:
+        raise InputError(f"no circuit {circuit_id!r} in the study", key="circuit")
+    node = levels.by_circuit[circuit_id]
+    try:
+        results: list[CheckResult | None] = [_disconnection(study, circuit_id, band, node)]
+        overload = _overload(study, circuit_id, band)
+        results.append(overload)
+        circuit = study.by_id[circuit_id]
+        protected = (overload is not None and overload.ok and circuit.cable is not None
+                     and circuit.cable.iz_a is not None)
+        results.append(_fault_energy(study, circuit_id, band, node, protected))
+        results.append(_breaking_capacity(study, circuit_id, band, node))
+    except InputError as error:
+        if error.key is not None and error.key.startswith("supply"):
+            raise
+        raise error.within(circuit=circuit_id) from None
+    return tuple(r for r in results if r is not None)
+
+
+def run(study: Study, levels: Any) -> tuple[CheckResult, ...]:
+    """Every protection check of every circuit, on the envelope basis.
+
+    Parameters
+    ----------
+    study : Study
+        The installation.
+    levels : FaultLevels
+        Its fault levels (:func:`coordination.faults.compute`).
+
+    Returns
+    -------
+    tuple of CheckResult
+        Circuit by circuit in study order, checks in the order of :data:`CHECK_NAMES`.
+
+    References
+    ----------
+    IEC 60364-4-41:2005 Table 41.1; IEC 60364-4-43:2008, 433 and 434; IEC 60364-5-54:2011, 543.
+
+    Examples
+    --------
+    >>> from coordination import faults, study
+    >>> s = study.loads('''
+    ... [supply]
+    ... u0_v = 230
+    ... phases = 1
+    ... earthing = "TN-C-S"
+    ... pfc_a = 6000
+    ... ze_ohm = 0.35
+    ... [[circuit]]
+    ... id = "lights"
+    ... from = "supply"
+    ... device = "B6"
+    ... phases = 1
+    ... ''')
+    >>> print(all(r.ok for r in run(s, faults.compute(s))))
+    True
+    """
+    from coordination.devices import band_for
+
+    out: list[CheckResult] = []
+    for circuit in study.circuits:
+        band = band_for(study, circuit.id, basis="envelope")
+        out.extend(check_device(study, levels, circuit.id, band))
+    return tuple(out)
+
+
+def _value_text(value: float, unit: str) -> str:
+    if value is None or (isinstance(value, float) and math.isnan(value)):
+        return "-"
+    if unit == "s":
+        return _s(value)
+    if unit == "A":
+        return _a(value)
+    if unit == "mm2":
+        return _mm2(value)
+    return f"{value:.3g} {unit}"
+
+
+def format_table(results: Sequence[CheckResult] | Iterable[CheckResult]) -> str:
+    """The protection checks as a plain-text table, circuit by circuit, failures marked.
+
+    Parameters
+    ----------
+    results : sequence of CheckResult
+        From :func:`run`.
+
+    Returns
+    -------
+    str
+        A heading, one row per check (``FAIL`` rows marked with ``!``), the checks that the
+        study gave no data for, and a summary line.
+
+    Examples
+    --------
+    >>> r = CheckResult("c1", "overload", True, 32.0, 34.0, "A", "fine", "envelope")
+    >>> print(format_table([r]).splitlines()[-1])
+    protection checks: 1 run on 1 circuit, all pass
+    """
+    from coordination.text import table
+
+    results = list(results)
+    heading = ("Protection checks (worst case a compliant device allows: envelope upper edge, "
+               "maximum let-through; each passes when value <= limit)")
+    grouped: dict[str, list[CheckResult]] = defaultdict(list)
+    for r in results:
+        grouped[r.circuit].append(r)
+    order = list(grouped)
+    rows = []
+    missing = []
+    for cid in order:
+        mine = grouped[cid]
+        for i, r in enumerate(mine):
+            rows.append([cid if i == 0 else "", r.check, "ok" if r.ok else "! FAIL",
+                         _value_text(r.value, r.unit), _value_text(r.limit, r.unit), r.reason])
+        absent = [c for c in CHECK_NAMES if c not in {r.check for r in mine}]
+        if absent:
+            missing.append(f"{cid} ({', '.join(absent)})")
+    body = table(["circuit", "check", "result", "value", "limit", "why / what to do"], rows,
+                 "lllrrl") if rows else "(no circuits)"
+    failed = [r for r in results if not r.ok]
+    n_circ = len(order)
+    summary = (f"protection checks: {len(results)} run on {n_circ} "
+               f"circuit{'s' if n_circ != 1 else ''}, ")
+    if failed:
+        names = ", ".join(f"{r.circuit} {r.check}" for r in failed)
+        summary += f"{len(failed)} FAIL: {names}"
+    else:
+        summary += "all pass"
+    lines = [heading, body]
+    if missing:
+        lines.append("not checked (the study gives no load_a / cable.iz_a or no cable): "
+                     + "; ".join(missing))
+    lines.append(summary)
+    return "\n".join(lines)

@@ -1,0 +1,1279 @@
+"""The chooser: the smallest rating, or the lowest settings, that meet every requirement.
+
+A designer does not only check a design: they must pick the upstream device (the sub-main fuse
+that will not operate before any final-circuit breaker on its board) and the settings of
+adjustable breakers. :func:`choose` searches one circuit's device family in "lowness" order
+(rated current first; for adjustable breakers then Ir, Isd, tsd, tr, Ii on the unit's own setting
+grid) and returns the first candidate that meets every requirement at once:
+
+* carries the load and protects its cable (IEC 60364-4-43 clause 433.1): Ib <= In <= Iz and
+  I2 <= 1.45 Iz, where In is the current setting Ir for an adjustable device;
+* breaks the largest fault where it sits (breaking capacity);
+* disconnects earth faults in time and limits the fault energy in its cable (the checks of
+  :mod:`coordination.checks`, on the envelope basis);
+* is selective as required with every device below it, up to each one's board fault level, and
+  with every device above it (the overlap engine, :func:`coordination.engine.compare`).
+
+Cheap requirements are numpy masks over the whole candidate array. Selectivity is screened
+vectorised: the lower edges of a whole grid of candidate settings are evaluated on one current
+grid as a 2-D array and compared with the need of the devices below (the largest of their upper
+edges times their margins, precomputed once). Survivors are then confirmed in lowness order by
+the same engine and checks that ``coordination check`` runs, so the answer is exactly what the
+check would say.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+from collections.abc import Iterable, Mapping, Sequence
+from dataclasses import dataclass, field
+from types import MappingProxyType
+from typing import Any
+
+import numpy as np
+
+from coordination.devices import device_band, freeze
+from coordination.model import SUPPLY_ID, Study
+from curves.band import ENERGY_REGION_S, TIME_CEILING_S, TIME_FLOOR_S, Band
+from curves.errors import InputError
+
+#: Families the chooser can search, as given to ``--family``: MCB types, gG fuse-links,
+#: thermal-magnetic and electronic breakers.
+FAMILIES = ("B", "C", "D", "gG", "tm", "electronic")
+
+#: Rated short-circuit capacities Icn of MCBs [A] (IEC 60898-1 preferred values; from memory,
+#: REFERENCE.md). Used only to raise a candidate MCB's Icn to the board's fault level.
+MCB_ICN_SERIES_A = (1500.0, 3000.0, 4500.0, 6000.0, 10000.0, 15000.0, 20000.0, 25000.0)
+
+#: Ultimate breaking capacities Icu offered for breakers [A] (common practice). A chosen breaker
+#: states the smallest that reaches the fault where the study gives none.
+BREAKER_ICU_SERIES_A = (10000.0, 16000.0, 25000.0, 36000.0, 50000.0, 70000.0, 100000.0,
+                        150000.0)
+
+#: Default Icn of an MCB written in shorthand ("B32") [A] (the curves.mcb default).
+MCB_DEFAULT_ICN_A = 6000.0
+#: Default energy-limiting class of an MCB written in shorthand.
+MCB_DEFAULT_CLASS = 3
+
+#: Band families that are adjustable breakers (a coordination interval applies over them).
+ADJUSTABLE = ("breaker-tm", "breaker-electronic")
+
+#: Points on the common current grid of the vectorised selectivity screen.
+GRID_POINTS = 480
+
+#: Groups up to this size are decided candidate by candidate (no screen).
+SMALL_GROUP = 4
+#: Exact failures kept per settings group for the explanation.
+MAX_RECORDED = 20
+#: Screened settings of one grid confirmed exactly at most (the screen uses the same model,
+#: so the first one nearly always passes).
+MAX_CONFIRM = 200
+
+#: Runs of like failures named in the explanation when nothing fits.
+MAX_SEGMENTS = 4
+
+#: The order in which requirements are tried; the first one a candidate fails is its reason.
+STAGES = ("load", "overload", "breaking-capacity", "disconnection", "fault-energy",
+          "selectivity-below", "selectivity-above")
+
+
+# ---------------------------------------------------------------------------------------------
+# results
+@dataclass(frozen=True)
+class Choice:
+    """The chooser's answer for one circuit.
+
+    Parameters
+    ----------
+    circuit : str
+        Circuit id.
+    found : bool
+        A candidate met every requirement.
+    device : str or mapping or None
+        The chosen device as a study-file ``device`` value (shorthand such as ``"gG125"`` or an
+        inline table for breakers); round-trips through ``curves.spec.band_from_spec``.
+    rating_a : float or None
+        Rated current In of the chosen device [A].
+    settings : mapping
+        The chosen device's settings (``Band.settings``; units in the keys).
+    binding : str or None
+        The requirement that ruled out the next smaller candidate (``None`` when the smallest
+        candidate of the family fits, or nothing fits).
+    reason : str
+        One or two sentences: why this device, or why nothing fits.
+    family : str
+        The family searched (one of :data:`FAMILIES`).
+    name : str or None
+        The chosen band's name (``"gG125"``).
+    suggestions : tuple of str
+        When nothing fits: what would help (a larger cable, a downstream device with a lower
+        let-through, a tested combination, a different family).
+    searched : int
+        Candidates looked at (screened or confirmed).
+    previous : str
+        The circuit's device before the choice, as written in the study.
+    setting_bindings : mapping
+        Adjustable breakers: for each setting, what rules out its next lower value on the unit's
+        grid with the other settings as chosen (key: the setting's key, e.g. ``"tsd_s"``).
+    """
+
+    circuit: str
+    found: bool
+    device: str | Mapping[str, Any] | None
+    rating_a: float | None
+    settings: Mapping[str, Any]
+    binding: str | None
+    reason: str
+    family: str
+    name: str | None = None
+    suggestions: tuple[str, ...] = ()
+    searched: int = 0
+    previous: str = ""
+    setting_bindings: Mapping[str, str] = field(default_factory=dict)
+
+    def to_json(self) -> dict[str, Any]:
+        """The contract's keys: circuit, device, rating_a, settings, binding, reason, found."""
+        device = self.device if isinstance(self.device, str) or self.device is None \
+            else dict(self.device)
+        return {
+            "circuit": self.circuit,
+            "found": self.found,
+            "device": device,
+            "name": self.name,
+            "family": self.family,
+            "rating_a": self.rating_a,
+            "settings": dict(self.settings),
+            "binding": self.binding,
+            "reason": self.reason,
+            "suggestions": list(self.suggestions),
+            "candidates_searched": self.searched,
+            "previous_device": self.previous,
+            "setting_bindings": dict(self.setting_bindings),
+        }
+
+
+@dataclass(frozen=True)
+class Failure:
+    """Why one candidate is ruled out: the stage (see :data:`STAGES`) and a sentence."""
+
+    stage: str
+    text: str
+    other: str | None = None  # the other circuit of a selectivity pair
+    device: str = ""  # the candidate's name
+    need_a: float | None = None  # for cable stages: the Iz that would do [A]
+
+
+@dataclass(frozen=True)
+class Candidate:
+    """One point of the search: a device spec in lowness order."""
+
+    spec: str | Mapping[str, Any]
+    rating_a: float  # rated current In (frame) [A]
+    setting_a: float  # the current that carries the load: Ir for breakers, else In [A]
+    order: tuple[float, ...]
+
+
+# ---------------------------------------------------------------------------------------------
+# specs
+def _mcb_spec(curve: str, rating: float, energy_class: int, icn_a: float) -> str | dict:
+    if energy_class == MCB_DEFAULT_CLASS and icn_a == MCB_DEFAULT_ICN_A:
+        return f"{curve}{rating:g}"
+    if energy_class == MCB_DEFAULT_CLASS and (icn_a / 1000).is_integer():
+        return f"{curve}{rating:g} {icn_a / 1000:g}kA"
+    return {"family": "mcb", "type": curve, "In_a": _num(rating),
+            "energy_class": int(energy_class), "icn_a": _num(icn_a)}
+
+
+def _gg_spec(rating: float, breaking_capacity_a: float | None) -> str | dict:
+    if breaking_capacity_a is None:
+        return f"gG{rating:g}"
+    if (breaking_capacity_a / 1000).is_integer():
+        return f"gG{rating:g}/{breaking_capacity_a / 1000:g}kA"
+    return {"family": "gG", "In_a": _num(rating), "breaking_capacity_a": _num(breaking_capacity_a)}
+
+
+def _num(x: float) -> float | int:
+    """An integer when the value is whole (study files read better)."""
+    x = float(x)
+    return int(x) if x.is_integer() else x
+
+
+def spec_text(spec: str | Mapping[str, Any] | None) -> str:
+    """A device spec as study-file text: ``"gG125"`` or an inline TOML table.
+
+    Examples
+    --------
+    >>> print(spec_text({"family": "gG", "In_a": 125}))
+    {family = "gG", In_a = 125}
+    """
+    if spec is None:
+        return "-"
+    if isinstance(spec, str):
+        return f'"{spec}"'
+
+    def value(v: Any) -> str:
+        if isinstance(v, bool):
+            return "true" if v else "false"
+        if isinstance(v, str):
+            return f'"{v}"'
+        if isinstance(v, Mapping):
+            return "{" + ", ".join(f"{k} = {value(x)}" for k, x in v.items()) + "}"
+        if isinstance(v, list | tuple):
+            return "[" + ", ".join(value(x) for x in v) + "]"
+        return f"{v:g}" if isinstance(v, float) else str(v)
+
+    return value(spec)
+
+
+# ---------------------------------------------------------------------------------------------
+# the family and its candidates
+def family_of(band: Band) -> str | None:
+    """The chooser family of a band (``"B"``, ``"gG"``, ``"tm"`` ...), or None for datasheets.
+
+    Examples
+    --------
+    >>> from curves.spec import band_from_spec
+    >>> print(family_of(band_from_spec("C16")), family_of(band_from_spec("gG100")))
+    C gG
+    """
+    if band.family == "mcb":
+        return str(band.settings.get("type", "")).upper() or None
+    if band.family == "gG":
+        return "gG"
+    if band.family == "breaker-tm":
+        return "tm"
+    if band.family == "breaker-electronic":
+        return "electronic"
+    return None
+
+
+def _normalise_family(family: str) -> str:
+    for f in FAMILIES:
+        if family.strip().lower() == f.lower():
+            return f
+    raise InputError(f"unknown family {family!r}; allowed: {', '.join(FAMILIES)}",
+                     key="--family")
+
+
+def _mcb_series(curve: str, current: Band, ik_board_a: float) -> list[Candidate]:
+    from curves.mcb import MCB_RATINGS_A
+
+    same = current.family == "mcb"
+    energy_class = int(current.settings.get("energy_class", MCB_DEFAULT_CLASS)) if same \
+        else MCB_DEFAULT_CLASS
+    icn = float(current.settings.get("icn_a", MCB_DEFAULT_ICN_A)) if same else MCB_DEFAULT_ICN_A
+    if icn < ik_board_a:  # raise Icn to the fault level where a standard value reaches it
+        icn = next((x for x in MCB_ICN_SERIES_A if x >= ik_board_a), icn)
+    return [Candidate(_mcb_spec(curve, r, energy_class, icn), float(r), float(r), (float(r),))
+            for r in MCB_RATINGS_A]
+
+
+def _gg_series(current: Band) -> list[Candidate]:
+    from curves.fuse import GG_RATINGS_A, gg_band
+
+    given = None  # a breaking capacity the study states for its fuse-link is kept
+    if current.family == "gG" and current.breaking_capacity_a is not None:
+        default = gg_band(current.rating_a).breaking_capacity_a
+        if default is None or not math.isclose(current.breaking_capacity_a, default):
+            given = float(current.breaking_capacity_a)
+    return [Candidate(_gg_spec(r, given), float(r), float(r), (float(r),)) for r in GG_RATINGS_A]
+
+
+def _capacity(series: Sequence[float], given: float | None, fault_a: float) -> float:
+    """A breaking capacity that reaches the fault: the one given when it does, else the
+    smallest value of the series that does (or the fault itself above the series) [A]."""
+    if given is not None and given >= fault_a:
+        return float(given)
+    return float(next((x for x in series if x >= fault_a), math.ceil(fault_a / 1000) * 1000))
+
+
+@dataclass(frozen=True)
+class SettingsGrid:
+    """An electronic unit at one rated current and long-time setting Ir: the grid of its other
+    settings (Isd, tsd, tr, Ii), axes in lowness order; ``Ii`` NaN stands for "off".
+
+    The grid's candidates are never built one by one for the screen: :func:`electronic_edges`
+    evaluates all of them at once.
+    """
+
+    rating_a: float
+    ir_x: float
+    isd_x: np.ndarray
+    tsd_s: np.ndarray
+    tr_s: np.ndarray
+    ii_x: np.ndarray
+    extra: Mapping[str, Any]
+
+    @property
+    def ir_a(self) -> float:
+        return self.rating_a * self.ir_x
+
+    @property
+    def shape(self) -> tuple[int, int, int, int]:
+        return (self.isd_x.size, self.tsd_s.size, self.tr_s.size, self.ii_x.size)
+
+    def valid(self) -> np.ndarray:
+        """Settings a unit accepts: Isd at or below Ii (or Ii off), shape :attr:`shape`."""
+        isd_a = self.isd_x * self.ir_a
+        ii_a = np.where(np.isnan(self.ii_x), np.inf, self.ii_x * self.rating_a)
+        ok = isd_a[:, None] <= ii_a[None, :] * (1 + 1e-9)
+        return np.broadcast_to(ok[:, None, None, :], self.shape)
+
+    def candidate(self, index: Sequence[int]) -> Candidate:
+        a, b, c, d = (int(k) for k in index)
+        ii = float(self.ii_x[d])
+        spec = {"family": "electronic", "In_a": _num(self.rating_a), "Ir_x": _num(self.ir_x),
+                "tr_s": _num(self.tr_s[c]), "Isd_x": _num(self.isd_x[a]),
+                "tsd_s": _num(self.tsd_s[b]), "Ii_x": "off" if math.isnan(ii) else _num(ii),
+                **self.extra}
+        order = (self.rating_a, self.ir_a, float(self.isd_x[a]), float(self.tsd_s[b]),
+                 float(self.tr_s[c]), math.inf if math.isnan(ii) else ii)
+        return Candidate(spec, self.rating_a, self.ir_a, order)
+
+
+def electronic_parts(current_a: np.ndarray, grid: SettingsGrid, basis: str) -> tuple[
+        tuple[np.ndarray, np.ndarray, np.ndarray], tuple[np.ndarray, np.ndarray, np.ndarray]]:
+    """The elements of every setting of a grid, apart: long-time, short-time, instantaneous.
+
+    The same model as ``curves.breaker.electronic_band`` (definite-time short-time delay): each
+    element depends on only some of the settings, so it is evaluated once per value of those.
+
+    Parameters
+    ----------
+    current_a : ndarray
+        Prospective currents, shape (n,) [A].
+    grid : SettingsGrid
+    basis : str
+        ``"typical"`` or ``"envelope"``.
+
+    Returns
+    -------
+    lower, upper : tuple of ndarray
+        Each ``(long_time, short_time, instantaneous)`` of shapes ``(n_tr, n)``,
+        ``(n_isd, n_tsd, n)`` and ``(n_ii, n)`` [s]; ``inf`` where the element does not act.
+        A setting's edge is the element-wise minimum of its three parts.
+
+    References
+    ----------
+    IEC 60947-2, 7.2.1.2.4 and Table 6 (via ``curves.breaker``).
+
+    Examples
+    --------
+    >>> g = SettingsGrid(400.0, 0.8, np.array([4.0, 6.0]), np.array([0.1, 0.2]),
+    ...                  np.array([8.0]), np.array([10.0, np.nan]), {})
+    >>> lower, upper = electronic_parts(np.array([500.0, 5000.0]), g, "typical")
+    >>> print([part.shape for part in lower])
+    [(1, 2), (2, 2, 2), (2, 2)]
+    """
+    from curves import breaker as b
+
+    i = np.asarray(current_a, dtype=float)
+    ir = grid.ir_a
+    x = i / ir
+    t_conv = b.conventional_time_s(grid.rating_a)
+    x_lo, x_hi = b.tolerance(*b.CONVENTIONAL_X, basis)
+    lt_lo, lt_hi = b.tolerance(1 - b.LONG_TIME_TOLERANCE[0], 1 + b.LONG_TIME_TOLERANCE[1], basis)
+    p_lo, p_hi = b.tolerance(1 - b.ELECTRONIC_PICKUP_TOLERANCE,
+                             1 + b.ELECTRONIC_PICKUP_TOLERANCE, basis)
+    d_lo, d_hi = b.tolerance(-b.SHORT_TIME_TOLERANCE_S[0], b.SHORT_TIME_TOLERANCE_S[1], basis)
+    clear = b.BREAKER_CLEARING_S
+    tr = grid.tr_s[:, None]
+    with np.errstate(divide="ignore"):
+        lt_min = np.where(x > x_lo, b.i2t_time(x, tr * lt_lo, b.TR_AT_X), np.inf)  # (tr, n)
+        lt_max = np.where(x >= x_hi,
+                          np.minimum(t_conv, b.i2t_time(x, tr * lt_hi, b.TR_AT_X) + clear),
+                          np.inf)
+    isd_a = (grid.isd_x * ir)[:, None, None]  # (isd, 1, 1)
+    tsd = grid.tsd_s[None, :, None]  # (1, tsd, 1)
+    st_min = np.where(i >= p_lo * isd_a, tsd + d_lo, np.inf)  # (isd, tsd, n)
+    st_max = np.where(i >= p_hi * isd_a, tsd + d_hi + clear, np.inf)
+    ii_a = np.where(np.isnan(grid.ii_x), np.inf, grid.ii_x * grid.rating_a)[:, None]  # (ii, 1)
+    in_min = np.where(i >= p_lo * ii_a, TIME_FLOOR_S, np.inf)  # (ii, n)
+    in_max = np.where(i >= p_hi * ii_a, clear, np.inf)
+    return (lt_min, st_min, in_min), (lt_max, st_max, in_max)
+
+
+def _combine(parts: tuple[np.ndarray, np.ndarray, np.ndarray]) -> np.ndarray:
+    lt, st, inst = parts
+    return np.minimum(np.minimum(lt[None, None, :, None, :], st[:, :, None, None, :]),
+                      inst[None, None, None, :, :])
+
+
+def electronic_edges(current_a: np.ndarray, grid: SettingsGrid, basis: str) -> tuple[
+        np.ndarray, np.ndarray]:
+    """Lower and upper edges of every setting of a grid at once [s].
+
+    The device trips on the first element that acts, so each edge is the element-wise minimum
+    of the parts of :func:`electronic_parts`, broadcast over the setting axes.
+
+    Parameters
+    ----------
+    current_a : ndarray
+        Prospective currents, shape (n,) [A].
+    grid : SettingsGrid
+    basis : str
+        ``"typical"`` or ``"envelope"``.
+
+    Returns
+    -------
+    lower, upper : ndarray
+        Shape ``grid.shape + (n,)`` [s]; ``inf`` where the unit never (may never) operates.
+
+    References
+    ----------
+    IEC 60947-2, 7.2.1.2.4 and Table 6 (via ``curves.breaker``).
+
+    Examples
+    --------
+    >>> g = SettingsGrid(400.0, 0.8, np.array([6.0]), np.array([0.2]), np.array([8.0]),
+    ...                  np.array([10.0]), {})
+    >>> lo, hi = electronic_edges(np.array([10 * 320.0]), g, "envelope")
+    >>> print(round(float(hi[0, 0, 0, 0, 0]), 3))
+    0.25
+    """
+    lower, upper = electronic_parts(current_a, grid, basis)
+    return _combine(lower), _combine(upper)
+
+
+def _breaker_groups(family: str, current: Band, fault_a: float) -> list[Any]:
+    """Adjustable breakers: one group per (In, Ir) in lowness order. Thermal-magnetic groups
+    are lists of candidates (Ii ascending); electronic groups are :class:`SettingsGrid`."""
+    from curves import breaker
+
+    same = current.family == ("breaker-tm" if family == "tm" else "breaker-electronic")
+    given = current.settings.get("icu_a") if same else None
+    extra: dict[str, Any] = {}
+    if fault_a > 0 or given is not None:  # 0: the study gives the circuit's breaking capacity
+        icu = _capacity(BREAKER_ICU_SERIES_A, float(given) if given is not None else None,
+                        fault_a)
+        extra["icu_a"] = _num(icu)
+    groups: list[Any] = []
+    if family == "tm":
+        for rating in breaker.BREAKER_RATINGS_A:
+            for fr in sorted(breaker.TM_IR_FRACTIONS):
+                ir = float(rating) * float(fr)
+                groups.append([Candidate({"family": "tm", "In_a": _num(rating), "Ir_x": _num(fr),
+                                          "Ii_x": _num(x), **extra},
+                                         float(rating), ir, (float(rating), ir, float(x)))
+                               for x in sorted(breaker.II_X)])
+        return groups
+    ii = np.array([*sorted(float(x) for x in breaker.ELECTRONIC_II_X), np.nan])
+    for rating in breaker.BREAKER_RATINGS_A:
+        for fr in sorted(breaker.ELECTRONIC_IR_FRACTIONS):
+            groups.append(SettingsGrid(float(rating), float(fr),
+                                       np.array(sorted(breaker.ISD_X), dtype=float),
+                                       np.array(sorted(breaker.TSD_S), dtype=float),
+                                       np.array(sorted(breaker.TR_S), dtype=float), ii,
+                                       MappingProxyType(extra)))
+    return groups
+
+
+def candidate_groups(family: str, current: Band, fault_a: float) -> list[Any]:
+    """The family's candidates in lowness order, in groups sharing In and the load setting.
+
+    Parameters
+    ----------
+    family : str
+        One of :data:`FAMILIES`.
+    current : Band
+        The circuit's present device (its energy class, Icn or Icu are kept where the family is
+        the same and they reach the fault).
+    fault_a : float
+        Largest fault current the device must break [A] (an MCB's Icn or a breaker's Icu is
+        raised to reach it); 0 where the study gives the circuit's breaking capacity.
+
+    Returns
+    -------
+    list
+        Lists of :class:`Candidate` (MCB, gG: one per rating; thermal-magnetic: Ii ascending)
+        or :class:`SettingsGrid` (electronic).
+
+    References
+    ----------
+    IEC 60898-1 (MCB ratings), IEC 60269-1 (gG ratings), IEC 60947-2 (breakers); the setting
+    grids of ``curves.breaker`` (common practice).
+
+    Examples
+    --------
+    >>> from curves.spec import band_from_spec
+    >>> groups = candidate_groups("gG", band_from_spec("gG100"), 10000.0)
+    >>> print(len(groups), groups[0][0].spec, groups[-1][0].rating_a)
+    26 gG2 1250.0
+    """
+    if family in ("B", "C", "D"):
+        return [[c] for c in _mcb_series(family, current, fault_a)]
+    if family == "gG":
+        return [[c] for c in _gg_series(current)]
+    return _breaker_groups(family, current, fault_a)
+
+
+# ---------------------------------------------------------------------------------------------
+# the problem of one circuit
+@dataclass(frozen=True)
+class _Pair:
+    """One selectivity requirement between the circuit and another device."""
+
+    other: str  # the other circuit id
+    band: Band  # the other device's band (selectivity basis)
+    window_a: tuple[float, float]  # for pairs below: the other device's window; above: hi only
+    required_a: float  # selective up to this current [A]
+    margin: float
+    interval_s: float
+    tested_limit_a: float | None
+
+
+@dataclass
+class _Problem:
+    study: Study
+    levels: Any
+    circuit_id: str
+    family: str
+    basis: str
+    ib_a: float | None
+    iz_a: float | None
+    ik_board_a: float
+    ik_break_a: float  # the fault the device must break (as coordination.checks takes it) [A]
+    below: list[_Pair]
+    above: list[_Pair]
+    grid: np.ndarray
+    need: np.ndarray  # (2, n_grid): the devices below need t_min_U >= this (non-adj, adjustable)
+    above_tmin: np.ndarray  # (n_above, n_grid): the devices above, lower edges clamped
+    above_adjustable: np.ndarray  # (n_above,) bool
+    below_names: dict[str, str] = field(default_factory=dict)
+    searched: int = 0
+
+
+def _pair_settings(study: Study, downstream_id: str) -> tuple[float, float, float | None]:
+    c = study.by_id[downstream_id]
+    margin = c.margin if c.margin is not None else study.margin
+    interval = c.interval_s if c.interval_s is not None else study.interval_s
+    return float(margin), float(interval), c.selective_to_a
+
+
+def _descendants(study: Study, circuit_id: str) -> list[str]:
+    return [c.id for c in study.circuits if circuit_id in study.ancestors(c.id)]
+
+
+def _clamped_lower(band: Band, grid: np.ndarray) -> np.ndarray:
+    """Lower edge on the grid, with no withstand above an instantaneous release."""
+    t = np.asarray(band.t_min(grid), dtype=float)
+    if band.instantaneous_a is not None:
+        t = np.where(grid >= band.instantaneous_a, TIME_FLOOR_S, t)
+    return np.minimum(t, TIME_CEILING_S)
+
+
+def _need_of(t_max: np.ndarray, margin: float, interval_s: float, adjustable: bool) -> np.ndarray:
+    """What the device above must stay at or above [s], given a device's upper edge."""
+    need = t_max * margin
+    if adjustable and interval_s > 0:
+        need = np.where(need >= ENERGY_REGION_S, need + interval_s, need)
+    return np.minimum(need, TIME_CEILING_S)
+
+
+def _problem(study: Study, levels: Any, circuit_id: str, family: str | None,
+             skip_above: frozenset[str] = frozenset()) -> tuple[_Problem, Band]:
+    if circuit_id not in study.by_id:
+        raise InputError(f"no circuit {circuit_id!r} in the study; circuits: "
+                         f"{', '.join(list(study.by_id)[:12])}", key="--circuit")
+    from coordination.devices import band_for
+
+    circuit = study.by_id[circuit_id]
+    basis = study.basis_of(circuit_id)
+    current = band_for(study, circuit_id, basis)
+    if family is None:
+        fam = family_of(current)
+        if fam is None:
+            raise InputError(f"the device {current.name!r} is given as datasheet points, so it "
+                             f"has no series to search; give --family (allowed: "
+                             f"{', '.join(FAMILIES)})", circuit=circuit_id, key="--family")
+    else:
+        fam = _normalise_family(family)
+    nodes = levels.by_circuit
+    node = nodes[circuit_id]
+    ik_board = float(node.ik_max_a)
+    ik1 = getattr(node, "ik1_max_a", None)
+    if circuit.phases == 3:
+        ik_break = max(float(x) for x in (getattr(node, "ik3_max_a", None), ik1, ik_board)
+                       if x is not None)
+    else:
+        ik_break = float(ik1) if ik1 is not None else ik_board
+    iz = circuit.cable.iz_a if circuit.cable is not None else None
+
+    below: list[_Pair] = []
+    seen: set = set()
+    for d in _descendants(study, circuit_id):
+        band = band_for(study, d)
+        margin, interval, selective_to = _pair_settings(study, d)
+        hi = float(nodes[d].ik_max_a)
+        window = (float(band.pickup_min_a), hi)
+        required = min(hi, float(selective_to)) if selective_to is not None else hi
+        tested = study.by_id[d].tested_limits_a.get(circuit_id)
+        key = (band.key, window, required, margin, interval, tested)
+        if key in seen:
+            continue
+        seen.add(key)
+        below.append(_Pair(d, band, window, required, margin, interval,
+                           float(tested) if tested is not None else None))
+
+    above: list[_Pair] = []
+    margin_c, interval_c, selective_to_c = _pair_settings(study, circuit_id)
+    required_c = min(ik_board, float(selective_to_c)) if selective_to_c is not None else ik_board
+    for a in study.ancestors(circuit_id):
+        if a in skip_above:  # to be chosen afterwards, seeing this choice
+            continue
+        tested = circuit.tested_limits_a.get(a)
+        above.append(_Pair(a, band_for(study, a), (0.0, ik_board), required_c, margin_c,
+                           interval_c, float(tested) if tested is not None else None))
+
+    lows = [p.window_a[0] for p in below] + [max(1.0, (circuit.load_a or 1.0))]
+    highs = [p.window_a[1] for p in below] + [ik_board, 10.0]
+    grid = np.geomspace(max(min(lows) * 0.9, 0.5), max(highs), GRID_POINTS)
+    extra = [p.window_a[0] for p in below] + [p.required_a for p in below] + [required_c]
+    grid = np.unique(np.concatenate([grid, np.asarray(extra, dtype=float)]))
+
+    need = np.full((2, grid.size), -np.inf)
+    for p in below:
+        inside = (grid >= p.window_a[0]) & (grid <= p.required_a)
+        if p.tested_limit_a is not None:  # applies to the present device only: lenient here
+            continue
+        t_max = np.asarray(p.band.t_max(grid), dtype=float)
+        for row, adjustable in enumerate((False, True)):
+            n = _need_of(t_max, p.margin, p.interval_s, adjustable)
+            need[row] = np.where(inside, np.maximum(need[row], n), need[row])
+    above_tmin = np.array([_clamped_lower(p.band, grid) for p in above]).reshape(len(above),
+                                                                                grid.size)
+    above_adj = np.array([p.band.family in ADJUSTABLE for p in above], dtype=bool)
+    problem = _Problem(study, levels, circuit_id, fam, basis,
+                       float(circuit.load_a) if circuit.load_a is not None else None,
+                       float(iz) if iz is not None else None, ik_board, ik_break, below,
+                       above, grid, need, above_tmin, above_adj,
+                       below_names={p.other: p.band.name for p in below})
+    return problem, current
+
+
+# ---------------------------------------------------------------------------------------------
+# cheap requirements (masks) and the vectorised selectivity screen
+def _cheap_failure(problem: _Problem, cand: Candidate, band: Band) -> Failure | None:
+    """Load, cable overload and breaking capacity for one candidate (no engine needed)."""
+    ib, iz = problem.ib_a, problem.iz_a
+    setting = cand.setting_a
+    if ib is not None and setting < ib * (1 - 1e-9):
+        return Failure("load", f"load: Ib {ib:g} A > In {setting:g} A")
+    if iz is not None:  # I2 of the worst compliant device, as coordination.checks takes it
+        i2 = float(device_band(cand.spec, "envelope").pickup_max_a)
+        if setting > iz * (1 + 1e-9):
+            return Failure("overload", f"cable: In {setting:g} A > Iz {iz:g} A",
+                           need_a=setting)
+        if i2 > 1.45 * iz * (1 + 1e-9):
+            return Failure("overload", f"cable: I2 {i2:.4g} A > 1.45 Iz {1.45 * iz:.4g} A",
+                           need_a=i2 / 1.45)
+    circuit = problem.study.by_id[problem.circuit_id]
+    capacity = circuit.breaking_capacity_a or band.breaking_capacity_a
+    if capacity is not None and capacity < problem.ik_break_a * (1 - 1e-9):
+        return Failure("breaking-capacity",
+                       f"breaking capacity {capacity / 1000:.3g} kA < "
+                       f"{problem.ik_break_a / 1000:.3g} kA at the board")
+    return None
+
+
+def screen(problem: _Problem, bands: Sequence[Band]) -> np.ndarray:
+    """Vectorised selectivity screen of many candidate bands at once.
+
+    Evaluates every candidate's lower edge on the common current grid as a 2-D array and
+    compares it with what the devices below need (precomputed once), and every candidate's
+    upper edge with the lower edges of the devices above. Lenient by construction (it samples a
+    grid); survivors are confirmed exactly by the engine.
+
+    Returns
+    -------
+    numpy.ndarray of int
+        Per candidate: 0 passes, 1 fails selectivity below, 2 fails selectivity above.
+    """
+    grid = problem.grid
+    n = len(bands)
+    out = np.zeros(n, dtype=np.int8)
+    if n == 0:
+        return out
+    if problem.below:
+        t_min = np.array([np.asarray(b.t_min(grid), dtype=float) for b in bands])
+        inst = np.array([b.instantaneous_a if b.instantaneous_a is not None else np.inf
+                         for b in bands])
+        t_min = np.where(grid[None, :] >= inst[:, None], TIME_FLOOR_S, t_min)
+        t_min = np.minimum(t_min, TIME_CEILING_S)
+        adjustable = np.array([b.family in ADJUSTABLE for b in bands])
+        need = problem.need[adjustable.astype(int)]  # (n, n_grid)
+        ok = np.all(t_min >= need * (1 - 1e-6), axis=1)
+        out[~ok] = 1
+    if problem.above:
+        t_max = np.array([np.asarray(b.t_max(grid), dtype=float) for b in bands])
+        lo = np.array([b.pickup_min_a for b in bands])
+        p0 = problem.above[0]
+        inside = (grid[None, :] >= lo[:, None]) & (grid[None, :] <= p0.required_a)
+        for k, p in enumerate(problem.above):
+            if p.tested_limit_a is not None:
+                continue
+            need = _need_of(t_max, p.margin, p.interval_s, bool(problem.above_adjustable[k]))
+            bad = inside & (problem.above_tmin[k][None, :] < need * (1 - 1e-6))
+            fail = np.any(bad, axis=1) & (out == 0)
+            out[fail] = 2
+    return out
+
+
+# ---------------------------------------------------------------------------------------------
+# exact confirmation: the same engine and checks as `coordination check`
+def _pair_ok(sel: Any, required_a: float) -> bool:
+    """The engine's own rule (``engine.analyse``): total, or a limit reaching the requirement."""
+    from coordination.engine import EQUAL_RTOL
+
+    if sel.verdict == "total":
+        return True
+    return sel.limit_a is not None and float(sel.limit_a) >= required_a * (1 - EQUAL_RTOL)
+
+
+def _limit_text(sel: Any) -> str:
+    limit = getattr(sel, "limit_a", None)
+    if getattr(sel, "verdict", None) == "none" or limit is None:
+        return "not selective even in overload"
+    return f"selective only to {float(limit) / 1000:.3g} kA"
+
+
+def exact_failure(problem: _Problem, cand: Candidate) -> Failure | None:
+    """The first requirement a candidate fails, decided exactly (None: it meets every one).
+
+    The checks are those of ``coordination check``: the requirements on Ib, In, Iz and I2, then
+    :func:`coordination.checks.check_device` on the envelope band, then
+    :func:`coordination.engine.compare` with every device below and above, with the windows,
+    margins, intervals and requirements that :func:`coordination.engine.analyse` uses.
+    """
+    failure = _exact_failure(problem, cand)
+    if failure is None:
+        return None
+    return dataclasses.replace(failure, device=device_band(cand.spec, problem.basis).name)
+
+
+def _exact_failure(problem: _Problem, cand: Candidate) -> Failure | None:
+    from coordination import checks, engine
+
+    problem.searched += 1
+    band = device_band(cand.spec, problem.basis)
+    cheap = _cheap_failure(problem, cand, band)
+    if cheap is not None:
+        return cheap
+    envelope = device_band(cand.spec, "envelope")
+    study = substitute(problem.study, problem.circuit_id, cand.spec)
+    results = checks.check_device(study, problem.levels, problem.circuit_id, envelope)
+    for stage in ("overload", "breaking-capacity", "disconnection", "fault-energy"):
+        for r in results:
+            if r.check == stage and not r.ok:
+                need = None
+                if stage == "overload":
+                    i2, in_a = r.details.get("i2_a"), r.details.get("in_a")
+                    if i2 is not None and in_a is not None:
+                        need = max(float(in_a), float(i2) / 1.45)
+                return Failure(stage, f"{stage}: {r.reason}", need_a=need)
+    for r in results:  # any further check a later version adds
+        if not r.ok:
+            return Failure(r.check, f"{r.check}: {r.reason}")
+    same = freeze(cand.spec) == freeze(problem.study.by_id[problem.circuit_id].device)
+    for p in problem.below:
+        sel = engine.compare(band, p.band, p.window_a, margin=p.margin, interval_s=p.interval_s,
+                             tested_limit_a=p.tested_limit_a if same else None)
+        if not _pair_ok(sel, p.required_a):
+            return Failure("selectivity-below",
+                           f"selectivity with {p.other!r} ({p.band.name}) up to "
+                           f"{p.required_a / 1000:.3g} kA: {_limit_text(sel)}", other=p.other)
+    for p in problem.above:
+        window = (float(band.pickup_min_a), p.window_a[1])
+        sel = engine.compare(p.band, band, window, margin=p.margin, interval_s=p.interval_s,
+                             tested_limit_a=p.tested_limit_a if same else None)
+        if not _pair_ok(sel, p.required_a):
+            return Failure("selectivity-above",
+                           f"selectivity under {p.other!r} ({p.band.name}) up to "
+                           f"{p.required_a / 1000:.3g} kA: {_limit_text(sel)}", other=p.other)
+    return None
+
+
+def substitute(study: Study, circuit_id: str, spec: str | Mapping[str, Any]) -> Study:
+    """A copy of the study with one circuit's device replaced (nothing else changes).
+
+    Examples
+    --------
+    >>> from coordination import study
+    >>> s = study.loads('''
+    ... [supply]
+    ... pfc_a = 3000
+    ... ze_ohm = 0.35
+    ... [[circuit]]
+    ... id = "sockets"
+    ... from = "supply"
+    ... device = "B32"
+    ... phases = 1
+    ... load_a = 18
+    ... [circuit.cable]
+    ... length_m = 10
+    ... csa_mm2 = 4
+    ... iz_a = 27
+    ... ''')
+    >>> print(substitute(s, "sockets", "B20").by_id["sockets"].device)
+    B20
+    """
+    circuits = tuple(dataclasses.replace(c, device=spec) if c.id == circuit_id else c
+                     for c in study.circuits)
+    return dataclasses.replace(study, circuits=circuits)
+
+
+# ---------------------------------------------------------------------------------------------
+# the search
+def screen_grid(problem: _Problem, grid: SettingsGrid) -> np.ndarray:
+    """Vectorised screen of a whole electronic settings grid (selectivity and disconnection).
+
+    Lower edge against the devices below: a setting's lower edge is the minimum of its
+    long-time, short-time and instantaneous parts, and ``min(a, b, c) >= need`` holds exactly
+    when each part does, so each part is tested once per value of the settings it depends on
+    and the grid's answer is the outer AND of three small boolean arrays.
+
+    Upper edge against the devices above: the need ``margin * t (+ interval)`` rises with t, so
+    a setting is clear at a current when any one part is; that is an OR of booleans over the
+    grid's shape times the currents (no floating-point array of that size is built).
+
+    Disconnection: the envelope upper edge at the minimum earth fault against the time of
+    IEC 60364-4-41 (as :mod:`coordination.checks` takes it).
+
+    Returns
+    -------
+    numpy.ndarray of bool
+        Shape ``grid.shape``: True where a setting may pass (to be confirmed exactly by the
+        engine and the checks; the screen samples a current grid, so it may be lenient between
+        samples, never stricter than its own samples).
+    """
+    from coordination import checks
+    from curves import breaker as b
+
+    ok = grid.valid().copy()
+    currents = problem.grid
+    n_isd, n_tsd, n_tr, n_ii = grid.shape
+    if problem.below or problem.above:
+        lower, upper = electronic_parts(currents, grid, problem.basis)
+        if problem.below:
+            need = problem.need[1] * (1 - 1e-6)
+            lt, st, inst = (np.all(np.minimum(part, TIME_CEILING_S) >= need, axis=-1)
+                            for part in lower)
+            ok &= st[:, :, None, None] & lt[None, None, :, None] & inst[None, None, None, :]
+        if problem.above:
+            pickup = b.tolerance(*b.CONVENTIONAL_X, problem.basis)[0] * grid.ir_a
+            for k, p in enumerate(problem.above):
+                if p.tested_limit_a is not None:
+                    continue
+                inside = (currents >= pickup) & (currents <= p.required_a)
+                t_up = problem.above_tmin[k][inside] * (1 + 1e-6)
+                adjustable = bool(problem.above_adjustable[k])
+                lt, st, inst = (_need_of(part[..., inside], p.margin, p.interval_s, adjustable)
+                                <= t_up for part in upper)
+                clear = (st[:, :, None, None, :] | lt[None, None, :, None, :]
+                         | inst[None, None, None, :, :])
+                ok &= clear.all(axis=-1)
+    study = problem.study
+    node = problem.levels.by_circuit[problem.circuit_id]
+    ief = float(getattr(node, "ief_min_a", 0.0) or 0.0)
+    if ief <= 0:
+        return np.zeros_like(ok)
+    in_scope = study.is_final(problem.circuit_id) and grid.ir_a <= checks.FINAL_CIRCUIT_SCOPE_A
+    limit = checks.disconnection_time_s(study.supply.u0_v, study.supply.earthing, in_scope)
+    lt, st, inst = electronic_parts(np.array([ief]), grid, "envelope")[1]
+    t_env = np.minimum(np.minimum(lt[None, None, :, None, 0], st[:, :, None, None, 0]),
+                       inst[None, None, None, :, 0])
+    ok &= t_env.reshape(n_isd, n_tsd, n_tr, n_ii) <= limit
+    return ok
+
+
+def _search(problem: _Problem, groups: list[Any]) -> tuple[
+        Candidate | None, Band | None, Failure | None, list[tuple[Candidate, Failure]]]:
+    """Candidates in lowness order; returns the winner, its band, the binding failure of the
+    candidate just before it, and failures met on the way (to explain when nothing fits)."""
+    failures: list[tuple[Candidate, Failure]] = []
+    previous: tuple[Candidate, Failure | None] | None = None
+    for group in groups:
+        if isinstance(group, SettingsGrid):
+            found = _search_grid(problem, group, failures, previous)
+            if found[0] is not None:
+                return (*found, failures)  # type: ignore[return-value]
+            previous = found[2]  # type: ignore[assignment]
+            continue
+        if len(group) <= SMALL_GROUP:  # a plain series: decide each candidate exactly
+            for i, cand in enumerate(group):
+                failure = exact_failure(problem, cand)
+                if failure is None:
+                    binding = _binding(problem, group, i, previous)
+                    return cand, device_band(cand.spec, problem.basis), binding, failures
+                failures.append((cand, failure))
+                previous = (cand, failure)
+            continue
+        # a short list of settings: cheap masks, the screen, then exact confirmation
+        bands = [device_band(c.spec, problem.basis) for c in group]
+        cheap = [_cheap_failure(problem, c, band) for c, band in zip(group, bands, strict=True)]
+        keep = [i for i, f in enumerate(cheap) if f is None]
+        problem.searched += len(group)
+        if not keep:
+            failures.append((group[0], cheap[0]))  # type: ignore[arg-type]
+            previous = (group[-1], cheap[-1])
+            continue
+        codes = screen(problem, [bands[i] for i in keep])
+        passing = [keep[j] for j, code in enumerate(codes) if code == 0]
+        for n, i in enumerate(passing):
+            failure = exact_failure(problem, group[i])
+            if failure is None:
+                binding = _binding(problem, group, i, previous)
+                return group[i], bands[i], binding, failures
+            if n < MAX_RECORDED:
+                failures.append((group[i], failure))
+        for i in dict.fromkeys((keep[0], keep[-1])):  # why the least and most capable fail
+            if i not in passing:
+                failure = exact_failure(problem, group[i])
+                if failure is not None:
+                    failures.append((group[i], failure))
+        previous = (group[-1], None)
+    return None, None, None, failures
+
+
+def _search_grid(problem: _Problem, grid: SettingsGrid,
+                 failures: list[tuple[Candidate, Failure]],
+                 previous: tuple[Candidate, Failure | None] | None) -> tuple[Any, Any, Any]:
+    """One electronic settings grid: (winner, band, binding) or (None, None, new previous)."""
+    valid = np.argwhere(grid.valid())  # lowness order: C order over (Isd, tsd, tr, Ii)
+    if valid.size == 0:
+        return None, None, previous
+    first, last = grid.candidate(valid[0]), grid.candidate(valid[-1])
+    cheap = _cheap_failure(problem, first, device_band(first.spec, problem.basis))
+    problem.searched += len(valid)
+    if cheap is not None:
+        if not failures or failures[-1][1].stage != cheap.stage:
+            failures.append((first, cheap))
+        return None, None, (last, cheap)
+    mask = screen_grid(problem, grid)
+    passing = np.argwhere(mask)
+    for n, index in enumerate(passing[:MAX_CONFIRM]):
+        cand = grid.candidate(index)
+        failure = exact_failure(problem, cand)
+        if failure is None:
+            position = int(np.flatnonzero((valid == index).all(axis=1))[0])
+            if position > 0:
+                binding = exact_failure(problem, grid.candidate(valid[position - 1]))
+            elif previous is not None:
+                binding = previous[1] or exact_failure(problem, previous[0])
+            else:
+                binding = None
+            return cand, device_band(cand.spec, problem.basis), binding
+        if n < MAX_RECORDED:
+            failures.append((cand, failure))
+    for cand in (first, last):  # why the least and the most capable settings fail
+        failure = exact_failure(problem, cand)
+        if failure is not None:
+            failures.append((cand, failure))
+    return None, None, (last, failures[-1][1] if failures else None)
+
+
+def _binding(problem: _Problem, group: list[Candidate], index: int,
+             previous: tuple[Candidate, Failure | None] | None) -> Failure | None:
+    """The requirement that ruled out the candidate just below the winner."""
+    if index > 0:
+        return exact_failure(problem, group[index - 1])
+    if previous is None:
+        return None
+    cand, failure = previous
+    return failure if failure is not None else exact_failure(problem, cand)
+
+
+def _explain(problem: _Problem, failures: list[tuple[Candidate, Failure]],
+             family: str) -> tuple[str, tuple[str, ...]]:
+    """Why nothing fits, and what would."""
+    ib, iz = problem.ib_a, problem.iz_a
+    circuit = problem.study.by_id[problem.circuit_id]
+    stages = [f.stage for _, f in failures]
+    suggestions: list[str] = []
+    if ib is not None and iz is not None and ib > iz:
+        reason = (f"no device can meet Ib <= In <= Iz: the design current Ib {ib:g} A exceeds "
+                  f"the cable's Iz {iz:g} A")
+        suggestions.append(f"a larger cable (Iz of at least {ib:g} A, and enough for the "
+                           f"chosen device's I2 <= 1.45 Iz)")
+        return reason, tuple(suggestions)
+    past_load = [(c, f) for c, f in failures if f.stage != "load"]
+    if not past_load:
+        reason = (f"every {family} candidate is below the design current Ib {ib:g} A"
+                  if ib is not None else f"no {family} candidate could be built")
+        suggestions.append("a different family with larger ratings (--family tm or "
+                           "electronic), or the load split over parallel circuits")
+        return reason, tuple(suggestions)
+    segments: list[list[Failure]] = []  # runs of candidates that fail the same way, in order
+    for _, f in past_load:
+        if segments and segments[-1][0].stage == f.stage and segments[-1][0].other == f.other:
+            segments[-1].append(f)
+        else:
+            segments.append([f])
+    parts = []
+    for run in segments[:MAX_SEGMENTS]:
+        who = run[0].device if len(run) == 1 else f"{run[0].device} to {run[-1].device}"
+        parts.append(f"{who} fail{'s' if len(run) == 1 else ''} {run[0].text}")
+    more = f"; and {len(segments) - MAX_SEGMENTS} more" if len(segments) > MAX_SEGMENTS else ""
+    reason = f"no {family} candidate meets every requirement: " + "; ".join(parts) + more
+    if "overload" in stages:
+        need = min((f.need_a for _, f in past_load if f.need_a is not None), default=None)
+        if need is not None and iz is not None:
+            suggestions.append(f"a larger cable: Iz of at least {need:.4g} A (now {iz:g} A)")
+    if "breaking-capacity" in stages:
+        suggestions.append(f"a device with a breaking capacity of at least "
+                           f"{problem.ik_break_a / 1000:.3g} kA, or a tested back-up "
+                           f"combination with the device above")
+    if "disconnection" in stages:
+        suggestions.append("a lower earth-fault loop impedance (a larger cable or protective "
+                           "conductor, a shorter run) or an RCD")
+    if "fault-energy" in stages:
+        suggestions.append("a larger cable, or a device with a lower let-through I2t")
+    below = [f.other for _, f in past_load if f.stage == "selectivity-below" and f.other]
+    if below:
+        names = ", ".join(f"{d!r} ({problem.below_names.get(d, '?')})"
+                          for d in dict.fromkeys(below))
+        suggestions.append(f"a downstream device with a lower let-through under it (energy "
+                           f"class 3, a lower rating or another type) for {names}")
+        suggestions.append(f"a tested combination: give tested_limits_a = "
+                           f"{{{problem.circuit_id!r} = ...}} on {names} from the "
+                           f"manufacturers' tables")
+        if family not in ("electronic",):
+            suggestions.append("a different family: an electronic breaker with a short-time "
+                               "delay (--family electronic)")
+        if circuit.selective_to_a is None:
+            suggestions.append("a partial requirement (selective_to_a on the circuits below) "
+                               "if total selectivity is not needed")
+    above = [f.other for _, f in past_load if f.stage == "selectivity-above" and f.other]
+    if above:
+        suggestions.append("a larger device above (" + ", ".join(
+            repr(a) for a in dict.fromkeys(above)) + "): choose it first, or the whole board "
+            "with --board")
+    return reason, tuple(suggestions)
+
+
+def _setting_bindings(problem: _Problem, winner: Candidate) -> dict[str, str]:
+    """For each setting of an adjustable winner, why its next lower grid value is refused."""
+    from curves import breaker as b
+
+    spec = winner.spec
+    family = spec.get("family") if isinstance(spec, Mapping) else None
+    axes: dict[str, tuple[tuple[str, Sequence[float]], ...]] = {
+        "tm": (("Ir_x", b.TM_IR_FRACTIONS), ("Ii_x", b.II_X)),
+        "electronic": (("Ir_x", b.ELECTRONIC_IR_FRACTIONS), ("Isd_x", b.ISD_X),
+                       ("tsd_s", b.TSD_S), ("tr_s", b.TR_S), ("Ii_x", b.ELECTRONIC_II_X)),
+    }
+    out: dict[str, str] = {}
+    for key, values in axes.get(str(family), ()):
+        value = spec.get(key)  # type: ignore[union-attr]
+        if value is None:
+            continue
+        grid = sorted(float(v) for v in values)
+        below = grid if value == "off" else [v for v in grid if v < float(value) - 1e-12]
+        if not below:
+            out[key] = "the lowest setting"
+            continue
+        lower = below[-1]
+        trial = {**spec, key: _num(lower)}  # type: ignore[dict-item]
+        cand = Candidate(trial, winner.rating_a, winner.rating_a * float(trial["Ir_x"]), ())
+        try:
+            failure = exact_failure(problem, cand)
+        except InputError:
+            out[key] = f"{key} = {lower:g} is not a setting the unit takes with the others"
+            continue
+        out[key] = f"{key} = {lower:g}: " + (
+            failure.text if failure is not None else "also meets every requirement")
+    return out
+
+
+def choose(study: Study, circuit_id: str, *, family: str | None = None,
+           levels: Any = None, skip_above: Iterable[str] = ()) -> Choice:
+    """The smallest rating (and lowest settings) for one circuit's device that meet every
+    requirement.
+
+    Parameters
+    ----------
+    study : Study
+        The installation.
+    circuit_id : str
+        The circuit whose device is chosen.
+    family : str, optional
+        One of :data:`FAMILIES`; default: the family of the circuit's present device.
+    levels : FaultLevels, optional
+        ``coordination.faults.compute(study)``, when already computed (devices do not change
+        fault levels).
+    skip_above : iterable of str, optional
+        Ancestors whose selectivity with this circuit is left to their own choice (the
+        whole-board mode chooses them afterwards).
+
+    Returns
+    -------
+    Choice
+        ``found`` with the device, its rating and settings and the binding requirement, or the
+        reason nothing fits and what would.
+
+    References
+    ----------
+    IEC 60364-4-43 clause 433.1 (Ib <= In <= Iz, I2 <= 1.45 Iz); IEC 60364-4-41 clause 411.3.2
+    (disconnection times, Table 41.1); IEC 60947-2 Annex A and IEC 60898-1 Annex ZA
+    (selectivity by time-current bands and let-through energy).
+
+    Examples
+    --------
+    >>> from coordination import study
+    >>> s = study.loads('''
+    ... [supply]
+    ... pfc_a = 3000
+    ... ze_ohm = 0.35
+    ... [[circuit]]
+    ... id = "sockets"
+    ... from = "supply"
+    ... device = "B32"
+    ... phases = 1
+    ... load_a = 18
+    ... [circuit.cable]
+    ... length_m = 10
+    ... csa_mm2 = 4
+    ... iz_a = 27
+    ... ''')
+    >>> c = choose(s, "sockets")
+    >>> print(c.device, c.rating_a, c.binding)
+    B20 20.0 load: Ib 18 A > In 16 A
+    """
+    if levels is None:
+        from coordination import faults
+
+        levels = faults.compute(study)
+    problem, current = _problem(study, levels, circuit_id, family, frozenset(skip_above))
+    stated = study.by_id[circuit_id].breaking_capacity_a is not None
+    groups = candidate_groups(problem.family, current, 0.0 if stated else problem.ik_break_a)
+    previous = spec_text(study.by_id[circuit_id].device)
+    winner, band, binding, failures = _search(problem, groups)
+    if winner is None or band is None:
+        reason, suggestions = _explain(problem, failures, problem.family)
+        return Choice(circuit_id, False, None, None, MappingProxyType({}), None, reason,
+                      problem.family, None, suggestions, problem.searched, previous)
+    if binding is None:
+        reason = f"{band.name} is the smallest {problem.family} candidate and meets every " \
+                 f"requirement"
+    else:
+        reason = f"{band.name} meets every requirement; the next smaller candidate " \
+                 f"({binding.device}) fails {binding.text}"
+    per_setting = _setting_bindings(problem, winner)
+    return Choice(circuit_id, True, winner.spec, float(band.rating_a),
+                  MappingProxyType(dict(band.settings)),
+                  binding.text if binding is not None else None, reason, problem.family,
+                  band.name, (), problem.searched, previous, MappingProxyType(per_setting))
+
+
+def choose_board(study: Study, board_id: str, *, family: str | None = None) -> tuple[Choice, ...]:
+    """Choose every circuit that feeds a board, at or below ``board_id``, from the bottom up.
+
+    Each choice sees the ones made before it: the chosen device is substituted into the study
+    before the next, shallower circuit is chosen. Selectivity with a device above that is still
+    to be chosen is left to that device's own choice. Where nothing fits, the present device
+    stays.
+
+    Parameters
+    ----------
+    board_id : str
+        A circuit id (that circuit and every board below it), or ``"supply"`` for the whole study.
+
+    References
+    ----------
+    IEC 60364-5-53 clause 536.4 (selectivity between protective devices in series).
+
+    Examples
+    --------
+    >>> from coordination import study
+    >>> s = study.loads('''
+    ... [supply]
+    ... pfc_a = 6000
+    ... ze_ohm = 0.05
+    ... [[circuit]]
+    ... id = "sub-main"
+    ... from = "supply"
+    ... device = "gG63"
+    ... [circuit.cable]
+    ... length_m = 5
+    ... csa_mm2 = 35
+    ... [[circuit]]
+    ... id = "lights"
+    ... from = "sub-main"
+    ... device = "B10"
+    ... phases = 1
+    ... ''')
+    >>> print([(c.circuit, c.rating_a) for c in choose_board(s, "supply")])
+    [('sub-main', 125.0)]
+    """
+    from coordination import faults
+
+    if board_id != SUPPLY_ID and board_id not in study.by_id:
+        raise InputError(f"no circuit {board_id!r} in the study; give a circuit id or "
+                         f"{SUPPLY_ID!r} for the whole study", key="--board")
+    levels = faults.compute(study)
+    feeders = [c.id for c in study.circuits if study.children.get(c.id)
+               and (board_id == SUPPLY_ID or c.id == board_id
+                    or board_id in study.ancestors(c.id))]
+    depth = {cid: len(study.ancestors(cid)) for cid in feeders}
+    order = sorted(feeders, key=lambda cid: -depth[cid])  # stable: deepest first
+    choices: list[Choice] = []
+    current = study
+    for n, cid in enumerate(order):
+        later = frozenset(order[n + 1:])
+        choice = choose(current, cid, family=family, levels=levels, skip_above=later)
+        choices.append(choice)
+        if choice.found and choice.device is not None:
+            current = substitute(current, cid, choice.device)
+    return tuple(choices)
+
+
+def _setting_text(key: str, value: Any) -> str:
+    if isinstance(value, bool):
+        return f"{key}={'true' if value else 'false'}"
+    if isinstance(value, int | float):
+        return f"{key}={value:g}"
+    return f"{key}={value}"
+
+
+def format_results(results: Iterable[Choice]) -> str:
+    """The `choose` printout: one block per circuit, with the line to paste into the study.
+
+    Examples
+    --------
+    >>> from coordination import study
+    >>> s = study.loads('''
+    ... [supply]
+    ... pfc_a = 3000
+    ... ze_ohm = 0.35
+    ... [[circuit]]
+    ... id = "sockets"
+    ... from = "supply"
+    ... device = "B32"
+    ... phases = 1
+    ... load_a = 18
+    ... [circuit.cable]
+    ... length_m = 10
+    ... csa_mm2 = 4
+    ... iz_a = 27
+    ... ''')
+    >>> print(format_results([choose(s, "sockets")]).splitlines()[0])
+    circuit 'sockets': B20 (In 20 A)
+    """
+    blocks = []
+    for r in results:
+        if r.found:
+            settings = ", ".join(_setting_text(k, v) for k, v in r.settings.items())
+            lines = [f"circuit {r.circuit!r}: {r.name} (In {r.rating_a:g} A)",
+                     f"  settings: {settings}" if settings else "",
+                     f"  binding:  {r.binding or 'none (smallest of the family)'}",
+                     *(f"  lower {k}: {v}" for k, v in r.setting_bindings.items()),
+                     f"  {r.reason}",
+                     f"  was:      device = {r.previous}",
+                     f"  study:    device = {spec_text(r.device)}"]
+        else:
+            lines = [f"circuit {r.circuit!r}: nothing in family {r.family} fits",
+                     f"  {r.reason}"]
+            lines += [f"  would help: {s}" for s in r.suggestions]
+        blocks.append("\n".join(line for line in lines if line))
+    return "\n\n".join(blocks) + "\n"

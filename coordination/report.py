@@ -1,0 +1,869 @@
+"""The selectivity report: one printable PDF of a whole study, and its tables as CSV.
+
+Pages, in order: a cover (title, date, tool version, the supply, a summary, the standards used and
+the caution), the device register (the basis of every device), fault levels, the selectivity of
+every upstream/downstream pair, the protection checks, a time-current plot per board and per
+circuit that has a non-selective pair above it, and the notes and limitations.
+
+The PDF is drawn with matplotlib alone (``PdfPages``; text pages are figures with text placed on
+them): the plots need matplotlib anyway, so the report adds no dependency, and with TrueType
+fonts embedded (``pdf.fonttype`` 42) its text layer can be searched, copied and extracted.
+
+Everything is computed before the first byte is written; files are written beside their target
+and moved into place only when complete (:func:`coordination.io.atomic_path`), so on any error no
+file is written and an existing report is never left half-written.
+"""
+
+from __future__ import annotations
+
+import csv as csv_module
+import datetime as dt
+import math
+import os
+import sys
+import textwrap
+from collections.abc import Callable, Iterable, Sequence
+from contextlib import ExitStack
+from dataclasses import dataclass, fields, is_dataclass
+from functools import lru_cache
+from pathlib import Path
+from typing import TYPE_CHECKING, Any
+
+from coordination import CAUTION, __version__
+from coordination.io import atomic_path, check_output_path
+from coordination.model import Study
+from coordination.text import format_current
+from curves.errors import InputError
+
+if TYPE_CHECKING:  # pragma: no cover
+    from matplotlib.figure import Figure
+
+#: Standards the models, fault levels and checks rest on (shown on the cover).
+STANDARDS = (
+    ("IEC 60898-1", "circuit-breakers for household and similar installations (MCBs, types B, C "
+                    "and D; energy-limiting classes)"),
+    ("IEC 60269-1 / -2", "low-voltage fuses, gG fuse-links: gates, conventional currents, I2t"),
+    ("IEC 60947-2", "circuit-breakers: thermal-magnetic and electronic releases, selectivity "
+                    "(Annex A)"),
+    ("IEC 60909-0", "short-circuit currents in three-phase a.c. systems (simplified for LV)"),
+    ("IEC 60364-4-41", "protection against electric shock: disconnection times (Table 41.1)"),
+    ("IEC 60364-4-43", "protection against overcurrent: overload and fault energy (k^2 S^2)"),
+    ("IEC 60364-5-54", "earthing arrangements and protective conductors (Table A.54.3)"),
+    ("IEC 60228", "conductors of insulated cables: resistance at 20 degC"),
+    ("BS 7671 Table 41.3", "maximum earth-fault loop impedance for circuit-breakers"),
+)
+
+#: A4 portrait [in].
+PAGE_SIZE_IN = (8.27, 11.69)
+LEFT, RIGHT, TOP, BOTTOM = 0.07, 0.95, 0.93, 0.07
+INK = "#1a1a1a"
+MUTED = "#555555"
+RULE = "#9a9a9a"
+FAIL_INK = "#8b1a1a"
+VERDICT_RANK = {"none": 0, "partial": 1, "total": 2}
+
+#: The file name the demo writes; it replaces only a file of this name in the chosen folder.
+DEMO_REPORT_NAME = "coordination-demo-report.pdf"
+#: The bundled example the demo runs.
+DEMO_EXAMPLE = "office-building.toml"
+
+
+@dataclass(frozen=True)
+class ReportSummary:
+    """What :func:`write_report` wrote.
+
+    Attributes
+    ----------
+    ok : bool
+        Every selectivity requirement and every protection check is met.
+    pages : int
+        Pages in the PDF.
+    extra_files : tuple of Path
+        The CSV files written beside the PDF (empty unless asked for).
+    path : Path
+        The PDF.
+    """
+
+    ok: bool
+    pages: int
+    extra_files: tuple[Path, ...] = ()
+    path: Path | None = None
+
+
+# -- small formatting helpers -------------------------------------------------------------------
+def _num(value: Any) -> float | None:
+    if value is None:
+        return None
+    try:
+        v = float(value)
+    except (TypeError, ValueError):
+        return None
+    return v if math.isfinite(v) else None
+
+
+def _ka(value: Any) -> str:
+    """A current in kA for the tables (A below 100 A, so small earth faults stay readable)."""
+    v = _num(value)
+    if v is None:
+        return "-"
+    return f"{v / 1000:.3g}"
+
+
+def _ohm(value: Any) -> str:
+    v = _num(value)
+    return "-" if v is None else f"{v:.3g}"
+
+
+def _value(value: Any, unit: str) -> str:
+    v = _num(value)
+    if v is None:
+        return "never" if unit == "s" and value is not None else "-"
+    if unit == "s":
+        return f"{v * 1000:.3g} ms" if v < 1 else f"{v:.3g} s"
+    if unit == "A":
+        return format_current(v)
+    if unit == "mm2":
+        return f"{v:.3g} mm\u00b2"
+    return f"{v:.3g} {unit}"
+
+
+def _settings(settings: Any) -> str:
+    parts = []
+    for key, val in dict(settings).items():
+        parts.append(f"{key}={val:g}" if isinstance(val, int | float) else f"{key}={val}")
+    return ", ".join(parts)
+
+
+def report_date() -> dt.date:
+    """Today, or the date of ``SOURCE_DATE_EPOCH`` when set (reproducible documents)."""
+    epoch = os.environ.get("SOURCE_DATE_EPOCH")
+    if epoch and epoch.isdigit():
+        return dt.datetime.fromtimestamp(int(epoch), tz=dt.UTC).date()
+    return dt.date.today()
+
+
+# -- tables on pages ----------------------------------------------------------------------------
+@dataclass(frozen=True)
+class TableSpec:
+    """A table to set on one or more pages: column headings, relative widths, rows of text."""
+
+    headers: tuple[str, ...]
+    widths: tuple[float, ...]
+    rows: tuple[tuple[str, ...], ...]
+    align: str = ""  # one 'l' or 'r' per column; default all left
+    wrap: tuple[int, ...] = ()  # columns whose text wraps onto more lines
+    flags: tuple[bool, ...] = ()  # rows to set in the failure ink
+
+
+FONT_PT = 7.0
+LINESPACING = 1.3
+
+
+@lru_cache(maxsize=1)
+def line_pitch_in() -> float:
+    """Distance between baselines of table text [in], measured once on the Agg renderer."""
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+
+    fig = Figure(figsize=PAGE_SIZE_IN, dpi=72)
+    renderer = FigureCanvasAgg(fig).get_renderer()
+    heights = []
+    for n in (1, 11):
+        text = fig.text(0.1, 0.9, "\n".join(["Ag"] * n), fontsize=FONT_PT, va="top",
+                        linespacing=LINESPACING)
+        heights.append(text.get_window_extent(renderer).height)
+    return (heights[1] - heights[0]) / 10.0 / 72.0
+
+
+def _column_chars(spec: TableSpec) -> list[int]:
+    total = sum(spec.widths)
+    usable_in = (RIGHT - LEFT) * PAGE_SIZE_IN[0]
+    # DejaVu Sans averages about 0.55 em per character
+    return [max(3, int(usable_in * w / total * 72.0 / (FONT_PT * 0.56))) for w in spec.widths]
+
+
+def _row_lines(spec: TableSpec, row: Sequence[str], chars: Sequence[int]) -> list[list[str]]:
+    cells = []
+    for j, text in enumerate(row):
+        text = str(text)
+        if j in spec.wrap:
+            cells.append(textwrap.wrap(text, chars[j] - 1) or [""])
+        else:
+            cells.append([text if len(text) < chars[j] else text[: chars[j] - 2] + "\u2026"])
+    return cells
+
+
+def _paginate(spec: TableSpec, first_room_in: float, room_in: float) -> list[list[int]]:
+    """Row indices per page, given the height available on the first and later pages [in]."""
+    chars = _column_chars(spec)
+    pitch = line_pitch_in()
+    pages: list[list[int]] = [[]]
+    room = first_room_in - 2 * pitch  # the heading row and its rule
+    for i, row in enumerate(spec.rows):
+        height = max(len(c) for c in _row_lines(spec, row, chars)) * pitch
+        if height > room and pages[-1]:
+            pages.append([])
+            room = room_in - 2 * pitch
+        pages[-1].append(i)
+        room -= height
+    return pages
+
+
+def _draw_table(fig: Figure, spec: TableSpec, rows: Sequence[int], top: float) -> float:
+    """Set the heading and the given rows from ``top`` (figure fraction); returns the new top.
+
+    Each column is one multi-line text (two when some rows are set in the failure ink), with
+    every row padded to the same number of lines in all columns, and alternate rows shaded:
+    a page of table costs a few dozen text objects however many rows it has.
+    """
+    from matplotlib.patches import Rectangle
+
+    chars = _column_chars(spec)
+    total = sum(spec.widths)
+    xs = [LEFT]
+    for w in spec.widths[:-1]:
+        xs.append(xs[-1] + (RIGHT - LEFT) * w / total)
+    right_edges = [*xs[1:], RIGHT]
+    align = spec.align or "l" * len(spec.headers)
+    pitch = line_pitch_in() / PAGE_SIZE_IN[1]
+    gap = 0.012  # a little space between columns, for right-aligned text
+
+    def put(j: int, y: float, text: str, **kw: Any) -> None:
+        if align[j] == "r":
+            fig.text(right_edges[j] - gap, y, text, ha="right", va="top",
+                     multialignment="right", linespacing=LINESPACING, **kw)
+        else:
+            fig.text(xs[j], y, text, ha="left", va="top", multialignment="left",
+                     linespacing=LINESPACING, **kw)
+
+    y = top
+    for j, head in enumerate(spec.headers):
+        put(j, y, head, fontsize=FONT_PT, fontweight="bold", color=INK)
+    y -= pitch * 1.2
+    fig.add_artist(_rule(fig, y))
+    y -= pitch * 0.3
+    columns: dict[bool, list[list[str]]] = {False: [[] for _ in spec.headers],
+                                            True: [[] for _ in spec.headers]}
+    used = 0
+    for k, i in enumerate(rows):
+        cells = _row_lines(spec, spec.rows[i], chars)
+        n = max(len(c) for c in cells)
+        flagged = bool(spec.flags and spec.flags[i])
+        for j, lines in enumerate(cells):
+            columns[flagged][j].extend(lines + [""] * (n - len(lines)))
+            columns[not flagged][j].extend([""] * n)
+        if k % 2 == 1:
+            fig.add_artist(Rectangle((LEFT - 0.005, y - (used + n) * pitch + 0.2 * pitch),
+                                     RIGHT - LEFT + 0.01, n * pitch, transform=fig.transFigure,
+                                     facecolor="#eeeeee", edgecolor="none", zorder=-1))
+        used += n
+    for flagged, colour in ((False, INK), (True, FAIL_INK)):
+        for j, lines in enumerate(columns[flagged]):
+            if any(lines):
+                put(j, y, "\n".join(lines), fontsize=FONT_PT, color=colour)
+    return y - used * pitch
+
+
+def _rule(fig: Figure, y: float, colour: str = RULE) -> Any:
+    from matplotlib.lines import Line2D
+
+    return Line2D([LEFT, RIGHT], [y, y], transform=fig.transFigure, color=colour, linewidth=0.5)
+
+
+# -- the page frame ----------------------------------------------------------------------------
+def _new_page(study: Study, heading: str | None) -> Figure:
+    from matplotlib.figure import Figure
+
+    fig = Figure(figsize=PAGE_SIZE_IN)
+    fig.text(LEFT, 0.975, study.title, fontsize=7, color=MUTED, ha="left", va="top")
+    fig.text(RIGHT, 0.975, "selectivity report", fontsize=7, color=MUTED, ha="right",
+             va="top")
+    if heading:
+        fig.text(LEFT, 0.955, heading, fontsize=13, fontweight="bold", color=INK, va="top")
+    return fig
+
+
+def _finish_page(fig: Figure, number: int, total: int) -> None:
+    fig.add_artist(_rule(fig, 0.045))
+    fig.text(LEFT, 0.038, CAUTION, fontsize=5.6, color=MUTED, ha="left", va="top")
+    fig.text(RIGHT, 0.02, f"page {number} of {total}", fontsize=7, color=MUTED, ha="right",
+             va="bottom")
+
+
+# -- what goes in the report -------------------------------------------------------------------
+def _boards(study: Study) -> list[str]:
+    """Circuits that feed a board, in study order."""
+    return [c.id for c in study.circuits if study.children.get(c.id)]
+
+
+def _worst_key(analysis: Any, circuit_id: str, rating: float) -> tuple:
+    pairs = analysis.for_circuit(circuit_id)
+    if not pairs:
+        return (3, math.inf, -rating)
+    worst = min(pairs, key=lambda p: (VERDICT_RANK[p.verdict], _num(p.limit_a) or math.inf))
+    return (VERDICT_RANK[worst.verdict], _num(worst.limit_a) or math.inf, -rating)
+
+
+def plot_plan(study: Study, analysis: Any) -> list[tuple[str, str, str]]:
+    """The plots the report carries: ``(kind, circuit id, caption heading)``.
+
+    One per board that has an incoming device (its outgoing circuit with the least selectivity,
+    which draws the whole chain above it), then one per circuit that has a non-selective pair
+    above it and was not already drawn.
+    """
+    from coordination.devices import band_for
+
+    plan: list[tuple[str, str, str]] = []
+    drawn: set[str] = set()
+    for board_circuit in _boards(study):
+        outgoing = study.children[board_circuit]
+        pick = min(outgoing, key=lambda cid: _worst_key(
+            analysis, cid, band_for(study, cid, analysis.basis).rating_a))
+        name = study.by_id[board_circuit].board or board_circuit
+        plan.append(("board", pick, f"Board {name}"))
+        drawn.add(pick)
+    seen: set[str] = set()
+    for p in analysis.pairs:
+        if p.verdict != "total" and p.downstream not in drawn and p.downstream not in seen:
+            seen.add(p.downstream)
+            plan.append(("pair", p.downstream, f"Not selective: {p.downstream}"))
+    return plan
+
+
+def _device_table(study: Study, basis: str | None) -> TableSpec:
+    from coordination.devices import band_for
+
+    rows, flags = [], []
+    for c in study.circuits:
+        band = band_for(study, c.id, basis)
+        feeds = (c.board or c.id) if study.children.get(c.id) else ""
+        cable = ""
+        if c.cable is not None:
+            par = f"{c.cable.parallel} x " if (c.cable.parallel or 1) > 1 else ""
+            cpc = f"/{c.cable.cpc_mm2:g}" if c.cable.cpc_mm2 else ""
+            cable = (f"{par}{c.cable.csa_mm2:g}{cpc} mm\u00b2 {c.cable.material[:2]} "
+                     f"{c.cable.insulation}, {c.cable.length_m:g} m")
+        rows.append((c.id, study.board_name(c.id), feeds, band.name, band.basis,
+                     _settings(band.settings), "-" if c.load_a is None else f"{c.load_a:g}",
+                     cable))
+        flags.append(False)
+    return TableSpec(("circuit", "sits on", "feeds", "device", "basis", "settings", "Ib A",
+                      "cable"), (1.5, 1.2, 0.9, 1.5, 0.7, 2.4, 0.45, 2.0), tuple(rows),
+                     "llllllrl", wrap=(3, 5, 7), flags=tuple(flags))
+
+
+def _fault_table(study: Study, levels: Any) -> TableSpec:
+    rows = []
+    for c in study.circuits:
+        n = levels.by_circuit.get(c.id)
+        rows.append((c.id, study.board_name(c.id), str(c.phases),
+                     _ka(getattr(n, "ik3_max_a", None)), _ka(getattr(n, "ik1_max_a", None)),
+                     _ka(getattr(n, "ik_max_a", None)), _ka(getattr(n, "ik_min_end_a", None)),
+                     _ka(getattr(n, "ief_min_a", None)), _ohm(getattr(n, "zs_ohm", None))))
+    return TableSpec(("circuit", "board", "ph", "Ik3 max kA", "Ik1 max kA", "window kA",
+                      "Ik min end kA", "Ief min end kA", "Zs end \u03a9"),
+                     (1.7, 1.4, 0.35, 0.9, 0.9, 0.9, 1.0, 1.0, 0.8), tuple(rows), "lllrrrrrr")
+
+
+def _pair_table(analysis: Any) -> TableSpec:
+    rows, flags = [], []
+    for p in analysis.pairs:
+        rows.append((
+            f"{p.downstream} ({p.downstream_device})", f"{p.upstream} ({p.upstream_device})",
+            p.verdict, "-" if p.verdict == "total" else _ka(p.limit_a),
+            f"{_ka(p.window_a[0])}-{_ka(p.window_a[1])}", p.decided_by,
+            f"{p.downstream_basis}/{p.upstream_basis}",
+            "total" if p.required_a is None else _ka(p.required_a), "yes" if p.ok else "NO"))
+        flags.append(not p.ok)
+    return TableSpec(("downstream", "upstream", "verdict", "Is kA", "window kA", "decided by",
+                      "bases d/u", "need kA", "met"),
+                     (2.1, 2.1, 0.65, 0.55, 1.0, 0.95, 1.25, 0.7, 0.4), tuple(rows), "lllrllllr",
+                     wrap=(0, 1), flags=tuple(flags))
+
+
+def _check_table(results: Sequence[Any]) -> TableSpec:
+    rows, flags = [], []
+    for r in results:
+        rows.append((r.circuit, r.check, "pass" if r.ok else "FAIL", _value(r.value, r.unit),
+                     _value(r.limit, r.unit), r.reason))
+        flags.append(not r.ok)
+    return TableSpec(("circuit", "check", "result", "value", "limit", "reason"),
+                     (1.5, 1.45, 0.5, 0.8, 0.8, 4.15), tuple(rows), "lllrrl", wrap=(5,),
+                     flags=tuple(flags))
+
+
+def _supply_lines(study: Study, levels: Any) -> list[str]:
+    s = study.supply
+    lines = [f"{s.u0_v:g} V to earth, {s.phases}-phase, {s.earthing} earthing"]
+    if s.transformer is not None:
+        t = s.transformer
+        upstream = (f", network {format_current(t.upstream_pfc_a)} referred to LV"
+                    if t.upstream_pfc_a else ", infinite network assumed")
+        lines.append(f"transformer {t.rating_kva:g} kVA, uk {t.impedance_pct:g} %, X/R "
+                     f"{t.x_r:g}{upstream}")
+    if s.pfc_a is not None:
+        lines.append(f"declared prospective fault current {format_current(s.pfc_a)}")
+    if s.ze_ohm is not None:
+        lines.append(f"external earth-fault loop impedance Ze {s.ze_ohm:g} \u03a9")
+    lines.append(f"voltage factors cmax {s.c_max:g}, cmin {s.c_min:g} (IEC 60909-0 Table 1)")
+    ik3 = _num(getattr(levels, "origin_ik3_a", None))
+    ik1 = _num(getattr(levels, "origin_ik1_a", None))
+    ze = _num(getattr(levels, "ze_ohm", None))
+    origin = []
+    if ik3:
+        origin.append(f"Ik3 max {ik3 / 1000:.3g} kA")
+    if ik1:
+        origin.append(f"Ik1 max {ik1 / 1000:.3g} kA")
+    if ze:
+        origin.append(f"Ze {ze:.3g} \u03a9")
+    if origin:
+        lines.append("at the origin: " + ", ".join(origin))
+    return lines
+
+
+def _basis_summary(study: Study, basis: str | None) -> str:
+    from coordination.devices import band_for
+
+    counts: dict[str, int] = {}
+    for c in study.circuits:
+        b = band_for(study, c.id, basis).basis
+        counts[b] = counts.get(b, 0) + 1
+    parts = [f"{b} for {n} device{'s' if n != 1 else ''}" for b, n in counts.items()]
+    return "Selectivity basis: " + ", ".join(parts) + (
+        " (each device's basis is in the device register). Protection checks: envelope, the "
+        "worst case a compliant device allows.")
+
+
+NOTES = (
+    ("Fault levels", (
+        "Short-circuit currents follow the method of IEC 60909-0, simplified for low voltage: "
+        "the source impedance comes from the declared prospective fault current, the external "
+        "loop impedance Ze or the transformer (rating, uk, X/R); conductor resistance from "
+        "IEC 60228 at 20 degC for maximum currents and at operating temperature for minimum "
+        "ones; reactance per metre from common practice unless the study gives it; voltage "
+        "factors cmax and cmin as stated on the cover. Motor contribution, arc resistance, "
+        "busbar and switchgear impedance are neglected: maxima are slightly high and minima "
+        "slightly low, which is the safe side for both.")),
+    ("Bands and bases", (
+        "Each device is a band between its earliest operating time (lower edge) and its latest "
+        "clearing time (upper edge). On the typical basis the band sits in the middle of the "
+        "standard's limits, widened by the usual manufacturing tolerance; on the envelope basis "
+        "it is the widest band any complying device may have; a datasheet basis uses the points "
+        "the study gave. Below 10 ms times are equivalent times I2t / I^2 from the energy "
+        "limits of the standards (let-through of MCB energy classes, fuse pre-arcing and "
+        "operating I2t).")),
+    ("Selectivity", (
+        "A downstream device is selective with an upstream one at a current when its latest "
+        "clearing time, times the margin and plus the interval over adjustable breakers, does "
+        "not exceed the upstream device's earliest operating time. The window runs from the "
+        "downstream device's conventional non-tripping current to the maximum fault at its "
+        "board. Is is the lowest current where the bands meet; 'partial' means selective up to "
+        "Is, 'none' that the bands meet in overload. An upstream breaker with an instantaneous "
+        "release withstands no energy above it: only a tested limit given in the study, shown "
+        "as 'tested', can show selectivity there. Crossover zones are hatched on the plots.")),
+    ("Protection checks", (
+        "Disconnection times (IEC 60364-4-41 Table 41.1), overload (Ib <= In <= Iz, "
+        "I2 <= 1.45 Iz), fault energy (k^2 S^2 >= I2t, IEC 60364-4-43) and breaking capacity, "
+        "always on the envelope basis whatever the selectivity basis.")),
+    ("Not covered", (
+        "Residual-current devices, back-up (cascade) ratings unless given as tested limits, "
+        "earth-fault protection settings, ambient derating of devices, harmonics, voltage drop "
+        "and discrimination under motor starting are outside this report. Manufacturers' "
+        "selectivity tables and curves take precedence over the standard-based bands used "
+        "here.")),
+)
+
+
+# -- page builders -----------------------------------------------------------------------------
+PageBuilder = Callable[[int, int], "Figure"]
+
+
+def _cover(study: Study, levels: Any, analysis: Any, results: Sequence[Any],
+           basis: str | None) -> PageBuilder:
+    def build(number: int, total: int) -> Figure:
+        fig = _new_page(study, None)
+        y = 0.9
+        fig.text(LEFT, y, "Selectivity report", fontsize=24, fontweight="bold", color=INK,
+                 va="top")
+        y -= 0.05
+        fig.text(LEFT, y, study.title, fontsize=15, color=INK, va="top")
+        y -= 0.035
+        source = f"   study file: {Path(study.source).name}" if study.source else ""
+        fig.text(LEFT, y, f"Date {report_date().isoformat()}   tool: coordination "
+                 f"{__version__}{source}", fontsize=9, color=MUTED, va="top")
+        y -= 0.045
+
+        def block(title: str, lines: Iterable[str], y: float, width: int = 118) -> float:
+            fig.text(LEFT, y, title, fontsize=11, fontweight="bold", color=INK, va="top")
+            y -= 0.022
+            for raw in lines:
+                for k, text in enumerate(textwrap.wrap(raw, width) or [""]):
+                    fig.text(LEFT + (0.02 if k else 0.0), y, text, fontsize=8.5, color=INK,
+                             va="top")
+                    y -= 0.0155
+            return y - 0.012
+
+        y = block("Supply", _supply_lines(study, levels), y)
+        summary = analysis.summary()
+        failed = [r for r in results if not r.ok]
+        n_boards = len(_boards(study))
+        verdict = ("Every selectivity requirement and protection check is met." if
+                   (analysis.ok and not failed) else
+                   "NOT every requirement is met: see the selectivity table and the checks.")
+        y = block("Summary", [
+            f"{len(study.circuits)} circuits, {n_boards} boards with an incoming device.",
+            f"{summary['pairs']} upstream/downstream pairs: {summary['total']} total, "
+            f"{summary['partial']} partial, {summary['none']} none; "
+            f"{summary['unmet']} below their required selectivity.",
+            f"{len(results)} protection checks, {len(failed)} failed.",
+            verdict,
+        ], y)
+        y = block("Bases", [_basis_summary(study, basis)], y)
+        y = block("Standards used", [f"{code}: {what}" for code, what in STANDARDS], y)
+        # the caution, boxed
+        fig.text(LEFT, y - 0.005, "Caution", fontsize=11, fontweight="bold", color=FAIL_INK,
+                 va="top")
+        fig.text(LEFT, y - 0.03, "\n".join(textwrap.wrap(CAUTION, 95)), fontsize=10,
+                 color=INK, va="top", linespacing=1.4,
+                 bbox={"boxstyle": "round,pad=0.6", "facecolor": "#f3efe6",
+                       "edgecolor": FAIL_INK, "linewidth": 0.8})
+        _finish_page(fig, number, total)
+        return fig
+
+    return build
+
+
+def _table_pages(study: Study, heading: str, intro: Sequence[str],
+                 spec: TableSpec) -> list[PageBuilder]:
+    intro_in = (0.32 + 0.16 * sum(len(textwrap.wrap(t, 130)) for t in intro)) if intro else 0.3
+    body_in = (TOP - BOTTOM) * PAGE_SIZE_IN[1]
+    chunks = _paginate(spec, body_in - intro_in, body_in - 0.3)
+    builders: list[PageBuilder] = []
+    for k, rows in enumerate(chunks):
+        def build(number: int, total: int, rows: list[int] = rows, k: int = k) -> Figure:
+            title = heading if k == 0 else f"{heading} (continued)"
+            fig = _new_page(study, title)
+            y = TOP - 0.012
+            if k == 0:
+                for para in intro:
+                    for line in textwrap.wrap(para, 130):
+                        fig.text(LEFT, y, line, fontsize=7.5, color=MUTED, va="top")
+                        y -= 0.013
+                y -= 0.008
+            _draw_table(fig, spec, rows, y)
+            _finish_page(fig, number, total)
+            return fig
+
+        builders.append(build)
+    return builders
+
+
+def _plot_page(study: Study, levels: Any, analysis: Any, kind: str, circuit_id: str,
+               heading: str, basis: str | None) -> PageBuilder:
+    def build(number: int, total: int) -> Figure:
+        from coordination.plot import pairs_in_chain, plot_circuit
+
+        fig = _new_page(study, heading)
+        ax = fig.add_axes((0.11, 0.40, 0.84, 0.51))
+        plot_circuit(study, levels, analysis, circuit_id, basis=basis, ax=ax,
+                     title=f"{circuit_id} and the devices above it")
+        chain = (circuit_id, *study.ancestors(circuit_id))
+        lines = []
+        if kind == "board":
+            feeder = study.by_id[circuit_id].parent
+            lines.append(f"Fed by {feeder} ({analysis.for_circuit(circuit_id)[0].upstream_device}"
+                         f"). Drawn: its outgoing circuit {circuit_id}, the one with the least "
+                         "selectivity on this board, with every device above it."
+                         if analysis.for_circuit(circuit_id) else "")
+        pairs = pairs_in_chain(analysis, chain)
+        for p in pairs:
+            limit = "" if p.verdict == "total" else f", Is {_ka(p.limit_a)} kA"
+            lines.append(f"{p.downstream} ({p.downstream_device}) under {p.upstream} "
+                         f"({p.upstream_device}): {p.verdict}{limit} over "
+                         f"{_ka(p.window_a[0])}-{_ka(p.window_a[1])} kA, decided by "
+                         f"{p.decided_by}; requirement {'met' if p.ok else 'NOT met'}.")
+        y = 0.205
+        for raw in lines:
+            for text in textwrap.wrap(raw, 125):
+                fig.text(LEFT, y, text, fontsize=7.2, color=INK, va="top")
+                y -= 0.0125
+        _finish_page(fig, number, total)
+        return fig
+
+    return build
+
+
+def _notes_page(study: Study, levels: Any) -> PageBuilder:
+    def build(number: int, total: int) -> Figure:
+        fig = _new_page(study, "Notes and limitations")
+        y = TOP - 0.01
+        convention = getattr(levels, "convention", "")
+        for title, text in (*NOTES, ("Fault convention of this study", convention or "-")):
+            fig.text(LEFT, y, title, fontsize=10, fontweight="bold", color=INK, va="top")
+            y -= 0.019
+            for line in textwrap.wrap(str(text), 118):
+                fig.text(LEFT, y, line, fontsize=8.2, color=INK, va="top")
+                y -= 0.0145
+            y -= 0.012
+        fig.text(LEFT, y - 0.01, "Caution", fontsize=10, fontweight="bold", color=FAIL_INK,
+                 va="top")
+        fig.text(LEFT, y - 0.032, "\n".join(textwrap.wrap(CAUTION, 110)), fontsize=8.5,
+                 color=INK, va="top", linespacing=1.4)
+        _finish_page(fig, number, total)
+        return fig
+
+    return build
+
+
+# -- CSV ---------------------------------------------------------------------------------------
+def _flat(value: Any) -> Any:
+    if isinstance(value, float):
+        return value if math.isfinite(value) else ""
+    if value is None:
+        return ""
+    if isinstance(value, list | tuple):
+        return " ".join(str(_flat(v)) for v in value)
+    if isinstance(value, dict):
+        return "; ".join(f"{k}={_flat(v)}" for k, v in value.items())
+    return value
+
+
+def _csv_rows(records: Sequence[dict[str, Any]]) -> tuple[list[str], list[list[Any]]]:
+    headers: list[str] = []
+    for r in records:
+        for key in r:
+            if key not in headers:
+                headers.append(key)
+    return headers, [[_flat(r.get(h)) for h in headers] for r in records]
+
+
+def _pair_record(p: Any) -> dict[str, Any]:
+    record = p.to_json()
+    lo, hi = record.pop("window_a")
+    record.pop("band_basis", None)
+    out = {"upstream": record.pop("upstream"), "downstream": record.pop("downstream"),
+           "verdict": record.pop("verdict"), "limit_a": record.pop("limit_a"),
+           "window_lo_a": lo, "window_hi_a": hi, "decided_by": record.pop("basis"),
+           "upstream_basis": p.upstream_basis, "downstream_basis": p.downstream_basis}
+    out.update(record)
+    return out
+
+
+def _node_record(node: Any) -> dict[str, Any]:
+    if is_dataclass(node):
+        return {f.name: getattr(node, f.name) for f in fields(node)}
+    return dict(vars(node))
+
+
+def _write_csv(path: Path, records: Sequence[dict[str, Any]]) -> None:
+    headers, rows = _csv_rows(records)
+    with path.open("w", newline="", encoding="utf-8") as handle:
+        writer = csv_module.writer(handle)
+        writer.writerow(headers)
+        writer.writerows(rows)
+
+
+# -- the report --------------------------------------------------------------------------------
+def _progress(enabled: bool, done: int, total: int) -> None:
+    if not enabled:
+        return
+    width = 30
+    filled = int(width * done / max(total, 1))
+    sys.stderr.write(f"\rreport [{'#' * filled}{'.' * (width - filled)}] page {done}/{total}")
+    if done >= total:
+        sys.stderr.write("\n")
+    sys.stderr.flush()
+
+
+def build_pages(study: Study, basis: str | None = None) -> tuple[list[PageBuilder], bool, Any,
+                                                                 Any, tuple[Any, ...]]:
+    """Compute the study and lay out the report's pages (each drawn when called).
+
+    Returns
+    -------
+    tuple
+        ``(pages, ok, levels, analysis, results)``: ``pages[k](number, total)`` draws page k
+        as a matplotlib Figure.
+    """
+    from coordination import checks, engine, faults
+
+    levels = faults.compute(study)
+    analysis = engine.analyse(study, levels, basis=basis)
+    results = checks.run(study, levels)
+    ok = bool(analysis.ok and all(r.ok for r in results))
+
+    pages: list[PageBuilder] = [_cover(study, levels, analysis, results, basis)]
+    pages += _table_pages(study, "Device register", [
+        "Every protective device of the study: the board it sits on, the board it feeds, its "
+        "band and the basis of that band for selectivity, its settings, the design current Ib "
+        "and its cable (line/protective conductor).",
+    ], _device_table(study, basis))
+    pages += _table_pages(study, "Fault levels", [
+        "Maximum currents at each circuit's origin (its board): Ik3 three-phase, Ik1 "
+        "line-neutral, and the window value (Ik3 for a three-phase circuit, Ik1 for a "
+        "single-phase one), which is the top of its selectivity window. Minimum currents at the "
+        "circuit's far end: Ik min (line-neutral), Ief min (earth fault) and the loop "
+        "impedance Zs. Currents in kA, impedances in ohm (IEC 60909-0, simplified).",
+        str(getattr(levels, "convention", "")),
+    ], _fault_table(study, levels))
+    pages += _table_pages(study, "Selectivity of every pair", [
+        "Each circuit under each device above it. Verdict 'total': selective up to the maximum "
+        "fault at its board; 'partial': selective up to Is; 'none': the bands meet in overload. "
+        "Decided by the time-current edges, by energy (below 10 ms, I2t) or by a tested limit. "
+        "Bases: typical, envelope or datasheet, downstream/upstream. Rows that miss their "
+        "required selectivity are marked NO.",
+    ], _pair_table(analysis))
+    pages += _table_pages(study, "Protection checks", [
+        "Disconnection time (IEC 60364-4-41 Table 41.1), overload (IEC 60364-4-43, 433), fault "
+        "energy (IEC 60364-4-43, 434.5.2: k^2 S^2 against the let-through I2t) and breaking "
+        "capacity, on the envelope basis. Failures are marked FAIL.",
+    ], _check_table(results))
+    for kind, cid, heading in plot_plan(study, analysis):
+        pages.append(_plot_page(study, levels, analysis, kind, cid, heading, basis))
+    pages.append(_notes_page(study, levels))
+
+    return pages, ok, levels, analysis, results
+
+
+def write_report(study: Study, path: str | os.PathLike, *, csv: bool = False,
+                 basis: str | None = None, progress: bool = False) -> ReportSummary:
+    """Write the selectivity report of a study as a PDF (and its tables as CSV on request).
+
+    Parameters
+    ----------
+    study : Study
+        The loaded study.
+    path : path-like
+        The PDF to write. Replaced atomically: on any error nothing is written and an existing
+        file is left as it was.
+    csv : bool
+        Also write ``<stem>-pairs.csv``, ``<stem>-checks.csv`` and ``<stem>-faults.csv`` beside
+        it (currents in A, impedances in ohm, as in the JSON output).
+    basis : str, optional
+        ``"typical"`` or ``"envelope"`` for every device's selectivity band; ``None``: each
+        circuit's own, else the study's.
+    progress : bool
+        Show a one-line progress bar on stderr.
+
+    Returns
+    -------
+    ReportSummary
+        ``ok`` (every requirement met), the page count and the CSV files written.
+
+    References
+    ----------
+    IEC 60909-0 (fault levels), IEC 60947-2 Annex A (selectivity), IEC 60364-4-41/-4-43/-5-54
+    (protection checks): the pages say which clause each table rests on.
+
+    Examples
+    --------
+    >>> from coordination import study
+    >>> s = study.load("examples/small-shop.toml")  # doctest: +SKIP
+    >>> print(write_report(s, "/tmp/shop.pdf").pages > 5)  # doctest: +SKIP
+    True
+    """
+    import matplotlib
+    from matplotlib.backends.backend_pdf import PdfPages
+
+    target = check_output_path(path, inputs=(study.source,) if study.source else (), key="-o")
+    if target.suffix.lower() != ".pdf":
+        raise InputError(f"the report is a PDF; give a file ending in .pdf, not {target.name!r}",
+                         key="-o")
+
+    # everything that can fail on the study's data runs before a file is opened
+    pages, ok, levels, analysis, results = build_pages(study, basis)
+    total = len(pages)
+    extra: list[Path] = []
+    stem = target.with_suffix("")
+    with ExitStack() as stack:
+        pdf_tmp = stack.enter_context(atomic_path(target))
+        if csv:
+            tables = (
+                ("pairs", [_pair_record(p) for p in analysis.pairs]),
+                ("checks", [r.to_json() for r in results]),
+                ("faults", [_node_record(n) for n in levels.nodes]),
+            )
+            for name, records in tables:
+                out = stem.parent / f"{stem.name}-{name}.csv"
+                tmp = stack.enter_context(atomic_path(out))
+                _write_csv(tmp, records)
+                extra.append(out)
+        metadata = {"Title": f"Selectivity report: {study.title}",
+                    "Creator": f"coordination {__version__}", "Subject": CAUTION}
+        with matplotlib.rc_context({"pdf.fonttype": 42, "font.family": "DejaVu Sans"}), \
+                PdfPages(pdf_tmp, metadata=metadata) as pdf:
+            _progress(progress, 0, total)
+            for number, build in enumerate(pages, start=1):
+                fig = build(number, total)
+                pdf.savefig(fig)
+                _progress(progress, number, total)
+    return ReportSummary(ok=ok, pages=total, extra_files=tuple(extra), path=target)
+
+
+# -- the demo ----------------------------------------------------------------------------------
+def bundled_example(name: str = DEMO_EXAMPLE) -> tuple[str, str]:
+    """The text and a display name of a bundled example study.
+
+    Installed, the examples are the package data ``coordination.examples``; in a source
+    checkout (an editable install) they are the repository's ``examples/`` folder.
+    """
+    try:
+        from importlib.resources import files
+
+        resource = files("coordination.examples") / name
+        if resource.is_file():
+            return resource.read_text(encoding="utf-8"), str(resource)
+    except (ModuleNotFoundError, FileNotFoundError, NotADirectoryError, TypeError):
+        pass
+    import coordination
+
+    local = Path(coordination.__file__).resolve().parents[1] / "examples" / name
+    if local.is_file():
+        return local.read_text(encoding="utf-8"), str(local)
+    raise InputError(f"the bundled example {name!r} is missing from this installation; "
+                     "reinstall the package", key="demo")
+
+
+def run_demo(output_dir: str | os.PathLike) -> int:
+    """Check the bundled multi-board example and write its report into ``output_dir``.
+
+    The folder is created when missing. Only a file named ``coordination-demo-report.pdf`` in it
+    is ever replaced (atomically); nothing else is touched.
+
+    Returns
+    -------
+    int
+        0 when the demo ran (the example has non-selective pairs on purpose, so the checks'
+        own exit code would be 1).
+    """
+    from coordination import checks, engine, faults, study
+
+    folder = Path(output_dir)
+    if folder.exists() and not folder.is_dir():
+        raise InputError(f"{str(folder)!r} is a file, not a folder; give a folder for the "
+                         "report", key="-o")
+    text, where = bundled_example()
+    s = study.loads(text, source=where)
+    levels = faults.compute(s)
+    analysis = engine.analyse(s, levels)
+    results = checks.run(s, levels)
+    print(f"Demo: {s.title}")
+    print(f"study file: {where}\n")
+    print(engine.format_table(s, levels, analysis))
+    print()
+    print(checks.format_table(results))
+    print()
+    folder.mkdir(parents=True, exist_ok=True)
+    target = folder / DEMO_REPORT_NAME
+    summary = write_report(s, target, progress=sys.stderr.isatty())
+    counts = analysis.summary()
+    print(f"The example is invented and has non-selective pairs on purpose "
+          f"({counts['partial']} partial, {counts['none']} none of {counts['pairs']}): their "
+          "crossover zones are hatched on the plots.")
+    print(f"report ({summary.pages} pages) written to {target.resolve()}")
+    print(CAUTION)
+    return 0
+
+
+__all__ = ["STANDARDS", "ReportSummary", "bundled_example", "plot_plan", "run_demo",
+           "write_report"]

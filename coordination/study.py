@@ -1,0 +1,601 @@
+"""Load and validate a study file (TOML) into the frozen dataclasses of :mod:`coordination.model`.
+
+Every problem raises :class:`curves.errors.InputError` naming the circuit and the key and saying
+what is allowed; a misspelt key gets the nearest valid one suggested. Circuits come back ordered
+parents first (an iterative depth-first walk from the supply, siblings in file order), so a
+5,000-deep chain loads without recursion.
+
+Keys (units in every name that carries a number)::
+
+    [study]       title, basis, margin, interval_s
+    [supply]      u0_v, phases, earthing, pfc_a, pfc_ln_a, ze_ohm, x_r, c_max, c_min
+    [supply.transformer]  rating_kva, impedance_pct, x_r, upstream_pfc_a, upstream_x_r
+    [[circuit]]   id, from, device, load_a, phases, basis, final, board, selective_to_a,
+                  tested_limits_a, breaking_capacity_a, margin, interval_s
+    [circuit.cable]  length_m, csa_mm2, cpc_mm2, material, insulation, iz_a, parallel,
+                  cpc_parallel, neutral_mm2, x_ohm_per_m, cpc_material
+"""
+
+from __future__ import annotations
+
+import difflib
+import math
+import tomllib
+from collections.abc import Mapping, Sequence
+from pathlib import Path
+from typing import Any
+
+from coordination import cables
+from coordination.model import SUPPLY_ID, Cable, Circuit, Study, Supply, Transformer
+from curves.errors import InputError
+
+TOP_KEYS = ("study", "supply", "circuit")
+STUDY_KEYS = ("title", "basis", "margin", "interval_s")
+SUPPLY_KEYS = ("u0_v", "phases", "earthing", "pfc_a", "pfc_ln_a", "ze_ohm", "x_r", "c_max",
+               "c_min", "transformer")
+TRANSFORMER_KEYS = ("rating_kva", "impedance_pct", "x_r", "upstream_pfc_a", "upstream_x_r")
+CIRCUIT_KEYS = ("id", "from", "device", "load_a", "phases", "basis", "final", "board",
+                "selective_to_a", "tested_limits_a", "breaking_capacity_a", "margin",
+                "interval_s", "cable")
+CABLE_KEYS = ("length_m", "csa_mm2", "cpc_mm2", "material", "insulation", "iz_a", "parallel",
+              "cpc_parallel", "neutral_mm2", "x_ohm_per_m", "cpc_material")
+
+#: Earthing systems (IEC 60364-1 clause 312.2). IT is not covered (a second-fault study).
+EARTHING_SYSTEMS = ("TN-S", "TN-C-S", "TN-C", "TT")
+#: Band bases a study or a circuit may ask for.
+BASES = ("typical", "envelope")
+INSULATIONS = tuple(cables.MAX_OPERATING_C)
+
+#: Bounds on quantities: beyond these a value is a typing mistake, not an installation.
+MAX_CURRENT_A = 1e6  # 1 MA
+MAX_LENGTH_M = 1e5  # 100 km
+MAX_ZE_OHM = 2000.0  # a TT installation's earth electrode may reach a few hundred ohm
+MAX_X_R = 100.0
+MAX_PARALLEL = 20
+MAX_ID_CHARS = 100
+
+
+# ---------------------------------------------------------------------------------------------
+def _describe(value: Any) -> str:
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, str):
+        return repr(value)
+    if isinstance(value, Mapping):
+        return "a table"
+    if isinstance(value, list | tuple):
+        return "a list"
+    if isinstance(value, float):
+        return f"{value:g}"
+    return repr(value) if not isinstance(value, int) else str(value)
+
+
+def _g(x: float) -> str:
+    if math.isfinite(x) and x == int(x) and abs(x) < 1e12:
+        return str(int(x))
+    return f"{x:g}"
+
+
+def _suggest(key: str, allowed: Sequence[str]) -> str:
+    lowered = {a.lower(): a for a in allowed}
+    close = difflib.get_close_matches(key.lower(), list(lowered), n=1, cutoff=0.6)
+    hint = f"did you mean {lowered[close[0]]!r}? " if close else ""
+    return f"unknown key {key!r}; {hint}allowed: {', '.join(allowed)}"
+
+
+class _Table:
+    """One TOML table being read: unknown keys are refused first, then each value is typed."""
+
+    def __init__(self, data: Any, allowed: Sequence[str], *, circuit: str | None = None,
+                 prefix: str = "", name: str = "") -> None:
+        self.circuit = circuit
+        self.prefix = prefix
+        if not isinstance(data, Mapping):
+            raise InputError(f"{name or prefix.rstrip('.')} must be a table of keys, "
+                             f"not {_describe(data)}", circuit=circuit,
+                             key=prefix.rstrip(".") or None)
+        self.data = data
+        for key in data:
+            if key not in allowed:
+                raise InputError(_suggest(str(key), allowed), circuit=circuit,
+                                 key=f"{prefix}{key}")
+
+    def error(self, key: str, problem: str) -> InputError:
+        return InputError(problem, circuit=self.circuit, key=f"{self.prefix}{key}")
+
+    def has(self, key: str) -> bool:
+        return key in self.data
+
+    def number(self, key: str, *, unit: str, lo: float, hi: float, lo_open: bool = True,
+               default: float | None = None, required: bool = False) -> float | None:
+        if key not in self.data:
+            if required:
+                raise self.error(key, f"missing key {key!r}; give a number [{unit}]")
+            return default
+        value = self.data[key]
+        low = f"more than {_g(lo)}" if lo_open else f"at least {_g(lo)}"
+        allowed = f"allowed: {low} and at most {_g(hi)} {unit}".rstrip()
+        if isinstance(value, bool) or not isinstance(value, int | float):
+            raise self.error(key, f"{key} must be a number [{unit}], not {_describe(value)}; "
+                                  f"{allowed}")
+        value = float(value)
+        if not math.isfinite(value):
+            raise self.error(key, f"{key} = {_g(value)} is not a finite number; {allowed}")
+        if value < lo or (lo_open and value == lo) or value > hi:
+            raise self.error(key, f"{key} = {_g(value)} is out of range; {allowed}")
+        return value
+
+    def integer(self, key: str, *, choices: Sequence[int] | None = None, lo: int = 1,
+                hi: int = 1, default: int | None = None) -> int | None:
+        if key not in self.data:
+            return default
+        value = self.data[key]
+        allowed = (" or ".join(str(c) for c in choices) if choices is not None
+                   else f"a whole number from {lo} to {hi}")
+        if (isinstance(value, bool) or not isinstance(value, int | float)
+                or not math.isfinite(value) or value != int(value)):
+            raise self.error(key, f"{key} must be a whole number, not {_describe(value)}; "
+                                  f"allowed: {allowed}")
+        number = int(value)
+        if (choices is not None and number not in choices) or (
+                choices is None and not lo <= number <= hi):
+            raise self.error(key, f"{key} = {number} is not allowed; allowed: {allowed}")
+        return number
+
+    def text(self, key: str, *, required: bool = False, default: str | None = None,
+             what: str = "a text") -> str | None:
+        if key not in self.data:
+            if required:
+                raise self.error(key, f"missing key {key!r}; give {what}")
+            return default
+        value = self.data[key]
+        if not isinstance(value, str) or not value.strip():
+            raise self.error(key, f"{key} must be {what}, not {_describe(value)}")
+        return value
+
+    def choice(self, key: str, options: Sequence[str], *, default: str | None = None,
+               aliases: Mapping[str, str] | None = None, case: bool = False) -> str | None:
+        if key not in self.data:
+            return default
+        value = self.data[key]
+        allowed = ", ".join(options)
+        if isinstance(value, str):
+            probe = value.strip() if case else value.strip().lower()
+            table = {(o if case else o.lower()): o for o in options}
+            if aliases:
+                table.update(aliases)
+            if probe in table:
+                return table[probe]
+            close = difflib.get_close_matches(probe, list(table), n=1, cutoff=0.6)
+            hint = f" (did you mean {table[close[0]]!r}?)" if close else ""
+            raise self.error(key, f"unknown {key} {value!r}{hint}; allowed: {allowed}")
+        raise self.error(key, f"{key} must be one of {allowed}, not {_describe(value)}")
+
+    def boolean(self, key: str) -> bool | None:
+        if key not in self.data:
+            return None
+        value = self.data[key]
+        if not isinstance(value, bool):
+            raise self.error(key, f"{key} must be true or false, not {_describe(value)}")
+        return value
+
+
+# ---------------------------------------------------------------------------------------------
+def _study_table(data: Any, source: str | None) -> dict[str, Any]:
+    t = _Table(data, STUDY_KEYS, prefix="study.", name="[study]")
+    title = t.text("title", what="a text (the study's title)")
+    if title is None:
+        title = Path(source).stem if source else "untitled study"
+    return {
+        "title": title,
+        "basis": t.choice("basis", BASES, default="typical"),
+        "margin": t.number("margin", unit="(factor)", lo=1.0, hi=10.0, lo_open=False,
+                           default=1.0),
+        "interval_s": t.number("interval_s", unit="s", lo=0.0, hi=10.0, lo_open=False,
+                               default=0.0),
+    }
+
+
+def _transformer(data: Any) -> Transformer:
+    t = _Table(data, TRANSFORMER_KEYS, prefix="supply.transformer.", name="[supply.transformer]")
+    return Transformer(
+        rating_kva=t.number("rating_kva", unit="kVA", lo=0.0, hi=10000.0, required=True),
+        impedance_pct=t.number("impedance_pct", unit="%", lo=0.0, hi=25.0, required=True),
+        x_r=t.number("x_r", unit="", lo=0.0, hi=MAX_X_R, lo_open=False, default=6.0),
+        upstream_pfc_a=t.number("upstream_pfc_a", unit="A (referred to the low-voltage side)",
+                                lo=0.0, hi=MAX_CURRENT_A),
+        upstream_x_r=t.number("upstream_x_r", unit="", lo=0.0, hi=MAX_X_R, lo_open=False,
+                              default=10.0),
+    )
+
+
+def _supply(data: Any) -> Supply:
+    t = _Table(data, SUPPLY_KEYS, prefix="supply.", name="[supply]")
+    phases = t.integer("phases", choices=(1, 3), default=3)
+    earthing = t.choice("earthing", EARTHING_SYSTEMS, default="TN-C-S")
+    pfc_a = t.number("pfc_a", unit="A", lo=0.0, hi=MAX_CURRENT_A)
+    pfc_ln_a = t.number("pfc_ln_a", unit="A", lo=0.0, hi=MAX_CURRENT_A)
+    ze_ohm = t.number("ze_ohm", unit="ohm", lo=0.0, hi=MAX_ZE_OHM)
+    transformer = _transformer(t.data["transformer"]) if t.has("transformer") else None
+    c_max = t.number("c_max", unit="", lo=1.0, hi=1.1, lo_open=False, default=1.05)
+    c_min = t.number("c_min", unit="", lo=0.8, hi=1.0, lo_open=False, default=0.95)
+    if pfc_a is None and ze_ohm is None and transformer is None:
+        raise InputError("the supply needs its source: give pfc_a [A], ze_ohm [ohm] or a "
+                         "[supply.transformer] table", key="supply")
+    if pfc_a is not None and transformer is not None:
+        raise InputError("give either pfc_a or a [supply.transformer] table, not both (the "
+                         "transformer fixes the fault level)", key="supply.pfc_a")
+    if pfc_ln_a is not None and (pfc_a is None or phases != 3):
+        raise InputError("pfc_ln_a is the line-neutral value at the origin of a three-phase "
+                         "supply and goes with pfc_a (for a single-phase supply pfc_a is "
+                         "already the line-neutral value)", key="supply.pfc_ln_a")
+    if transformer is not None and phases != 3:
+        raise InputError("a [supply.transformer] is three-phase; set phases = 3 or give pfc_a "
+                         "for a single-phase supply", key="supply.phases")
+    if earthing == "TT" and ze_ohm is None:
+        raise InputError("a TT supply needs ze_ohm [ohm], the earth-fault loop impedance "
+                         "including the installation's earth electrode", key="supply.ze_ohm")
+    if earthing == "TT" and pfc_a is None and transformer is None:
+        raise InputError("in TT, ze_ohm includes the earth electrode and says nothing about "
+                         "short-circuit levels; give pfc_a [A] or a [supply.transformer] too",
+                         key="supply")
+    return Supply(
+        u0_v=t.number("u0_v", unit="V", lo=50.0, hi=1000.0, default=230.0),
+        phases=phases,
+        earthing=earthing,
+        pfc_a=pfc_a,
+        ze_ohm=ze_ohm,
+        x_r=t.number("x_r", unit="", lo=0.0, hi=MAX_X_R, lo_open=False, default=1.0),
+        transformer=transformer,
+        c_max=c_max,
+        c_min=c_min,
+        pfc_ln_a=pfc_ln_a,
+    )
+
+
+def _size(t: _Table, key: str, material: str, *, zero_ok: bool = False) -> float | None:
+    value = t.number(key, unit="mm2", lo=0.0, hi=5000.0, lo_open=not zero_ok)
+    if value is None or value == 0:
+        return value
+    try:
+        cables.r20_ohm_per_m(value, material, key=key)
+    except InputError as error:
+        raise error.within(circuit=t.circuit, key="cable") from None
+    return value
+
+
+def _cable(data: Any, circuit: str) -> Cable:
+    t = _Table(data, CABLE_KEYS, circuit=circuit, prefix="cable.", name="[circuit.cable]")
+    material = t.choice("material", cables.MATERIALS, default="copper",
+                        aliases=cables.MATERIAL_ALIASES)
+    cpc_material = t.choice("cpc_material", cables.MATERIALS, aliases=cables.MATERIAL_ALIASES)
+    insulation = t.choice("insulation", INSULATIONS, default="pvc")
+    if not t.has("csa_mm2"):
+        raise t.error("csa_mm2", "missing key 'csa_mm2'; give the line conductor's "
+                                 "cross-section [mm2]")
+    return Cable(
+        length_m=t.number("length_m", unit="m", lo=0.0, hi=MAX_LENGTH_M, required=True),
+        csa_mm2=_size(t, "csa_mm2", material),
+        cpc_mm2=_size(t, "cpc_mm2", cpc_material or material),
+        material=material,
+        insulation=insulation,
+        iz_a=t.number("iz_a", unit="A", lo=0.0, hi=MAX_CURRENT_A),
+        parallel=t.integer("parallel", lo=1, hi=MAX_PARALLEL, default=1),
+        neutral_mm2=_size(t, "neutral_mm2", material, zero_ok=True),
+        x_ohm_per_m=t.number("x_ohm_per_m", unit="ohm/m", lo=0.0, hi=0.01, lo_open=False),
+        cpc_material=cpc_material,
+        cpc_parallel=t.integer("cpc_parallel", lo=1, hi=MAX_PARALLEL),
+    )
+
+
+def _circuit_id(raw: Any, number: int) -> str:
+    where = f"the [[circuit]] table number {number}"
+    if not isinstance(raw, Mapping):
+        raise InputError(f"{where} is {_describe(raw)}, not a table; write each circuit as a "
+                         "[[circuit]] table", key="circuit")
+    if "id" not in raw:
+        raise InputError(f"{where} has no id; every circuit needs a unique id (a text)",
+                         key="id")
+    cid = raw["id"]
+    if not isinstance(cid, str) or not cid.strip() or cid != cid.strip():
+        raise InputError(f"{where}: id must be a non-empty text without leading or trailing "
+                         f"spaces, not {_describe(cid)}", key="id")
+    if len(cid) > MAX_ID_CHARS:
+        raise InputError(f"{where}: id is {len(cid)} characters long; allowed: at most "
+                         f"{MAX_ID_CHARS}", key="id")
+    if cid.lower() == SUPPLY_ID:
+        raise InputError(f"{where}: the id {cid!r} is reserved for the origin; choose another",
+                         circuit=cid, key="id")
+    return cid
+
+
+def _circuit_fields(raw: Mapping[str, Any], cid: str) -> dict[str, Any]:
+    t = _Table(raw, CIRCUIT_KEYS, circuit=cid)
+    parent = t.text("from", required=True,
+                    what="the id of the circuit that feeds this one's board, or 'supply'")
+    if not t.has("device"):
+        raise t.error("device", "missing key 'device'; give a shorthand such as 'B32' or "
+                                "'gG100', or an inline table")
+    device = raw["device"]
+    if isinstance(device, str):
+        if not device.strip():
+            raise t.error("device", "device is empty; give a shorthand such as 'B32' or "
+                                    "'gG100', or an inline table")
+        device = device.strip()
+    elif isinstance(device, Mapping):
+        if not device:
+            raise t.error("device", "device is an empty table; give its family and settings")
+        device = dict(device)
+    else:
+        raise t.error("device", f"device must be a shorthand text such as 'B32' or an inline "
+                                f"table, not {_describe(device)}")
+    limits: dict[str, float] = {}
+    if t.has("tested_limits_a"):
+        given = raw["tested_limits_a"]
+        if not isinstance(given, Mapping):
+            raise t.error("tested_limits_a", "tested_limits_a must be a table of upstream "
+                          f"circuit id = current [A], not {_describe(given)}")
+        lt = _Table(given, tuple(str(k) for k in given), circuit=cid, prefix="tested_limits_a.")
+        for up in given:
+            limits[str(up)] = lt.number(str(up), unit="A", lo=0.0, hi=MAX_CURRENT_A)
+    return {
+        "id": cid,
+        "parent": parent,
+        "device": device,
+        "phases": t.integer("phases", choices=(1, 3)),
+        "load_a": t.number("load_a", unit="A", lo=0.0, hi=MAX_CURRENT_A),
+        "cable": _cable(raw["cable"], cid) if t.has("cable") else None,
+        "basis": t.choice("basis", BASES),
+        "final": t.boolean("final"),
+        "selective_to_a": t.number("selective_to_a", unit="A", lo=0.0, hi=MAX_CURRENT_A),
+        "tested_limits_a": limits,
+        "breaking_capacity_a": t.number("breaking_capacity_a", unit="A", lo=0.0,
+                                        hi=MAX_CURRENT_A),
+        "margin": t.number("margin", unit="(factor)", lo=1.0, hi=10.0, lo_open=False),
+        "interval_s": t.number("interval_s", unit="s", lo=0.0, hi=10.0, lo_open=False),
+        "board": t.text("board", what="a text (the name of the board this circuit feeds)"),
+    }
+
+
+def _order(fields: dict[str, dict[str, Any]]) -> list[str]:
+    """Circuit ids parents first (iterative depth-first from the supply; file order kept)."""
+    kids: dict[str, list[str]] = {}
+    for cid, f in fields.items():
+        parent = f["parent"]
+        if parent != SUPPLY_ID and parent not in fields:
+            near = difflib.get_close_matches(parent, [SUPPLY_ID, *fields], n=1, cutoff=0.6)
+            hint = f" (did you mean {near[0]!r}?)" if near else ""
+            raise InputError(f"from {parent!r} names no circuit{hint}; allowed: 'supply' or the "
+                             "id of another circuit in the study", circuit=cid, key="from")
+        if parent == cid:
+            raise InputError("a circuit cannot feed itself; allowed: 'supply' or the id of "
+                             "another circuit", circuit=cid, key="from")
+        kids.setdefault(parent, []).append(cid)
+    order: list[str] = []
+    stack = list(reversed(kids.get(SUPPLY_ID, [])))
+    while stack:
+        cid = stack.pop()
+        order.append(cid)
+        stack.extend(reversed(kids.get(cid, [])))
+    if len(order) < len(fields):
+        reached = set(order)
+        start = next(cid for cid in fields if cid not in reached)
+        seen: dict[str, int] = {}
+        walk: list[str] = []
+        node = start
+        while node not in seen:
+            seen[node] = len(walk)
+            walk.append(node)
+            node = fields[node]["parent"]
+        loop = [*walk[seen[node]:], node]
+        raise InputError("the circuits feed each other in a loop (" + " <- ".join(
+            repr(c) for c in loop) + "); every chain of 'from' must end at 'supply'",
+            circuit=node, key="from")
+    return order
+
+
+def from_dict(data: Any, source: str | None = None) -> Study:
+    """Validate a parsed study document and build the :class:`~coordination.model.Study`.
+
+    Parameters
+    ----------
+    data : dict
+        The document as ``tomllib`` returns it (keys of the study-file contract).
+    source : str, optional
+        Where it came from (a path), kept in ``Study.source``.
+
+    Returns
+    -------
+    Study
+        Circuits ordered parents first; each device's band has been built once.
+
+    Raises
+    ------
+    InputError
+        Naming the circuit and the key, and what is allowed.
+
+    References
+    ----------
+    Study-file contract, version 1 (DESIGN.md), with the extensions listed in the module
+    docstring.
+
+    Examples
+    --------
+    >>> s = from_dict({"supply": {"pfc_a": 16000, "ze_ohm": 0.35},
+    ...                "circuit": [{"id": "a", "from": "supply", "device": "gG100"}]})
+    >>> print(s.supply.pfc_a)
+    16000.0
+    """
+    top = _Table(data, TOP_KEYS, name="the study")
+    study_fields = _study_table(data.get("study", {}), source)
+    if not top.has("supply"):
+        raise InputError("missing [supply] table; give u0_v, phases, earthing and one of pfc_a, "
+                         "ze_ohm or [supply.transformer]", key="supply")
+    supply = _supply(data["supply"])
+    raw_circuits = data.get("circuit")
+    if raw_circuits is None or (isinstance(raw_circuits, list) and not raw_circuits):
+        raise InputError("the study has no circuits; add at least one [[circuit]] table with "
+                         "id, from and device", key="circuit")
+    if not isinstance(raw_circuits, list):
+        raise InputError("circuit must be an array of tables: write [[circuit]] (double "
+                         "brackets) before each circuit", key="circuit")
+    fields: dict[str, dict[str, Any]] = {}
+    first_seen: dict[str, int] = {}
+    for number, raw in enumerate(raw_circuits, start=1):
+        cid = _circuit_id(raw, number)
+        if cid in fields:
+            raise InputError(f"duplicate id: the [[circuit]] tables number {first_seen[cid]} "
+                             f"and {number} are both {cid!r}; every circuit needs its own id",
+                             circuit=cid, key="id")
+        first_seen[cid] = number
+        fields[cid] = _circuit_fields(raw, cid)
+
+    order = _order(fields)
+    phases = {SUPPLY_ID: supply.phases}
+    neutral = {SUPPLY_ID: None}  # None: the board has a neutral; else the circuit that lacks it
+    for cid in order:
+        f = fields[cid]
+        parent = f["parent"]
+        above = "the supply" if parent == SUPPLY_ID else f"circuit {parent!r}"
+        own = f["phases"] if f["phases"] is not None else phases[parent]
+        if own == 3 and phases[parent] == 1:
+            raise InputError(f"a three-phase circuit cannot be fed from a single-phase board "
+                             f"({above} is single-phase); allowed: phases = 1",
+                             circuit=cid, key="phases")
+        phases[cid] = f["phases"] = own
+        cable: Cable | None = f["cable"]
+        if own == 1 and neutral[parent] is not None:
+            raise InputError(f"a single-phase circuit needs a neutral, but its board has none "
+                             f"(circuit {neutral[parent]!r} has neutral_mm2 = 0); allowed: "
+                             "phases = 3", circuit=cid, key="phases")
+        lacks = cable is not None and cable.neutral_mm2 == 0
+        if lacks and own == 1:
+            raise InputError("a single-phase circuit needs its neutral; neutral_mm2 = 0 (no "
+                             "neutral) is allowed for three-phase circuits only",
+                             circuit=cid, key="cable.neutral_mm2")
+        neutral[cid] = cid if lacks else neutral[parent]
+        for up in f["tested_limits_a"]:
+            chain: list[str] = []
+            node = parent
+            while node != SUPPLY_ID and node != up:
+                chain.append(node)
+                node = fields[node]["parent"]
+            if node != up:
+                near = difflib.get_close_matches(up, chain, n=1, cutoff=0.6)
+                hint = f" (did you mean {near[0]!r}?)" if near else ""
+                shown = ", ".join(repr(c) for c in chain[:8]) + (", ..." if len(chain) > 8
+                                                                 else "")
+                raise InputError(f"{up!r} is not a circuit above {cid!r}{hint}; a tested limit "
+                                 "names an upstream circuit; allowed: "
+                                 f"{shown or 'none (the circuit is fed from the supply)'}",
+                                 circuit=cid, key=f"tested_limits_a.{up}")
+
+    study = Study(
+        title=study_fields["title"],
+        supply=supply,
+        circuits=tuple(Circuit(**fields[cid]) for cid in order),
+        basis=study_fields["basis"],
+        margin=study_fields["margin"],
+        interval_s=study_fields["interval_s"],
+        source=source,
+    )
+    _check_devices(study)
+    return study
+
+
+def _check_devices(study: Study) -> None:
+    """Build every device's band once, so that a bad device fails at load with its circuit."""
+    try:
+        from coordination.devices import band_for
+
+        for c in study.circuits:
+            try:
+                band_for(study, c.id)
+            except InputError:
+                raise
+            except (TypeError, ValueError, KeyError) as error:
+                raise InputError(f"device {c.device!r} could not be built: {error}",
+                                 circuit=c.id, key="device") from None
+    except ModuleNotFoundError as error:  # the curves families are not installed yet
+        if not (error.name or "").startswith("curves"):
+            raise
+
+
+def loads(text: str, source: str | None = None) -> Study:
+    """Parse study-file text (TOML) and validate it.
+
+    Parameters
+    ----------
+    text : str
+        The TOML text.
+    source : str, optional
+        A name for messages (the file's path).
+
+    Raises
+    ------
+    InputError
+        Empty text, text that is not TOML (with its line), or any validation problem.
+
+    References
+    ----------
+    TOML 1.0 (tomllib); study-file contract, version 1 (DESIGN.md).
+
+    Examples
+    --------
+    >>> s = loads('[supply]\\nze_ohm = 0.35\\n[[circuit]]\\nid = "a"\\nfrom = "supply"\\n'
+    ...           'device = "B32"\\nphases = 1\\n')
+    >>> print(s.circuits[0].phases)
+    1
+    """
+    name = source or "the study"
+    if not text.strip():
+        raise InputError(f"{name} is empty; a study needs a [supply] table and [[circuit]] "
+                         "tables")
+    try:
+        data = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as error:
+        raise InputError(f"{name} is not valid TOML: {error}") from None
+    return from_dict(data, source=source)
+
+
+def load(path: str | Path) -> Study:
+    """Read and validate a study file.
+
+    Raises
+    ------
+    InputError
+        Naming the file when it is missing, unreadable, empty, not UTF-8 or not TOML; else
+        naming the circuit and the key.
+
+    References
+    ----------
+    Study-file contract, version 1 (DESIGN.md).
+
+    Examples
+    --------
+    >>> import tempfile, pathlib
+    >>> p = pathlib.Path(tempfile.mkdtemp()) / "s.toml"
+    >>> _ = p.write_text('[supply]\\npfc_a = 16000\\nze_ohm = 0.35\\n[[circuit]]\\nid = "a"\\n'
+    ...                  'from = "supply"\\ndevice = "gG63"\\n')
+    >>> print(len(load(p).circuits))
+    1
+    """
+    p = Path(path)
+    try:
+        raw = p.read_bytes()
+    except FileNotFoundError:
+        raise InputError(f"study file {str(p)!r} does not exist") from None
+    except IsADirectoryError:
+        raise InputError(f"{str(p)!r} is a folder, not a study file") from None
+    except OSError as error:
+        raise InputError(f"cannot read the study file {str(p)!r}: "
+                         f"{error.strerror or error}") from None
+    try:
+        text = raw.decode("utf-8-sig")
+    except UnicodeDecodeError as error:
+        raise InputError(f"study file {str(p)!r} is not UTF-8 text (bad byte at position "
+                         f"{error.start}); save it as UTF-8") from None
+    if not text.strip():
+        raise InputError(f"study file {str(p)!r} is empty; a study needs a [supply] table and "
+                         "[[circuit]] tables")
+    return loads(text, source=str(p))

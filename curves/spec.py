@@ -1,0 +1,296 @@
+"""Device specs: the trade shorthand and inline tables, turned into a :class:`Band`.
+
+Shorthand (case of the letters does not matter):
+
+* ``"B32"``, ``"C16"``, ``"D10"``: an IEC 60898-1 MCB of that type and rating, energy-limiting
+  class 3, Icn 6 kA.
+* ``"gG100"``: an IEC 60269 gG fuse-link of that rating.
+* Optional suffix, after a space, ``/`` or ``,``: the breaking capacity in kA, e.g.
+  ``"C16 10kA"`` (MCB Icn) or ``"gG100/80kA"`` (fuse-link breaking capacity).
+
+Inline tables (TOML, with a ``family`` key; keys carry units)::
+
+    {family = "mcb", type = "C", In_a = 16, energy_class = 3, icn_a = 10000}
+    {family = "gG", In_a = 100, breaking_capacity_a = 80000}
+    {family = "tm", In_a = 250, Ir_x = 0.8, Ii_x = 10, icu_a = 36000}
+    {family = "electronic", In_a = 630, Ir_x = 0.8, tr_s = 8, Isd_x = 6, tsd_s = 0.2,
+     sd_i2t = false, Ii_x = 12, icu_a = 50000}
+    {family = "datasheet", name = "feeder ACB", In_a = 630,
+     lower = [[700, 3000], [6000, 0.05]], upper = [[820, 7200], [7000, 0.08]]}
+
+``tm`` and ``electronic`` also take ``Ir_a``, ``Ii_a`` (and ``Isd_a``) in amperes instead of the
+multiples; ``Ii_x = "off"`` switches an electronic unit's instantaneous release off. Families
+``breaker-tm`` and ``breaker-electronic`` are accepted as names of ``tm`` and ``electronic``.
+"""
+
+from __future__ import annotations
+
+import difflib
+import math
+import re
+import tomllib
+from collections.abc import Callable, Mapping
+from typing import Any
+
+from curves.band import Band
+from curves.errors import InputError
+
+FAMILIES = ("mcb", "gG", "tm", "electronic", "datasheet")
+_ALIASES = {"mcb": "mcb", "gg": "gG", "tm": "tm", "breaker-tm": "tm",
+            "electronic": "electronic", "breaker-electronic": "electronic",
+            "datasheet": "datasheet"}
+
+#: Keys each inline family takes (besides ``family``).
+FAMILY_KEYS: dict[str, tuple[str, ...]] = {
+    "mcb": ("type", "In_a", "energy_class", "icn_a"),
+    "gG": ("In_a", "breaking_capacity_a"),
+    "tm": ("In_a", "Ir_a", "Ir_x", "Ii_a", "Ii_x", "icu_a"),
+    "electronic": ("In_a", "Ir_a", "Ir_x", "tr_s", "Isd_a", "Isd_x", "tsd_s", "sd_i2t", "Ii_a",
+                   "Ii_x", "icu_a"),
+    "datasheet": ("name", "In_a", "lower", "upper", "let_through", "instantaneous_a",
+                  "breaking_capacity_a", "pre_arcing_i2t_min_a2s"),
+}
+_REQUIRED = {"mcb": ("type", "In_a"), "gG": ("In_a",), "tm": ("In_a",),
+             "electronic": ("In_a",), "datasheet": ("In_a", "lower", "upper")}
+#: Keys whose values are not plain positive numbers (checked by the family's own function).
+_NOT_NUMBERS = {"type", "name", "lower", "upper", "let_through", "sd_i2t", "Ii_x"}
+
+_SHORTHAND = re.compile(
+    r"^(?P<kind>[bcd]|gg)\s*(?P<rating>\d+(?:\.\d+)?)"
+    r"(?:\s*[\s/,]\s*(?P<cap>\d+(?:\.\d+)?)\s*ka)?$",
+    re.IGNORECASE,
+)
+_HELP = ('shorthand "B32", "C16", "D10", "gG100" (optional breaking capacity: "C16 10kA"), or '
+         'an inline table with family = ' + ", ".join(f'"{f}"' for f in FAMILIES))
+
+
+def parse_inline(text: str) -> str | dict:
+    """A device spec from text: an inline TOML table when it starts with ``{``, else shorthand.
+
+    Parameters
+    ----------
+    text : str
+        E.g. ``"C16"`` or ``"{family = 'tm', In_a = 250, Ir_x = 0.8}"``.
+
+    Returns
+    -------
+    str or dict
+        The stripped shorthand, or the table as a dict.
+
+    Raises
+    ------
+    InputError
+        Empty text, or a table that is not valid TOML.
+
+    References
+    ----------
+    TOML 1.0 inline tables (toml.io).
+
+    Examples
+    --------
+    >>> print(parse_inline(" {family = 'tm', In_a = 250} ")["In_a"])
+    250
+    """
+    if not isinstance(text, str) or not text.strip():
+        raise InputError(f"empty device; give {_HELP}")
+    stripped = text.strip()
+    if not stripped.startswith("{"):
+        return stripped
+    try:
+        return dict(tomllib.loads(f"device = {stripped}")["device"])
+    except (tomllib.TOMLDecodeError, KeyError, TypeError) as error:
+        raise InputError(f"the device table is not a valid TOML inline table ({error}); "
+                         "e.g. {family = 'tm', In_a = 250, Ir_x = 0.8}") from None
+
+
+def nearest(word: str, choices: tuple[str, ...]) -> str:
+    """A hint naming the valid choice closest to a misspelt word, or ``""``.
+
+    Parameters
+    ----------
+    word : str
+        What the user wrote.
+    choices : tuple of str
+        The valid words.
+
+    References
+    ----------
+    Python's difflib ratio (Ratcliff/Obershelp), cutoff 0.5; case is ignored as a fallback.
+
+    Examples
+    --------
+    >>> print(nearest("tsd", ("tr_s", "tsd_s")))
+     (did you mean 'tsd_s'?)
+    """
+    match = difflib.get_close_matches(word, choices, n=1, cutoff=0.5)
+    if not match:
+        lowered = {c.lower(): c for c in choices}
+        match = difflib.get_close_matches(word.lower(), list(lowered), n=1, cutoff=0.5)
+        match = [lowered[m] for m in match]
+    return f" (did you mean {match[0]!r}?)" if match else ""
+
+
+def _check_basis(basis: Any) -> str:
+    allowed = ("typical", "envelope", "datasheet")
+    if not isinstance(basis, str) or basis not in allowed:
+        raise InputError(f"unknown basis {basis!r}; allowed: typical, envelope", key="basis")
+    return basis
+
+
+def _standard_basis(basis: str, family: str) -> str:
+    if basis == "datasheet":
+        raise InputError(f"basis 'datasheet' is only for datasheet devices; a {family} device "
+                         "takes typical or envelope", key="basis")
+    return basis
+
+
+def _positive(key: str, value: Any) -> float:
+    if isinstance(value, bool) or not isinstance(value, int | float):
+        raise InputError(f"{key} must be a number, not {value!r}", key=key)
+    number = float(value)
+    if not math.isfinite(number) or number <= 0:
+        raise InputError(f"{key} = {number:g} is not allowed; give a finite positive number",
+                         key=key)
+    return number
+
+
+def _in_series(rating: float, series: tuple[float, ...], what: str) -> float:
+    for r in series:
+        if math.isclose(rating, r, rel_tol=1e-9):
+            return float(r)
+    raise InputError(f"rating {rating:g} A is not in the {what} series; allowed: "
+                     f"{', '.join(f'{r:g}' for r in series)} A", key="In_a")
+
+
+def _mcb(curve_type: Any, rating: Any, basis: str, energy_class: Any = 3,
+         icn_a: Any = 6000.0) -> Band:
+    from curves.mcb import MCB_RATINGS_A, mcb_band
+
+    if not isinstance(curve_type, str) or curve_type.strip().upper() not in ("B", "C", "D"):
+        raise InputError(f"MCB type must be \"B\", \"C\" or \"D\", not {curve_type!r}",
+                         key="type")
+    rating_a = _in_series(_positive("In_a", rating), MCB_RATINGS_A, "MCB")
+    if isinstance(energy_class, bool) or energy_class not in (1, 2, 3):
+        raise InputError(f"energy_class must be 1, 2 or 3, not {energy_class!r}",
+                         key="energy_class")
+    return mcb_band(curve_type.strip().upper(), rating_a, basis=basis,
+                    energy_class=int(energy_class), icn_a=_positive("icn_a", icn_a))
+
+
+def _gg(rating: Any, basis: str, breaking_capacity_a: Any = None) -> Band:
+    from curves.fuse import GG_RATINGS_A, gg_band
+
+    rating_a = _in_series(_positive("In_a", rating), GG_RATINGS_A, "gG fuse-link")
+    cap = None if breaking_capacity_a is None else _positive("breaking_capacity_a",
+                                                             breaking_capacity_a)
+    return gg_band(rating_a, basis=basis, breaking_capacity_a=cap)
+
+
+def _from_shorthand(text: str, basis: str) -> Band:
+    match = _SHORTHAND.match(text.strip())
+    if not match:
+        raise InputError(f"unknown device {text!r}; give {_HELP}")
+    kind = match["kind"].upper()
+    rating = float(match["rating"])
+    cap = None if match["cap"] is None else float(match["cap"]) * 1000.0
+    basis = _standard_basis(basis, "gG" if kind == "GG" else "mcb")
+    if kind == "GG":
+        return _gg(rating, basis, cap)
+    return _mcb(kind, rating, basis, 3, 6000.0 if cap is None else cap)
+
+
+def _table_family(spec: Mapping[str, Any]) -> str:
+    if "family" not in spec:
+        raise InputError(f"the device table has no 'family'; allowed: {', '.join(FAMILIES)}",
+                         key="family")
+    family = spec["family"]
+    if not isinstance(family, str):
+        raise InputError(f"family must be a string, one of {', '.join(FAMILIES)}; not "
+                         f"{family!r}", key="family")
+    found = _ALIASES.get(family.strip().lower())
+    if found is None:
+        raise InputError(f"unknown device family {family!r}{nearest(family, FAMILIES)}; "
+                         f"allowed: {', '.join(FAMILIES)}", key="family")
+    return found
+
+
+def _from_table(spec: Mapping[str, Any], basis: str) -> Band:
+    family = _table_family(spec)
+    allowed = FAMILY_KEYS[family]
+    table = {}
+    for key, value in spec.items():
+        if key == "family":
+            continue
+        if not isinstance(key, str) or key not in allowed:
+            hint = nearest(str(key), allowed)
+            raise InputError(f"unknown key {key!r} for family {family!r}{hint}; allowed: "
+                             f"family, {', '.join(allowed)}", key=str(key))
+        table[key] = value
+    for key in _REQUIRED[family]:
+        if key not in table:
+            raise InputError(f"family {family!r} needs {key}; keys: family, "
+                             f"{', '.join(allowed)}", key=key)
+    for key, value in table.items():
+        if key not in _NOT_NUMBERS:
+            _positive(key, value)
+    if family == "datasheet":
+        from curves.tabulated import datasheet_band
+
+        return datasheet_band(**table)
+    basis = _standard_basis(basis, family)
+    if family == "mcb":
+        return _mcb(table["type"], table["In_a"], basis, table.get("energy_class", 3),
+                    table.get("icn_a", 6000.0))
+    if family == "gG":
+        return _gg(table["In_a"], basis, table.get("breaking_capacity_a"))
+    from curves.breaker import electronic_band, thermal_magnetic_band
+
+    build: Callable[..., Band] = thermal_magnetic_band if family == "tm" else electronic_band
+    return build(basis=basis, **table)
+
+
+def band_from_spec(spec: str | Mapping[str, Any], basis: str = "typical") -> Band:
+    """The band of a device spec on a basis.
+
+    Parameters
+    ----------
+    spec : str or mapping
+        Shorthand (``"B32"``, ``"C16 10kA"``, ``"gG100"``) or an inline table with ``family``
+        (see the module docstring for every family's keys).
+    basis : str
+        ``"typical"`` or ``"envelope"``. A datasheet device always has basis ``"datasheet"``.
+
+    Returns
+    -------
+    Band
+
+    Raises
+    ------
+    InputError
+        Unknown shorthand or family, unknown key (with the nearest valid one), wrong type,
+        non-finite or negative value, rating not in the series, settings a unit does not offer;
+        the key is relative to the device table (``"Ir_x"``).
+
+    References
+    ----------
+    IEC 60898-1 (MCB types B, C, D), IEC 60269-2 (gG), IEC 60947-2 (breakers).
+
+    Examples
+    --------
+    >>> band = band_from_spec({"family": "tm", "In_a": 100, "Ir_x": 0.8}, basis="envelope")
+    >>> print(band.pickup_max_a)
+    104.0
+    """
+    basis = _check_basis(basis)
+    if isinstance(spec, str):
+        text = spec.strip()
+        if text.startswith("{"):
+            parsed = parse_inline(text)
+            return _from_table(parsed, basis) if isinstance(parsed, Mapping) else \
+                _from_shorthand(parsed, basis)
+        if not text:
+            raise InputError(f"empty device; give {_HELP}")
+        return _from_shorthand(text, basis)
+    if isinstance(spec, Mapping):
+        return _from_table(spec, basis)
+    raise InputError(f"a device must be text or a table, not {spec!r}; give {_HELP}")

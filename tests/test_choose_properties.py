@@ -1,0 +1,307 @@
+"""Properties of the chooser: what it chooses passes the same engine and checks as `check`.
+
+Every installation here is invented (drawn at random by hypothesis).
+"""
+
+from __future__ import annotations
+
+import json
+
+import numpy as np
+import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+from typer.testing import CliRunner
+
+from coordination import checks, choose, engine, faults, study
+from coordination.cli import app
+from coordination.devices import device_band
+from curves import breaker
+from curves.errors import InputError
+from curves.spec import band_from_spec
+
+FINALS = ("B6", "B10", "B16", "B20", "B32", "C10", "C16", "C20")
+
+
+def shop(pfc_a: float, sub_ib_a: float, sub_iz_a: float, finals: list[str],
+         sub_device: str = "gG250", incomer: str | None = None) -> str:
+    """An invented shop: optionally an incomer, a sub-main and a board of final circuits."""
+    parent = "supply"
+    text = f"""
+[study]
+title = "Invented shop"
+
+[supply]
+u0_v = 230
+phases = 3
+earthing = "TN-C-S"
+pfc_a = {pfc_a}
+ze_ohm = 0.05
+"""
+    if incomer is not None:
+        text += f"""
+[[circuit]]
+id = "incomer"
+from = "supply"
+device = "{incomer}"
+breaking_capacity_a = 80000
+[circuit.cable]
+length_m = 3
+csa_mm2 = 240
+cpc_mm2 = 120
+insulation = "xlpe"
+"""
+        parent = "incomer"
+    text += f"""
+[[circuit]]
+id = "sub-main"
+from = "{parent}"
+device = "{sub_device}"
+load_a = {sub_ib_a}
+breaking_capacity_a = 80000
+[circuit.cable]
+length_m = 8
+csa_mm2 = 95
+cpc_mm2 = 50
+insulation = "xlpe"
+iz_a = {sub_iz_a}
+"""
+    for n, device in enumerate(finals, start=1):
+        text += f"""
+[[circuit]]
+id = "final-{n}"
+from = "sub-main"
+device = "{device}"
+phases = 1
+load_a = {float(device[1:]) * 0.7:.3g}
+[circuit.cable]
+length_m = {8 + 3 * n}
+csa_mm2 = 6
+cpc_mm2 = 2.5
+iz_a = 46
+"""
+    return text
+
+
+def assert_passes_check(s, circuit_id: str) -> None:
+    """The circuit's pairs (as upstream and downstream) and its checks, as `check` runs them."""
+    levels = faults.compute(s)
+    analysis = engine.analyse(s, levels)
+    mine = [p for p in analysis.pairs if circuit_id in (p.upstream, p.downstream)]
+    assert all(p.ok for p in mine), [(p.upstream, p.downstream, p.verdict, p.limit_a)
+                                      for p in mine if not p.ok]
+    band = device_band(s.by_id[circuit_id].device, "envelope")
+    results = checks.check_device(s, levels, circuit_id, band)
+    assert all(r.ok for r in results), [r.reason for r in results if not r.ok]
+
+
+# common practice: a chosen device, put into the study, passes the check it was chosen by
+@settings(max_examples=15, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(
+    pfc_a=st.sampled_from([3000.0, 6000.0, 9000.0, 12000.0]),
+    sub_ib_a=st.floats(20.0, 90.0),
+    iz_factor=st.floats(1.1, 3.0),
+    finals=st.lists(st.sampled_from(FINALS), min_size=1, max_size=3),
+    family=st.sampled_from(["gG", "gG", "tm"]),
+)
+def test_chosen_sub_main_passes_check(pfc_a, sub_ib_a, iz_factor, finals, family):
+    s = study.loads(shop(pfc_a, round(sub_ib_a, 1), round(sub_ib_a * iz_factor, 1), finals))
+    choice = choose.choose(s, "sub-main", family=family)
+    if not choice.found:
+        assert choice.reason and choice.device is None
+        return
+    # the answer round-trips through the device parser and names the same band
+    assert band_from_spec(choice.device).name == choice.name
+    assert choice.rating_a == device_band(choice.device).rating_a
+    chosen = choose.substitute(s, "sub-main", choice.device)
+    assert_passes_check(chosen, "sub-main")
+
+
+# common practice: a chosen final circuit breaker passes the check under its sub-main
+@settings(max_examples=12, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(
+    pfc_a=st.sampled_from([3000.0, 6000.0, 9000.0]),
+    finals=st.lists(st.sampled_from(FINALS), min_size=1, max_size=3),
+    family=st.sampled_from(["B", "C", "gG"]),
+)
+def test_chosen_final_passes_check(pfc_a, finals, family):
+    s = study.loads(shop(pfc_a, 60.0, 150.0, finals, sub_device="gG125"))
+    choice = choose.choose(s, "final-1", family=family)
+    if not choice.found:
+        assert choice.reason
+        return
+    assert_passes_check(choose.substitute(s, "final-1", choice.device), "final-1")
+
+
+def workshop(load_a: float, fuse: str, pfc_a: float, interval_s: float) -> str:
+    """An invented workshop: an electronic incomer over a fuse sub-main and one final."""
+    return f"""
+[study]
+title = "Invented workshop"
+interval_s = {interval_s}
+
+[supply]
+u0_v = 230
+phases = 3
+earthing = "TN-C-S"
+pfc_a = {pfc_a}
+ze_ohm = 0.02
+
+[[circuit]]
+id = "incomer"
+from = "supply"
+device = {{family = "electronic", In_a = 630, Isd_x = 6, tsd_s = 0.4, icu_a = 50000}}
+load_a = {load_a}
+[circuit.cable]
+length_m = 10
+csa_mm2 = 240
+cpc_mm2 = 120
+insulation = "xlpe"
+iz_a = 520
+
+[[circuit]]
+id = "sub-main"
+from = "incomer"
+device = "{fuse}"
+breaking_capacity_a = 80000
+[circuit.cable]
+length_m = 20
+csa_mm2 = 70
+cpc_mm2 = 35
+insulation = "xlpe"
+
+[[circuit]]
+id = "final-1"
+from = "sub-main"
+device = "C16"
+phases = 1
+[circuit.cable]
+length_m = 15
+csa_mm2 = 2.5
+cpc_mm2 = 1.5
+"""
+
+
+# common practice: an electronic unit's chosen settings pass the check it was chosen by
+@settings(max_examples=6, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(
+    load_a=st.floats(60.0, 300.0),
+    fuse=st.sampled_from(["gG63", "gG100", "gG160"]),
+    pfc_a=st.sampled_from([8000.0, 15000.0]),
+    interval_s=st.sampled_from([0.0, 0.1, 0.2]),
+)
+def test_chosen_electronic_settings_pass_check(load_a, fuse, pfc_a, interval_s):
+    s = study.loads(workshop(round(load_a), fuse, pfc_a, interval_s))
+    choice = choose.choose(s, "incomer", family="electronic")
+    if not choice.found:
+        assert choice.reason
+        return
+    assert choice.settings["Ir_a"] >= round(load_a)
+    assert band_from_spec(dict(choice.device)).name == choice.name
+    assert_passes_check(choose.substitute(s, "incomer", choice.device), "incomer")
+
+
+# common practice: the search is of the smallest rating; the chosen one is the first of the
+# series that the same engine and checks accept, so every smaller rating is refused
+@pytest.mark.parametrize(("circuit", "family"), [("sub-main", "gG"), ("final-2", "C")])
+def test_every_smaller_rating_fails(circuit, family):
+    s = study.loads(shop(9000.0, 40.0, 250.0, ["B16", "B32"]))
+    choice = choose.choose(s, circuit, family=family)
+    assert choice.found, choice.reason
+    levels = faults.compute(s)
+    series = [r for r in choose_ratings(family) if r < choice.rating_a]
+    assert series
+    for rating in series:
+        spec = f"{family}{rating:g}"
+        trial = choose.substitute(s, circuit, spec)
+        band = device_band(spec, "envelope")
+        analysis = engine.analyse(trial, levels)
+        pairs_ok = all(p.ok for p in analysis.pairs if circuit in (p.upstream, p.downstream))
+        checks_ok = all(r.ok for r in checks.check_device(trial, levels, circuit, band))
+        assert not (pairs_ok and checks_ok), spec
+
+
+def choose_ratings(family: str) -> tuple[float, ...]:
+    if family == "gG":
+        from curves.fuse import GG_RATINGS_A
+
+        return GG_RATINGS_A
+    from curves.mcb import MCB_RATINGS_A
+
+    return MCB_RATINGS_A
+
+
+# common practice: the vectorised grid model is the band model of curves.breaker, setting by
+# setting (the screen may only be as lenient as its sampling, never use another model)
+@settings(max_examples=20, deadline=None)
+@given(
+    rating=st.sampled_from(breaker.BREAKER_RATINGS_A),
+    ir_x=st.sampled_from(breaker.ELECTRONIC_IR_FRACTIONS),
+    basis=st.sampled_from(["typical", "envelope"]),
+    pick=st.tuples(st.integers(0, 9), st.integers(0, 3), st.integers(0, 8), st.integers(0, 11)),
+)
+def test_grid_edges_are_the_band_edges(rating, ir_x, basis, pick):
+    ii = np.array([*sorted(float(x) for x in breaker.ELECTRONIC_II_X), np.nan])
+    grid = choose.SettingsGrid(float(rating), float(ir_x), np.array(sorted(breaker.ISD_X)),
+                               np.array(sorted(breaker.TSD_S)), np.array(sorted(breaker.TR_S)),
+                               ii, {})
+    if not grid.valid()[pick]:
+        return
+    cand = grid.candidate(pick)
+    band = band_from_spec(cand.spec, basis)
+    current = np.geomspace(0.5 * grid.ir_a, 40 * rating, 300)
+    lower, upper = choose.electronic_edges(current, grid, basis)
+    np.testing.assert_allclose(lower[pick], band.t_min(current), rtol=1e-12)
+    np.testing.assert_allclose(upper[pick], band.t_max(current), rtol=1e-12)
+
+
+# common practice: the whole-board mode chooses bottom up, each choice seeing the earlier ones,
+# and the result passes the check for every circuit it chose
+def test_board_mode_bottom_up():
+    s = study.loads(shop(12000.0, 50.0, 250.0, ["B16", "B32", "C20"], sub_device="gG63",
+                         incomer="gG80"))
+    choices = choose.choose_board(s, "supply")
+    assert [c.circuit for c in choices] == ["sub-main", "incomer"]
+    assert all(c.found for c in choices), [c.reason for c in choices]
+    result = s
+    for c in choices:
+        result = choose.substitute(result, c.circuit, c.device)
+    for c in choices:
+        assert_passes_check(result, c.circuit)
+    # the incomer sits over the chosen sub-main: it is at least as large
+    assert choices[1].rating_a >= choices[0].rating_a
+
+
+def test_choice_json_has_the_contract_keys():
+    s = study.loads(shop(6000.0, 30.0, 250.0, ["B16"]))
+    data = choose.choose(s, "sub-main").to_json()
+    for key in ("circuit", "device", "rating_a", "settings", "binding", "reason", "found"):
+        assert key in data
+    json.dumps(data)
+    assert choose.format_results([choose.choose(s, "sub-main")]).count("sub-main") >= 1
+
+
+def test_bad_input_names_what_is_allowed():
+    s = study.loads(shop(6000.0, 30.0, 250.0, ["B16"]))
+    with pytest.raises(InputError, match="allowed"):
+        choose.choose(s, "sub-main", family="xyz")
+    with pytest.raises(InputError, match="no circuit"):
+        choose.choose(s, "nowhere")
+    with pytest.raises(InputError, match="no circuit"):
+        choose.choose_board(s, "nowhere")
+
+
+def test_cli_choose(tmp_path):
+    path = tmp_path / "shop.toml"
+    path.write_text(shop(6000.0, 30.0, 250.0, ["B16", "B32"]), encoding="utf-8")
+    runner = CliRunner()
+    result = runner.invoke(app, ["choose", str(path), "--circuit", "sub-main", "--json"])
+    assert result.exit_code == 0, result.output
+    data = json.loads(result.stdout)
+    assert data["circuit"] == "sub-main" and data["found"] is True
+    band_from_spec(data["device"])
+    result = runner.invoke(app, ["choose", str(path), "--board", "supply"])
+    assert result.exit_code == 0, result.output
+    assert "sub-main" in result.stdout
+    result = runner.invoke(app, ["choose", str(path), "--circuit", "sub-main", "--family", "Q"])
+    assert result.exit_code == 2

@@ -1,0 +1,145 @@
+"""Properties of the overlap engine over the standard device series (hypothesis, bounded).
+
+The series are the standards' rating series (IEC 60898-1 MCB ratings, IEC 60269 gG ratings, as
+the families list them); the trees and fault levels are invented.
+"""
+
+from __future__ import annotations
+
+import math
+
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from coordination import engine, faults
+from coordination.model import Cable, Circuit, Study, Supply
+from curves.fuse import GG_RATINGS_A, gg_band
+from curves.mcb import MCB_RATINGS_A, mcb_band
+
+GG_SERIES = tuple(r for r in GG_RATINGS_A if 16 <= r <= 630)
+MCB_SERIES = tuple(MCB_RATINGS_A)
+BASES = ("typical", "envelope")
+TOPS_A = st.floats(min_value=500.0, max_value=100_000.0)
+
+
+def effective_limit(result: engine.Selectivity) -> float:
+    """The selectivity limit with total as infinity (total is selective at every current)."""
+    return math.inf if result.verdict == "total" else float(result.limit_a)
+
+
+def band(kind: str, rating: float, basis: str):
+    if kind == "gG":
+        return gg_band(rating, basis=basis)
+    return mcb_band(kind, rating, basis=basis)
+
+
+# common practice: a larger upstream device (same family, same basis) is never less selective
+@settings(max_examples=40, deadline=None)
+@given(down_kind=st.sampled_from(("gG", "B", "C")), data=st.data(), top=TOPS_A,
+       basis=st.sampled_from(BASES))
+def test_raising_upstream_gg_never_lowers_is(down_kind, data, top, basis):
+    series = GG_SERIES[:-2] if down_kind == "gG" else MCB_SERIES[:9]
+    d_rating = data.draw(st.sampled_from(series), label="downstream")
+    above = [r for r in GG_SERIES if r > d_rating]
+    u1, u2 = sorted(data.draw(st.lists(st.sampled_from(above), min_size=2, max_size=2,
+                                       unique=True), label="upstreams"))
+    down = band(down_kind, d_rating, basis)
+    window = (down.pickup_min_a, max(top, down.pickup_min_a * 2))
+    small = engine.compare(gg_band(u1, basis=basis), down, window)
+    large = engine.compare(gg_band(u2, basis=basis), down, window)
+    assert effective_limit(large) >= effective_limit(small) * (1 - 1e-9)
+
+
+# common practice: a larger upstream MCB of the same type is never less selective
+@settings(max_examples=40, deadline=None)
+@given(down_kind=st.sampled_from(("B", "C")), up_kind=st.sampled_from(("B", "C", "D")),
+       data=st.data(), top=TOPS_A, basis=st.sampled_from(BASES))
+def test_raising_upstream_mcb_never_lowers_is(down_kind, up_kind, data, top, basis):
+    d_rating = data.draw(st.sampled_from(MCB_SERIES[:8]), label="downstream")
+    above = [r for r in MCB_SERIES if r > d_rating]
+    u1, u2 = sorted(data.draw(st.lists(st.sampled_from(above), min_size=2, max_size=2,
+                                       unique=True), label="upstreams"))
+    down = mcb_band(down_kind, d_rating, basis=basis)
+    window = (down.pickup_min_a, max(top, down.pickup_min_a * 2))
+    small = engine.compare(mcb_band(up_kind, u1, basis=basis), down, window)
+    large = engine.compare(mcb_band(up_kind, u2, basis=basis), down, window)
+    assert effective_limit(large) >= effective_limit(small) * (1 - 1e-9)
+
+
+# DESIGN.md: the envelope is the widest band a compliant device may have, so it is never more
+# selective than the typical band of the same devices (over the same window)
+@settings(max_examples=40, deadline=None)
+@given(up_kind=st.sampled_from(("gG", "C", "D")), down_kind=st.sampled_from(("gG", "B", "C")),
+       data=st.data(), top=TOPS_A)
+def test_envelope_never_more_selective_than_typical(up_kind, down_kind, data, top):
+    d_series = GG_SERIES[:8] if down_kind == "gG" else MCB_SERIES[:8]
+    d_rating = data.draw(st.sampled_from(d_series), label="downstream")
+    u_series = GG_SERIES if up_kind == "gG" else MCB_SERIES
+    u_rating = data.draw(st.sampled_from([r for r in u_series if r >= d_rating]), label="up")
+    d_env, d_typ = band(down_kind, d_rating, "envelope"), band(down_kind, d_rating, "typical")
+    u_env, u_typ = band(up_kind, u_rating, "envelope"), band(up_kind, u_rating, "typical")
+    window = (d_env.pickup_min_a, max(top, d_typ.pickup_max_a * 2))
+    env = engine.compare(u_env, d_env, window)
+    typ = engine.compare(u_typ, d_typ, window)
+    assert effective_limit(env) <= effective_limit(typ) * (1 + 1e-9)
+
+
+# DESIGN.md: a tested limit given for a pair overrides the curves and says so
+@settings(max_examples=40, deadline=None)
+@given(up_rating=st.sampled_from(GG_SERIES[6:]), d_rating=st.sampled_from(MCB_SERIES[:9]),
+       d_kind=st.sampled_from(("B", "C")), tested=st.floats(min_value=200.0, max_value=50_000.0),
+       top=TOPS_A, basis=st.sampled_from(BASES))
+def test_tested_limit_overrides(up_rating, d_rating, d_kind, tested, top, basis):
+    down = mcb_band(d_kind, d_rating, basis=basis)
+    window = (down.pickup_min_a, max(top, down.pickup_max_a * 2))
+    r = engine.compare(gg_band(up_rating, basis=basis), down, window, tested_limit_a=tested)
+    assert r.decided_by == "tested"
+    if tested >= window[1]:
+        assert r.verdict == "total"
+        assert r.limit_a is None
+    else:
+        assert r.verdict in ("partial", "none")
+        assert r.limit_a == tested
+
+
+# ---------------------------------------------------------------------------------------------
+DEVICES = ("gG400", "gG250", "gG160", "gG100", "gG63", "C63", "C32", "B32", "B16", "B6")
+
+
+@st.composite
+def trees(draw):
+    n = draw(st.integers(min_value=1, max_value=12))
+    parents = [draw(st.integers(min_value=-1, max_value=k - 1)) for k in range(n)]
+    devices = [draw(st.sampled_from(DEVICES)) for _ in range(n)]
+    circuits = tuple(
+        Circuit(f"c{k}", "supply" if p < 0 else f"c{p}", devices[k],
+                phases=draw(st.sampled_from((1, 3))),
+                cable=Cable(length_m=draw(st.floats(min_value=1.0, max_value=80.0)),
+                            csa_mm2=draw(st.sampled_from((2.5, 10.0, 35.0, 95.0)))))
+        for k, p in enumerate(parents))
+    return Study("invented tree", Supply(pfc_a=16_000.0), circuits), parents
+
+
+def walk_up(parents: list[int], k: int) -> list[int]:
+    chain = []
+    while parents[k] >= 0:
+        k = parents[k]
+        chain.append(k)
+    return chain
+
+
+# DESIGN.md: every ancestor of a circuit is paired with it, not only its direct parent
+@settings(max_examples=30, deadline=None)
+@given(tree=trees(), basis=st.sampled_from((None, *BASES)))
+def test_every_ancestor_pair_present(tree, basis):
+    study, parents = tree
+    levels = faults.compute(study)
+    analysis = engine.analyse(study, levels, basis=basis)
+    got = [(p.upstream, p.downstream) for p in analysis.pairs]
+    expected = {(f"c{a}", f"c{k}") for k in range(len(parents)) for a in walk_up(parents, k)}
+    assert len(got) == len(set(got))
+    assert set(got) == expected
+    assert analysis.ok == all(p.ok for p in analysis.pairs)
+    for p in analysis.pairs:
+        assert p.window_a[1] == levels.by_circuit[p.downstream].ik_max_a
+        assert (p.verdict == "total") == (p.limit_a is None)

@@ -1,0 +1,72 @@
+"""The bundled example installations (invented) load, check, plot and report as they are."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import pytest
+
+from coordination import checks, engine, faults, study
+from coordination.devices import band_for
+from coordination.plot import plot_circuit
+
+EXAMPLES = Path(__file__).resolve().parents[1] / "examples"
+NAMES = ("small-shop.toml", "office-building.toml")
+
+
+@pytest.fixture(scope="module", params=NAMES)
+def example(request):
+    s = study.load(EXAMPLES / request.param)
+    levels = faults.compute(s)
+    return request.param, s, levels, engine.analyse(s, levels), checks.run(s, levels)
+
+
+def test_every_example_is_listed_in_the_readme():
+    readme = (EXAMPLES / "README.md").read_text(encoding="utf-8")
+    found = sorted(p.name for p in EXAMPLES.glob("*.toml"))
+    assert found == sorted(NAMES)
+    for name in found:
+        assert f"`{name}`" in readme
+
+
+def test_example_checks_every_circuit(example):
+    _, s, levels, analysis, results = example
+    assert set(levels.by_circuit) == {c.id for c in s.circuits}
+    # every circuit is paired with every circuit above it
+    assert len(analysis.pairs) == sum(len(s.ancestors(c.id)) for c in s.circuits)
+    assert {r.circuit for r in results} == {c.id for c in s.circuits}
+
+
+def test_example_has_a_shaded_non_selective_pair(example):
+    _, s, levels, analysis, _ = example
+    open_pairs = [p for p in analysis.pairs if p.verdict != "total"]
+    assert open_pairs
+    # at least one of them has a crossover zone with area inside its window, which the plot hatches
+    assert any(engine.overlap(s, levels, p).area > 0 for p in open_pairs)
+
+
+def test_example_plots_its_worst_circuit(example):
+    _, s, levels, analysis, _ = example
+    worst = next(p for p in analysis.pairs if p.verdict != "total")
+    ax = plot_circuit(s, levels, analysis, worst.downstream).axes[0]
+    gids = {a.get_gid() for a in [*ax.collections, *ax.patches]}
+    assert f"band:{worst.downstream}" in gids and f"band:{worst.upstream}" in gids
+
+
+def test_small_shop_is_one_board_of_about_fifteen_circuits():
+    s = study.load(EXAMPLES / "small-shop.toml")
+    boards = [c.id for c in s.circuits if s.children.get(c.id)]
+    assert len(boards) == 1
+    assert 12 <= len(s.circuits) <= 18
+
+
+def test_office_building_has_sub_mains_and_an_electronic_incomer():
+    s = study.load(EXAMPLES / "office-building.toml")
+    incomers = s.children["supply"]
+    assert len(incomers) == 1
+    assert band_for(s, incomers[0]).family == "breaker-electronic"
+    sub_mains = s.children[incomers[0]]
+    assert 3 <= len(sub_mains) <= 4
+    boards = [c.id for c in s.circuits if s.children.get(c.id)]
+    assert len(boards) >= 5  # the main switchboard, the floor boards, the tenant board
+    assert 50 <= len(s.circuits) <= 70

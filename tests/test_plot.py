@@ -1,0 +1,278 @@
+"""Structure of the time-current plot: bands, crossover zones, markers, withstand lines, files.
+
+The installation below is invented.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+from typer.testing import CliRunner
+
+from coordination import engine, faults, study
+from coordination.cli import app
+from coordination.plot import plot_circuit, save_figure, withstand_time
+from curves.errors import InputError
+
+STUDY = """
+[study]
+title = "Invented workshop"
+
+[supply]
+u0_v = 230
+phases = 3
+earthing = "TN-C-S"
+pfc_a = 10000
+ze_ohm = 0.35
+
+[[circuit]]
+id = "main"
+from = "supply"
+device = "gG100"
+board = "workshop board"
+[circuit.cable]
+length_m = 5
+csa_mm2 = 35
+cpc_mm2 = 16
+insulation = "xlpe"
+iz_a = 150
+
+[[circuit]]
+id = "sub"
+from = "main"
+device = "C63"
+board = "bench board"
+[circuit.cable]
+length_m = 10
+csa_mm2 = 16
+cpc_mm2 = 16
+insulation = "xlpe"
+iz_a = 80
+
+[[circuit]]
+id = "final"
+from = "sub"
+device = "B16"
+phases = 1
+load_a = 10
+[circuit.cable]
+length_m = 20
+csa_mm2 = 2.5
+cpc_mm2 = 1.5
+iz_a = 24
+
+[[circuit]]
+id = "fused"
+from = "main"
+device = "gG40"
+load_a = 30
+[circuit.cable]
+length_m = 15
+csa_mm2 = 10
+cpc_mm2 = 10
+iz_a = 57
+"""
+
+
+@pytest.fixture(scope="module")
+def workshop():
+    s = study.loads(STUDY, source="workshop.toml")
+    levels = faults.compute(s)
+    analysis = engine.analyse(s, levels)
+    return s, levels, analysis
+
+
+def artists(ax):
+    """Every artist of the axes with a gid, by gid."""
+    found = {}
+    for artist in [*ax.collections, *ax.patches, *ax.lines, *ax.texts]:
+        gid = artist.get_gid()
+        if gid:
+            found.setdefault(gid, []).append(artist)
+    return found
+
+
+def pair(analysis, upstream, downstream):
+    return next(p for p in analysis.for_circuit(downstream) if p.upstream == upstream)
+
+
+def test_both_axes_are_logarithmic(workshop):
+    s, levels, analysis = workshop
+    ax = plot_circuit(s, levels, analysis, "final").axes[0]
+    # common practice: time-current characteristics are drawn on log-log axes
+    assert ax.get_xscale() == "log"
+    assert ax.get_yscale() == "log"
+
+
+@pytest.mark.parametrize(("circuit", "chain"), [
+    ("final", ("final", "sub", "main")),
+    ("sub", ("sub", "main")),
+    ("fused", ("fused", "main")),
+    ("main", ("main",)),
+])
+def test_one_band_per_device_in_the_chain(workshop, circuit, chain):
+    s, levels, analysis = workshop
+    found = artists(plot_circuit(s, levels, analysis, circuit).axes[0])
+    bands = sorted(g.split(":", 1)[1] for g in found if g.startswith("band:"))
+    # common practice: a coordination plot shows the circuit's device and every device above it
+    assert bands == sorted(chain)
+    for cid in chain:
+        assert len(found[f"band:{cid}"]) == 1
+        assert len(found[f"edge:{cid}"]) == 2  # lower and upper edge
+
+
+def test_band_lies_between_the_edges_of_the_device(workshop):
+    from coordination.devices import band_for
+
+    s, levels, analysis = workshop
+    ax = plot_circuit(s, levels, analysis, "final").axes[0]
+    band = band_for(s, "final")
+    lower, upper = sorted(artists(ax)["edge:final"], key=lambda ln: float(np.sum(ln.get_ydata())))
+    x = np.asarray(lower.get_xdata())
+    t_lo, t_hi = band.edges(x)
+    # the drawn edges are the band's own t_min and t_max (clipped to the time axis)
+    np.testing.assert_allclose(lower.get_ydata(), t_lo, rtol=1e-12)
+    np.testing.assert_allclose(upper.get_ydata(), t_hi, rtol=1e-12)
+
+
+def test_known_overlap_is_shaded_from_the_upstream_instantaneous_pickup(workshop):
+    s, levels, analysis = workshop
+    result = pair(analysis, "sub", "final")
+    # IEC 60898-1, instantaneous bands: a C63 may trip instantaneously from 5 In = 315 A, and the
+    # window of a B16 at this board reaches several kA, so the pair cannot be totally selective
+    assert result.verdict != "total"
+    assert result.limit_a <= 315.0 * (1 + 1e-9)
+    found = artists(plot_circuit(s, levels, analysis, "final").axes[0])
+    zones = found.get("zone:sub>final")
+    assert zones and len(zones) == 1
+    vertices = zones[0].get_path().vertices
+    # IEC 60898-1, instantaneous bands: below 5 In of the C63 it does not trip within 0.1 s and
+    # the B16 has cleared by then (its instantaneous band ends at 5 In = 80 A), so no overlap
+    assert vertices[:, 0].min() >= 315.0 * 0.98
+    assert vertices[:, 0].max() <= levels.by_circuit["final"].ik_max_a * 1.02
+    assert zones[0].get_hatch()  # hatched: readable in greyscale
+    assert "limit:sub>final" in found
+    label = found["limit:sub>final"][0].get_text()
+    assert label.startswith("Is ")
+
+
+def test_selective_pair_has_no_zone(workshop):
+    s, levels, analysis = workshop
+    result = pair(analysis, "main", "fused")
+    # IEC 60269-1 / common practice: gG fuse-links in the ratio 1.6:1 or more are selective
+    # (100 / 40 = 2.5)
+    assert result.verdict == "total"
+    found = artists(plot_circuit(s, levels, analysis, "fused").axes[0])
+    assert not [g for g in found if g.startswith(("zone:", "limit:"))]
+
+
+def test_markers_sit_at_the_fault_levels_and_the_load(workshop):
+    s, levels, analysis = workshop
+    found = artists(plot_circuit(s, levels, analysis, "final").axes[0])
+    node = levels.by_circuit["final"]
+    expected = {"marker:max-fault": node.ik_max_a, "marker:min-earth-fault": node.ief_min_a,
+                "marker:load": 10.0}
+    for gid, current in expected.items():
+        (line,) = found[gid]
+        # a vertical marker: the same current at both ends
+        np.testing.assert_allclose(line.get_xdata(), [current, current], rtol=1e-12)
+    # common practice: the minimum earth fault at the far end is below the maximum fault at the
+    # board, which is above the design current
+    assert node.ief_min_a < node.ik_max_a
+
+
+# IEC 60364-4-43, 434.5.2: t = (k S / I)^2 with k = 115 (copper, PVC), 143 (copper, XLPE),
+# 76 (aluminium, PVC); values worked by hand from the equation
+@pytest.mark.parametrize(("current_a", "k", "csa_mm2", "t_s"), [
+    (1000.0, 115.0, 2.5, 0.08265625),
+    (1000.0, 115.0, 1.5, 0.02975625),
+    (5000.0, 143.0, 16.0, 0.20939776),
+    (2000.0, 76.0, 25.0, 0.9025),
+])
+def test_adiabatic_withstand_equation(current_a, k, csa_mm2, t_s):
+    assert float(withstand_time(current_a, k, csa_mm2)) == pytest.approx(t_s, rel=1e-9)
+
+
+@pytest.mark.parametrize(("gid", "csa_mm2"), [("withstand:line", 2.5), ("withstand:cpc", 1.5)])
+def test_withstand_lines_of_the_circuit_conductors(workshop, gid, csa_mm2):
+    s, levels, analysis = workshop
+    found = artists(plot_circuit(s, levels, analysis, "final").axes[0])
+    (line,) = found[gid]
+    x = np.log10(np.asarray(line.get_xdata(), dtype=float))
+    y = np.log10(np.asarray(line.get_ydata(), dtype=float))
+    t_at_1ka = 10 ** np.interp(3.0, x, y) if x[0] < x[-1] else 10 ** np.interp(3.0, x[::-1],
+                                                                               y[::-1])
+    # IEC 60364-4-43, 434.5.2 and Table 43A: copper PVC k = 115, t = (k S / I)^2 at 1 kA
+    assert t_at_1ka == pytest.approx((115.0 * csa_mm2 / 1000.0) ** 2, rel=1e-9)
+    # IEC 60364-4-43, 434.5.2: the adiabatic equation holds up to 5 s
+    assert max(line.get_ydata()) <= 5.0 * (1 + 1e-12)
+
+
+def test_unknown_circuit_is_refused(workshop):
+    s, levels, analysis = workshop
+    with pytest.raises(InputError, match="attic"):
+        plot_circuit(s, levels, analysis, "attic")
+
+
+MAGIC = {".png": b"\x89PNG", ".pdf": b"%PDF", ".svg": b"<?xml"}
+
+
+@pytest.mark.parametrize("suffix", [".png", ".svg", ".pdf"])
+def test_save_figure_by_suffix(workshop, tmp_path, suffix):
+    s, levels, analysis = workshop
+    fig = plot_circuit(s, levels, analysis, "final")
+    target = tmp_path / f"plot{suffix}"
+    save_figure(fig, target)
+    # the file format's own signature (PNG, PDF and XML specifications)
+    assert target.read_bytes().startswith(MAGIC[suffix])
+    assert sorted(p.name for p in tmp_path.iterdir()) == [target.name]
+
+
+def test_save_figure_leaves_existing_file_on_failure(workshop, tmp_path, monkeypatch):
+    s, levels, analysis = workshop
+    fig = plot_circuit(s, levels, analysis, "final")
+    target = tmp_path / "plot.png"
+    target.write_bytes(b"an earlier plot")
+
+    def broken(*args, **kwargs):
+        raise RuntimeError("disk full")
+
+    monkeypatch.setattr(fig, "savefig", broken)
+    with pytest.raises(RuntimeError):
+        save_figure(fig, target)
+    assert target.read_bytes() == b"an earlier plot"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["plot.png"]
+
+
+def test_save_figure_refuses_unknown_format(workshop, tmp_path):
+    s, levels, analysis = workshop
+    fig = plot_circuit(s, levels, analysis, "final")
+    with pytest.raises(InputError, match="png"):
+        save_figure(fig, tmp_path / "plot.bmp")
+    assert not list(tmp_path.iterdir())
+
+
+def test_cli_plot_writes_the_file_and_refuses_the_study_as_output(tmp_path):
+    path = tmp_path / "workshop.toml"
+    path.write_text(STUDY, encoding="utf-8")
+    runner = CliRunner()
+    out = tmp_path / "final.svg"
+    result = runner.invoke(app, ["plot", str(path), "--circuit", "final", "-o", str(out)])
+    assert result.exit_code == 0, result.output
+    assert out.read_bytes().startswith(b"<?xml")
+    before = path.read_bytes()
+    result = runner.invoke(app, ["plot", str(path), "--circuit", "final", "-o", str(path)])
+    assert result.exit_code == 2
+    assert path.read_bytes() == before
+
+
+def test_the_caution_is_on_the_figure(workshop):
+    from coordination import CAUTION
+
+    s, levels, analysis = workshop
+    fig = plot_circuit(s, levels, analysis, "final")
+    # project rule: every verdict printout carries the caution
+    assert any(t.get_text() == CAUTION for t in fig.texts)
+    assert math.isfinite(levels.by_circuit["final"].ik_max_a)

@@ -1,0 +1,300 @@
+"""Every bad input is refused cleanly: one line, exit code 2, nothing written, input untouched.
+
+The installations here are invented. The fuzz test builds random and broken study documents and
+asserts that no exception other than our own input error escapes any command.
+"""
+
+from __future__ import annotations
+
+import copy
+import json
+import math
+import random
+import sys
+from pathlib import Path
+
+import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+from typer.testing import CliRunner
+
+from coordination.cli import app
+
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+from generate import chain, to_toml, wide  # noqa: E402
+
+runner = CliRunner()
+
+BASE = {
+    "study": {"title": "Invented corner shop"},
+    "supply": {"u0_v": 230, "phases": 3, "earthing": "TN-C-S", "pfc_a": 10000, "ze_ohm": 0.35},
+    "circuit": [
+        {"id": "incomer", "from": "supply", "device": "gG100",
+         "cable": {"length_m": 10, "csa_mm2": 35, "cpc_mm2": 16, "insulation": "xlpe"}},
+        {"id": "lights", "from": "incomer", "device": "B10", "phases": 1, "load_a": 6,
+         "cable": {"length_m": 20, "csa_mm2": 1.5, "cpc_mm2": 1.0, "iz_a": 17.5}},
+        {"id": "sockets", "from": "incomer", "device": "B32", "phases": 1, "load_a": 20,
+         "cable": {"length_m": 25, "csa_mm2": 4, "cpc_mm2": 1.5, "iz_a": 32}},
+        {"id": "oven", "from": "incomer", "device": "C20", "phases": 3, "load_a": 16,
+         "cable": {"length_m": 15, "csa_mm2": 4, "cpc_mm2": 2.5, "iz_a": 32}},
+    ],
+}
+
+
+def write(tmp_path: Path, doc: dict | str, name: str = "study.toml") -> Path:
+    path = tmp_path / name
+    path.write_text(doc if isinstance(doc, str) else to_toml(doc), encoding="utf-8")
+    return path
+
+
+def run(*args: str):
+    return runner.invoke(app, [str(a) for a in args])
+
+
+def assert_refused(result, *fragments: str) -> str:
+    """Exit code 2, one line on stderr, no traceback, every fragment named."""
+    assert result.exit_code == 2, (result.exit_code, result.output, result.exception)
+    assert result.exception is None or isinstance(result.exception, SystemExit)
+    message = result.stderr.strip()
+    assert message.count("\n") == 0, message
+    assert message.startswith("error: ")
+    assert "Traceback" not in result.output
+    for fragment in fragments:
+        assert fragment in message, (fragment, message)
+    return message
+
+
+def mutated(change) -> dict:
+    doc = copy.deepcopy(BASE)
+    change(doc)
+    return doc
+
+
+def test_base_study_is_valid(tmp_path):
+    # common practice: the reference installation must itself pass the loader
+    result = run("faults", write(tmp_path, BASE))
+    assert result.exit_code == 0, result.output
+
+
+BAD_DOCUMENTS = [
+    # (label, document or text, fragments the one-line message must contain)
+    ("empty file", "", ["study"]),
+    ("not TOML", "this is = = not toml [", ["TOML"]),
+    ("missing supply", mutated(lambda d: d.pop("supply")), ["supply"]),
+    ("unknown family", mutated(lambda d: d["circuit"][1].update(device="Q32")),
+     ["lights", "device"]),
+    ("rating not in series", mutated(lambda d: d["circuit"][1].update(device="B33")),
+     ["lights", "device"]),
+    ("wrong type", mutated(lambda d: d["circuit"][2]["cable"].update(length_m="ten")),
+     ["sockets", "length_m"]),
+    ("negative length", mutated(lambda d: d["circuit"][2]["cable"].update(length_m=-5.0)),
+     ["sockets", "length_m"]),
+    ("zero section", mutated(lambda d: d["circuit"][2]["cable"].update(csa_mm2=0)),
+     ["sockets", "csa_mm2"]),
+    ("NaN load", mutated(lambda d: d["circuit"][3].update(load_a=math.nan)), ["oven", "load_a"]),
+    ("infinite length", mutated(lambda d: d["circuit"][3]["cable"].update(length_m=math.inf)),
+     ["oven", "length_m"]),
+    ("absurd length", mutated(lambda d: d["circuit"][3]["cable"].update(length_m=1e12)),
+     ["oven", "length_m"]),
+    ("absurd fault level", mutated(lambda d: d["supply"].update(pfc_a=1e15)), ["pfc_a"]),
+    ("unknown parent", mutated(lambda d: d["circuit"][1].update({"from": "nowhere"})),
+     ["lights", "from"]),
+    ("cycle", mutated(lambda d: (d["circuit"][0].update({"from": "oven"}))),
+     ["from"]),
+    ("duplicate id", mutated(lambda d: d["circuit"].append(copy.deepcopy(d["circuit"][1]))),
+     ["lights", "id"]),
+    ("misspelt circuit key", mutated(lambda d: d["circuit"][1].update(lod_a=6)),
+     ["lights", "lod_a", "load_a"]),
+    ("misspelt cable key",
+     mutated(lambda d: d["circuit"][1]["cable"].update(lenght_m=d["circuit"][1]["cable"]
+                                                       .pop("length_m"))),
+     ["lights", "lenght_m", "length_m"]),
+    ("unknown material", mutated(lambda d: d["circuit"][1]["cable"].update(material="gold")),
+     ["lights", "material", "copper"]),
+    ("unknown earthing", mutated(lambda d: d["supply"].update(earthing="IT-X")),
+     ["earthing", "TN-S"]),
+    ("unknown basis", mutated(lambda d: d["study"].update(basis="optimistic")),
+     ["basis", "typical"]),
+]
+
+
+@pytest.mark.parametrize(("label", "doc", "fragments"), BAD_DOCUMENTS,
+                         ids=[b[0] for b in BAD_DOCUMENTS])
+@pytest.mark.parametrize("command", ["faults", "check"])
+def test_bad_study_is_refused_in_one_line(tmp_path, label, doc, fragments, command):
+    path = write(tmp_path, doc)
+    before = path.read_bytes()
+    assert_refused(run(command, path), *fragments)
+    assert path.read_bytes() == before  # the input is never modified
+
+
+def test_missing_file_is_refused(tmp_path):
+    assert_refused(run("check", tmp_path / "absent.toml"), "absent.toml")
+
+
+def test_output_path_in_missing_folder_is_refused(tmp_path):
+    path = write(tmp_path, BASE)
+    target = tmp_path / "no-such-folder" / "plot.png"
+    assert_refused(run("plot", path, "--circuit", "lights", "-o", target), "no-such-folder")
+    assert not target.exists()
+
+
+@pytest.mark.parametrize("command", ["plot", "report"])
+def test_output_path_equal_to_input_is_refused(tmp_path, command):
+    path = write(tmp_path, BASE, name="study.pdf")
+    before = path.read_bytes()
+    extra = ["--circuit", "lights"] if command == "plot" else []
+    assert_refused(run(command, path, *extra, "-o", path), "input")
+    assert path.read_bytes() == before
+
+
+def test_bad_study_leaves_existing_report_untouched(tmp_path):
+    bad = write(tmp_path, mutated(lambda d: d["circuit"][1].update(device="B33")))
+    report = tmp_path / "report.pdf"
+    report.write_bytes(b"%PDF-1.4 the designer's earlier report")
+    assert_refused(run("report", bad, "-o", report), "lights")
+    assert report.read_bytes() == b"%PDF-1.4 the designer's earlier report"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["report.pdf", "study.toml"]
+
+
+def test_unknown_circuit_for_choose_and_plot(tmp_path):
+    path = write(tmp_path, BASE)
+    assert_refused(run("choose", path, "--circuit", "attic"), "attic")
+    assert_refused(run("plot", path, "--circuit", "attic", "-o", tmp_path / "p.png"), "attic")
+    assert not (tmp_path / "p.png").exists()
+
+
+# -- fuzzing -------------------------------------------------------------------------------------
+ODD_VALUES = [None, "", "x", -1, 0, 0.0, -0.0, 1e300, math.nan, math.inf, -math.inf, True,
+              [1, 2], {"a": 1}, "B32", "gG100", "supply", "lights", 3, 1, 230, 16000, 2.5]
+
+
+def _paths(doc: dict) -> list[tuple]:
+    """Every (container, key) pair in the document, for mutation."""
+    found = []
+    stack = [doc]
+    while stack:
+        node = stack.pop()
+        items = node.items() if isinstance(node, dict) else enumerate(node)
+        for key, value in items:
+            found.append((node, key))
+            if isinstance(value, dict | list):
+                stack.append(value)
+    return found
+
+
+@st.composite
+def broken_documents(draw) -> dict:
+    doc = copy.deepcopy(BASE)
+    rng = random.Random(draw(st.integers(0, 2**32 - 1)))
+    for _ in range(draw(st.integers(1, 4))):
+        node, key = rng.choice(_paths(doc))
+        action = rng.randrange(4)
+        if action == 0 and isinstance(node, dict):
+            node.pop(key, None)
+        elif action == 1 and isinstance(node, dict):
+            node[str(key) + rng.choice(["_x", "s", ""])[:2]] = node.pop(key, None)
+        else:
+            node[key] = rng.choice(ODD_VALUES)
+    return doc
+
+
+def _clean(doc):
+    """TOML has no null: drop None values so the document can be written."""
+    if isinstance(doc, dict):
+        return {k: _clean(v) for k, v in doc.items() if v is not None}
+    if isinstance(doc, list):
+        return [_clean(v) for v in doc if v is not None]
+    return doc
+
+
+def _invoke_quietly(tmp_path: Path, doc: dict, command: list[str]):
+    try:
+        text = to_toml(_clean(doc))
+    except TypeError:
+        return None
+    path = tmp_path / "fuzz.toml"
+    path.write_text(text, encoding="utf-8")
+    return run(command[0], path, *command[1:])
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(doc=broken_documents(), command=st.sampled_from(
+    [["faults"], ["check"], ["faults", "--json"], ["check", "--json"],
+     ["choose", "--circuit", "sockets"], ["choose", "--circuit", "incomer"]]))
+def test_fuzz_text_commands_raise_only_input_errors(tmp_path, doc, command):
+    result = _invoke_quietly(tmp_path, doc, command)
+    if result is None:
+        return
+    assert result.exception is None or isinstance(result.exception, SystemExit), (
+        result.exception, result.output)
+    assert result.exit_code in (0, 1, 2)
+    if result.exit_code == 2:
+        assert result.stderr.strip().count("\n") == 0
+
+
+@settings(max_examples=8, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(doc=broken_documents(), command=st.sampled_from(["plot", "report"]))
+def test_fuzz_output_commands_raise_only_input_errors(tmp_path, doc, command):
+    out = tmp_path / ("fuzz.png" if command == "plot" else "fuzz.pdf")
+    out.unlink(missing_ok=True)
+    extra = ["--circuit", "sockets"] if command == "plot" else []
+    result = _invoke_quietly(tmp_path, doc, [command, *extra, "-o", str(out)])
+    if result is None:
+        return
+    assert result.exception is None or isinstance(result.exception, SystemExit), (
+        result.exception, result.output)
+    assert result.exit_code in (0, 1, 2)
+    if result.exit_code == 2:
+        assert not out.exists()
+
+
+# -- properties across the pipeline ----------------------------------------------------------------
+def _pairs_json(path: Path) -> list[dict]:
+    result = run("check", path, "--json")
+    assert result.exit_code in (0, 1), result.output
+    return json.loads(result.stdout)["pairs"]
+
+
+@settings(max_examples=10, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(order=st.permutations(range(len(BASE["circuit"]))))
+def test_verdicts_stable_when_circuits_are_reordered(tmp_path, order):
+    reordered = copy.deepcopy(BASE)
+    reordered["circuit"] = [reordered["circuit"][i] for i in order]
+
+    def key(p):
+        return (p["upstream"], p["downstream"])
+
+    original = sorted(_pairs_json(write(tmp_path, BASE, "a.toml")), key=key)
+    shuffled = sorted(_pairs_json(write(tmp_path, reordered, "b.toml")), key=key)
+    assert shuffled == original
+
+
+def test_python_api_and_json_agree(tmp_path):
+    from coordination import engine, faults, study
+    from coordination.cli import to_json
+
+    path = write(tmp_path, BASE)
+    s = study.load(path)
+    levels = faults.compute(s)
+    api_pairs = json.loads(to_json(engine.analyse(s, levels).to_json()))["pairs"]
+    assert _pairs_json(path) == api_pairs
+    api_nodes = json.loads(to_json(levels.to_json()))["nodes"]
+    cli_nodes = json.loads(run("faults", path, "--json").stdout)["nodes"]
+    assert cli_nodes == api_nodes
+
+
+# -- scale: deep and wide trees never recurse ------------------------------------------------------
+def test_deep_chain_of_5000_loads_and_computes_faults(tmp_path):
+    from coordination import faults, study
+
+    s = study.load(write(tmp_path, chain(5000)))
+    levels = faults.compute(s)
+    assert len(levels.nodes) == 5000
+    assert len(s.ancestors("n4999")) == 4999
+
+
+def test_wide_board_of_5000_checks(tmp_path):
+    result = run("check", write(tmp_path, wide(5000)), "--json")
+    assert result.exit_code in (0, 1), result.output
+    assert len(json.loads(result.stdout)["pairs"]) == 5000
