@@ -14,12 +14,21 @@ grid) and returns the first candidate that meets every requirement at once:
 * is selective as required with every device below it, up to each one's board fault level, and
   with every device above it (the overlap engine, :func:`coordination.engine.compare`).
 
-Cheap requirements are numpy masks over the whole candidate array. Selectivity is screened
-vectorised: the lower edges of a whole grid of candidate settings are evaluated on one current
-grid as a 2-D array and compared with the need of the devices below (the largest of their upper
-edges times their margins, precomputed once). Survivors are then confirmed in lowness order by
-the same engine and checks that ``coordination check`` runs, so the answer is exactly what the
-check would say.
+Cheap requirements (Ib, Iz, I2, breaking capacity) rule out whole groups of candidates first.
+Selectivity is then screened vectorised on one current grid: the need of the devices below
+(the largest of their upper edges times their margins, plus the interval over an adjustable
+breaker) is computed once, and the edges of a whole grid of candidate settings are compared with
+it and with the lower edges of the devices above, as arrays (:func:`screen_grid`: about a
+million electronic settings in a fraction of a second). Survivors are confirmed in lowness order
+by the same engine and checks that ``coordination check`` runs, so the answer is what the check
+would say.
+
+References
+----------
+IEC 60364-4-43:2008, 433.1 (Ib <= In <= Iz, I2 <= 1.45 Iz); IEC 60364-4-41:2005, 411.3.2 and
+Table 41.1 (disconnection times); IEC 60364-5-53:2019, 536.4 (selectivity); IEC 60947-2:2016,
+Annex A (selectivity limit current); EN 60898-1 Annex ZA and IEC 60269-2 (let-through and
+pre-arcing I2t).
 """
 
 from __future__ import annotations
@@ -34,9 +43,11 @@ from typing import Any
 import numpy as np
 
 from coordination.devices import device_band, freeze
+from coordination.engine import ADJUSTABLE_FAMILIES
 from coordination.model import SUPPLY_ID, Study
 from curves.band import ENERGY_REGION_S, TIME_CEILING_S, TIME_FLOOR_S, Band
 from curves.errors import InputError
+from curves.mcb import DEFAULT_ICN_A
 
 #: Families the chooser can search, as given to ``--family``: MCB types, gG fuse-links,
 #: thermal-magnetic and electronic breakers.
@@ -52,12 +63,12 @@ BREAKER_ICU_SERIES_A = (10000.0, 16000.0, 25000.0, 36000.0, 50000.0, 70000.0, 10
                         150000.0)
 
 #: Default Icn of an MCB written in shorthand ("B32") [A] (the curves.mcb default).
-MCB_DEFAULT_ICN_A = 6000.0
+MCB_DEFAULT_ICN_A = float(DEFAULT_ICN_A)
 #: Default energy-limiting class of an MCB written in shorthand.
 MCB_DEFAULT_CLASS = 3
 
 #: Band families that are adjustable breakers (a coordination interval applies over them).
-ADJUSTABLE = ("breaker-tm", "breaker-electronic")
+ADJUSTABLE = tuple(sorted(ADJUSTABLE_FAMILIES))
 
 #: Points on the common current grid of the vectorised selectivity screen.
 GRID_POINTS = 480
@@ -659,11 +670,14 @@ def _cheap_failure(problem: _Problem, cand: Candidate, band: Band) -> Failure | 
     ib, iz = problem.ib_a, problem.iz_a
     setting = cand.setting_a
     if ib is not None and setting < ib * (1 - 1e-9):
-        return Failure("load", f"load: Ib {ib:g} A > In {setting:g} A")
+        adjustable = isinstance(cand.spec, Mapping) and cand.spec.get("family") in (
+            "tm", "electronic")
+        return Failure("load", f"load: Ib {ib:g} A > {'Ir' if adjustable else 'In'} "
+                               f"{setting:g} A")
     if iz is not None:  # I2 of the worst compliant device, as coordination.checks takes it
         i2 = float(device_band(cand.spec, "envelope").pickup_max_a)
         if setting > iz * (1 + 1e-9):
-            return Failure("overload", f"cable: In {setting:g} A > Iz {iz:g} A",
+            return Failure("overload", f"cable: In {setting:g} A > Iz {iz:g} A (Ib <= In <= Iz)",
                            need_a=setting)
         if i2 > 1.45 * iz * (1 + 1e-9):
             return Failure("overload", f"cable: I2 {i2:.4g} A > 1.45 Iz {1.45 * iz:.4g} A",
@@ -988,7 +1002,8 @@ def _explain(problem: _Problem, failures: list[tuple[Candidate, Failure]],
              family: str) -> tuple[str, tuple[str, ...]]:
     """Why nothing fits, and what would."""
     ib, iz = problem.ib_a, problem.iz_a
-    circuit = problem.study.by_id[problem.circuit_id]
+    failures = [(c, f if f.device else dataclasses.replace(
+        f, device=device_band(c.spec, problem.basis).name)) for c, f in failures]
     stages = [f.stage for _, f in failures]
     suggestions: list[str] = []
     if ib is not None and iz is not None and ib > iz:
@@ -1041,7 +1056,7 @@ def _explain(problem: _Problem, failures: list[tuple[Candidate, Failure]],
         if family not in ("electronic",):
             suggestions.append("a different family: an electronic breaker with a short-time "
                                "delay (--family electronic)")
-        if circuit.selective_to_a is None:
+        if any(problem.study.by_id[d].selective_to_a is None for d in below):
             suggestions.append("a partial requirement (selective_to_a on the circuits below) "
                                "if total selectivity is not needed")
     above = [f.other for _, f in past_load if f.stage == "selectivity-above" and f.other]
@@ -1211,6 +1226,10 @@ def choose_board(study: Study, board_id: str, *, family: str | None = None) -> t
     if board_id != SUPPLY_ID and board_id not in study.by_id:
         raise InputError(f"no circuit {board_id!r} in the study; give a circuit id or "
                          f"{SUPPLY_ID!r} for the whole study", key="--board")
+    if board_id != SUPPLY_ID and not study.children.get(board_id):
+        raise InputError(f"circuit {board_id!r} feeds no board (it has no circuits below it); "
+                         f"give a circuit that feeds a board, or {SUPPLY_ID!r} for the whole "
+                         f"study", key="--board")
     levels = faults.compute(study)
     feeders = [c.id for c in study.circuits if study.children.get(c.id)
                and (board_id == SUPPLY_ID or c.id == board_id

@@ -18,8 +18,9 @@ How a pair is decided (:func:`compare`):
 1. The two edges are sampled together on a log-spaced grid of currents (one vectorised call per
    edge; the devices' known breakpoints are added to the grid so that no step is stepped over).
    The first sample where D's upper edge rises above U's lower edge brackets the selectivity
-   limit Is, which is then found exactly on the edge functions (Brent's method in log10 I, or
-   bisection on the verdict where an edge steps; both converge to the step itself).
+   limit Is, which is then found exactly on the edge functions (Illinois false position in
+   log10 I with a bisection safeguard, :func:`coordination.roots.find_crossing`; it converges
+   to the step itself where an edge steps).
 2. An upstream device with an instantaneous release withstands no energy above its
    ``instantaneous_a``: the limit is never above it, unless the study gives a tested limit.
 3. A tested limit for the pair overrides both and is reported as ``"tested"``.
@@ -40,10 +41,10 @@ from functools import lru_cache
 from typing import TYPE_CHECKING, Any, Literal
 
 import numpy as np
-from scipy.optimize import brentq
 
 from coordination.devices import band_for
 from coordination.model import Study
+from coordination.roots import find_crossing
 from curves.band import ENERGY_REGION_S, TIME_FLOOR_S, Band
 from curves.errors import InputError
 
@@ -66,6 +67,8 @@ EQUAL_RTOL = 1e-9
 _BREAK_EPS = 1e-7
 #: Tolerance factors around an upstream current setting whose neighbourhood is sampled densely.
 _SETTING_FACTORS = (0.8, 0.85, 0.9, 0.95, 1.0, 1.05, 1.1, 1.2)
+_XTOL = 1e-13
+_RETURN_LOW = True
 #: Log10 stand-in for an infinite time (never operates) when root-finding.
 _LOG_NEVER = 30.0
 
@@ -250,30 +253,18 @@ def _grid(down: Band, up: Band, lo: float, top: float) -> np.ndarray:
 def _refine(down: Band, up: Band, a: float, b: float, margin: float, interval_s: float) -> float:
     """The selectivity limit between a selective current ``a`` and a non-selective ``b`` [A]."""
 
-    def gap(x: float) -> float:  # > 0 where not selective, <= 0 where selective
-        i = np.array([10.0**x])
-        td = _downstream_edge(down, up, i, margin, interval_s)[0]
-        tu = _upstream_edge(up, i)[0] * (1.0 + EQUAL_RTOL)
-        ld = _LOG_NEVER if not math.isfinite(td) else math.log10(max(td, 1e-30))
-        lu = _LOG_NEVER if not math.isfinite(tu) else math.log10(max(tu, 1e-30))
-        if not math.isfinite(td) and not math.isfinite(tu):
-            return -1.0  # both never: selective
-        return ld - lu
+    def gap(x: np.ndarray) -> np.ndarray:  # > 0 where not selective, <= 0 where selective
+        i = 10.0**x
+        td = _downstream_edge(down, up, i, margin, interval_s)
+        tu = _upstream_edge(up, i) * (1.0 + EQUAL_RTOL)
+        finite_d, finite_u = np.isfinite(td), np.isfinite(tu)
+        with np.errstate(invalid="ignore"):
+            ld = np.where(finite_d, np.log10(np.maximum(td, 1e-30)), _LOG_NEVER)
+            lu = np.where(finite_u, np.log10(np.maximum(tu, 1e-30)), _LOG_NEVER)
+        return np.where(finite_d | finite_u, ld - lu, -1.0)  # both never: selective
 
-    xa, xb = math.log10(a), math.log10(b)
-    ga, gb = gap(xa), gap(xb)
-    if ga < 0.0 < gb:
-        return 10.0 ** brentq(gap, xa, xb, xtol=1e-13, rtol=1e-14, maxiter=200)
-    # an edge touches without crossing at the bracket's end: bisect on the verdict itself
-    for _ in range(80):
-        xm = 0.5 * (xa + xb)
-        if gap(xm) > 0.0:
-            xb = xm
-        else:
-            xa = xm
-        if xb - xa < 1e-13:
-            break
-    return 10.0**xb
+    x_lo, x_hi = find_crossing(gap, math.log10(a), math.log10(b), xtol=_XTOL)
+    return float(10.0 ** float(x_lo if _RETURN_LOW else x_hi))
 
 
 @lru_cache(maxsize=65536)
@@ -389,9 +380,10 @@ def compare(upstream: Band, downstream: Band, window_a: tuple[float, float], *,
     Notes
     -----
     The selectivity limit is found exactly on the edge functions: the first non-selective
-    sample of a log-spaced grid (with the bands' breakpoints added) brackets it, Brent's method
-    on ``log10 t_D - log10 t_U`` over ``log10 I`` then converges to it (to the step itself where
-    an edge is discontinuous). A non-selective island narrower than one grid step (about 1.4 %
+    sample of a log-spaced grid (with the bands' breakpoints added) brackets it, a bracketing
+    root-finder (:func:`coordination.roots.find_crossing`) on ``log10 t_D - log10 t_U`` over
+    ``log10 I`` then converges to it, to 1e-13 in log10 I (to the step itself where an edge is
+    discontinuous). A non-selective island narrower than one grid step (about 1.4 %
     in current) away from any known breakpoint could be missed.
 
     References

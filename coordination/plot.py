@@ -44,12 +44,15 @@ DASHES: tuple[Any, ...] = ("-", "--", "-.", ":", (0, (6, 2, 1, 2)), (0, (1, 1)),
 BAND_ALPHA = 0.22
 ZONE_FACE = "#f2c14e"
 ZONE_EDGE = "#7a0f12"
-ZONE_HATCH = "xxxx"
+#: One hatch per crossover zone on a plot, so the legend tells them apart in greyscale.
+ZONE_HATCHES = ("xxxx", "////", "\\\\\\\\", "++++", "....")
 MARKER_STYLE = {
     "max-fault": {"color": "#111111", "linestyle": "-", "linewidth": 1.6},
     "min-earth-fault": {"color": "#444444", "linestyle": (0, (4, 2)), "linewidth": 1.3},
     "load": {"color": "#777777", "linestyle": (0, (1, 2)), "linewidth": 1.4},
 }
+#: Where the Is marks go, in points from the limit (alternating sides).
+LIMIT_OFFSETS = ((-12, -26), (14, 22), (-12, -46), (14, 42))
 WITHSTAND_STYLE = {
     "line": {"color": "#5c3d2e", "linestyle": (0, (10, 3)), "linewidth": 1.2},
     "cpc": {"color": "#a0785a", "linestyle": (0, (3, 2, 3, 6)), "linewidth": 1.2},
@@ -140,7 +143,7 @@ def _geometry_polygons(geometry: Any) -> list[Any]:
     return []
 
 
-def _zone_patch(polygons: Sequence[Any], gid: str, label: str | None) -> Any:
+def _zone_patch(polygons: Sequence[Any], gid: str, label: str | None, hatch: str) -> Any:
     """One PathPatch (holes included) from shapely polygons in (log10 I, log10 t)."""
     from matplotlib.patches import PathPatch
     from matplotlib.path import Path as MplPath
@@ -158,7 +161,7 @@ def _zone_patch(polygons: Sequence[Any], gid: str, label: str | None) -> Any:
             vertices.append(xy)
             codes.append(c)
     path = MplPath(np.concatenate(vertices), np.concatenate(codes))
-    return PathPatch(path, facecolor=ZONE_FACE, edgecolor=ZONE_EDGE, hatch=ZONE_HATCH,
+    return PathPatch(path, facecolor=ZONE_FACE, edgecolor=ZONE_EDGE, hatch=hatch,
                      linewidth=0.9, alpha=0.75, gid=gid, label=label, zorder=4)
 
 
@@ -288,7 +291,10 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
                     gid=f"edge:{cid}")
         tag = _tag_point(band, grid, 10.0 ** (3.0 - 0.7 * k))
         if tag is not None:
-            ax.annotate(f"{cid}\n{band.name}", xy=tag, xytext=(4, 2), textcoords="offset points",
+            # to the left of the edge in the right third of the axis, so it stays inside
+            right = math.log10(tag[0] / i_min) > 0.66 * math.log10(i_max / i_min)
+            ax.annotate(f"{cid}\n{band.name}", xy=tag, xytext=(-4 if right else 4, 2),
+                        textcoords="offset points", ha="right" if right else "left",
                         fontsize=7, color=colour, zorder=6, gid=f"tag:{cid}",
                         bbox={"boxstyle": "round,pad=0.15", "facecolor": "white",
                               "edgecolor": "none", "alpha": 0.7})
@@ -296,17 +302,21 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
     # -- crossover zones and their limits
     from coordination import engine
 
-    labelled = False
+    marks = 0
+    zones = 0
     for pair in pairs_in_chain(analysis, chain):
         if pair.verdict == "total":
             continue
         name = f"{pair.upstream}>{pair.downstream}"
         polys = _geometry_polygons(engine.overlap(study, levels, pair, basis))
-        if polys:
-            ax.add_patch(_zone_patch(polys, f"zone:{name}",
-                                     None if labelled else "crossover zone: both may operate"))
-            labelled = True
         limit = _finite(pair.limit_a)
+        if polys:
+            where = f", Is {format_current(limit)}" if limit is not None else ""
+            ax.add_patch(_zone_patch(
+                polys, f"zone:{name}",
+                f"crossover, both may operate: {pair.upstream} over {pair.downstream}{where}",
+                ZONE_HATCHES[zones % len(ZONE_HATCHES)]))
+            zones += 1
         if limit is not None:
             t_at = float(np.clip(bands[pair.downstream].t_max(limit), TIME_FLOOR_S,
                                  TIME_CEILING_S))
@@ -314,9 +324,13 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
                 xs = np.concatenate([np.asarray(p.exterior.coords)[:, 0] for p in polys])
                 ys = np.concatenate([np.asarray(p.exterior.coords)[:, 1] for p in polys])
                 t_at = float(10.0 ** ys[int(np.argmin(xs))])
-            ax.annotate(f"Is {format_current(limit)}\n({pair.upstream} over {pair.downstream})",
-                        xy=(limit, t_at), xytext=(-10, -34), textcoords="offset points",
-                        ha="right", fontsize=7, color=ZONE_EDGE, zorder=7, gid=f"limit:{name}",
+            # successive marks go to alternate sides and further out, so they do not collide
+            dx, dy = LIMIT_OFFSETS[marks % len(LIMIT_OFFSETS)]
+            marks += 1
+            ax.annotate(f"Is {format_current(limit)}",
+                        xy=(limit, t_at), xytext=(dx, dy), textcoords="offset points",
+                        ha="right" if dx < 0 else "left", fontsize=7, color=ZONE_EDGE, zorder=7,
+                        gid=f"limit:{name}",
                         arrowprops={"arrowstyle": "->", "color": ZONE_EDGE, "linewidth": 0.8})
 
     # -- vertical markers
@@ -369,7 +383,7 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
     ax.set_ylabel("time [s]", fontsize=9)
     ax.set_title(title or f"{study.title}\n{circuit_id} and the devices above it", fontsize=10,
                  y=1.01)  # a fixed position: no layout pass over the tick labels
-    ax.legend(loc="upper left", bbox_to_anchor=(0.0, -0.09), ncol=2, fontsize=7,
+    ax.legend(loc="upper left", bbox_to_anchor=(0.0, -0.09), ncol=2, fontsize=6.5,
               frameon=False, title="key", title_fontsize=7.5, alignment="left")
     if standalone:
         from coordination import CAUTION
@@ -396,3 +410,6 @@ def save_figure(fig: Figure, path: str | os.PathLike) -> None:
     with matplotlib.rc_context({"pdf.fonttype": 42, "svg.fonttype": "none"}), \
             atomic_path(path) as tmp:
         fig.savefig(tmp, format=suffix, dpi=150)
+        from coordination.report import ordinary_mode
+
+        ordinary_mode(tmp)

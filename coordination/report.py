@@ -25,7 +25,6 @@ import textwrap
 from collections.abc import Callable, Iterable, Sequence
 from contextlib import ExitStack
 from dataclasses import dataclass, fields, is_dataclass
-from functools import lru_cache
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
@@ -127,11 +126,9 @@ def _value(value: Any, unit: str) -> str:
     return f"{v:.3g} {unit}"
 
 
-def _settings(settings: Any) -> str:
-    parts = []
-    for key, val in dict(settings).items():
-        parts.append(f"{key}={val:g}" if isinstance(val, int | float) else f"{key}={val}")
-    return ", ".join(parts)
+def _wrap(text: str, width: int) -> list[str]:
+    """Lines of at most ``width`` characters, never broken at a hyphen (ids stay whole)."""
+    return textwrap.wrap(text, width, break_on_hyphens=False)
 
 
 def report_date() -> dt.date:
@@ -152,116 +149,99 @@ class TableSpec:
     rows: tuple[tuple[str, ...], ...]
     align: str = ""  # one 'l' or 'r' per column; default all left
     wrap: tuple[int, ...] = ()  # columns whose text wraps onto more lines
+    fit: tuple[int, ...] = ()  # columns at least as wide as their longest cell (up to FIT_MAX)
     flags: tuple[bool, ...] = ()  # rows to set in the failure ink
 
 
 FONT_PT = 7.0
-LINESPACING = 1.3
+LINE_IN = FONT_PT * 1.32 / 72.0  # baseline to baseline [in]
+MONO = "DejaVu Sans Mono"  # ships with matplotlib
+MONO_EM = 0.62  # advance width of a DejaVu Sans Mono character [em] (0.602), with room
+COLUMN_GAP = 2  # characters between columns
 
 
-@lru_cache(maxsize=1)
-def line_pitch_in() -> float:
-    """Distance between baselines of table text [in], measured once on the Agg renderer."""
-    from matplotlib.backends.backend_agg import FigureCanvasAgg
-    from matplotlib.figure import Figure
-
-    fig = Figure(figsize=PAGE_SIZE_IN, dpi=72)
-    renderer = FigureCanvasAgg(fig).get_renderer()
-    heights = []
-    for n in (1, 11):
-        text = fig.text(0.1, 0.9, "\n".join(["Ag"] * n), fontsize=FONT_PT, va="top",
-                        linespacing=LINESPACING)
-        heights.append(text.get_window_extent(renderer).height)
-    return (heights[1] - heights[0]) / 10.0 / 72.0
+FIT_MAX = 26
 
 
 def _column_chars(spec: TableSpec) -> list[int]:
-    total = sum(spec.widths)
-    usable_in = (RIGHT - LEFT) * PAGE_SIZE_IN[0]
-    # DejaVu Sans averages about 0.55 em per character
-    return [max(3, int(usable_in * w / total * 72.0 / (FONT_PT * 0.56))) for w in spec.widths]
+    """Characters per column: each column's heading (and, for ``fit`` columns, its longest
+    cell) first, then the rest of the page width shared out by the relative widths."""
+    usable_pt = (RIGHT - LEFT) * PAGE_SIZE_IN[0] * 72.0
+    total_chars = int(usable_pt / (FONT_PT * MONO_EM)) - COLUMN_GAP * (len(spec.widths) - 1)
+    least = [max(3, len(h)) for h in spec.headers]
+    for j in spec.fit:
+        longest = max((len(str(row[j])) for row in spec.rows), default=0)
+        least[j] = max(least[j], min(longest, FIT_MAX))
+    spare = max(0, total_chars - sum(least))
+    weight = sum(spec.widths)
+    return [m + int(spare * w / weight) for m, w in zip(least, spec.widths, strict=True)]
 
 
 def _row_lines(spec: TableSpec, row: Sequence[str], chars: Sequence[int]) -> list[list[str]]:
     cells = []
     for j, text in enumerate(row):
         text = str(text)
-        if j in spec.wrap:
-            cells.append(textwrap.wrap(text, chars[j] - 1) or [""])
+        if j in spec.wrap or j in spec.fit:
+            cells.append(_wrap(text, chars[j]) or [""])
         else:
-            cells.append([text if len(text) < chars[j] else text[: chars[j] - 2] + "\u2026"])
+            cells.append([text if len(text) <= chars[j] else text[: chars[j] - 1] + "\u2026"])
     return cells
 
 
 def _paginate(spec: TableSpec, first_room_in: float, room_in: float) -> list[list[int]]:
     """Row indices per page, given the height available on the first and later pages [in]."""
     chars = _column_chars(spec)
-    pitch = line_pitch_in()
     pages: list[list[int]] = [[]]
-    room = first_room_in - 2 * pitch  # the heading row and its rule
+    room = first_room_in - 2 * LINE_IN  # the heading row and its rule
     for i, row in enumerate(spec.rows):
-        height = max(len(c) for c in _row_lines(spec, row, chars)) * pitch
+        height = max(len(c) for c in _row_lines(spec, row, chars)) * LINE_IN
         if height > room and pages[-1]:
             pages.append([])
-            room = room_in - 2 * pitch
+            room = room_in - 2 * LINE_IN
         pages[-1].append(i)
         room -= height
     return pages
 
 
+def _table_line(cells: Sequence[str], chars: Sequence[int], align: str) -> str:
+    gap = " " * COLUMN_GAP
+    return gap.join(c.rjust(w) if a == "r" else c.ljust(w)
+                    for c, w, a in zip(cells, chars, align, strict=True)).rstrip()
+
+
 def _draw_table(fig: Figure, spec: TableSpec, rows: Sequence[int], top: float) -> float:
     """Set the heading and the given rows from ``top`` (figure fraction); returns the new top.
 
-    Each column is one multi-line text (two when some rows are set in the failure ink), with
-    every row padded to the same number of lines in all columns, and alternate rows shaded:
-    a page of table costs a few dozen text objects however many rows it has.
+    Tables are set in a monospaced face, one text per printed line on its own baseline, so
+    columns line up exactly, the text layer reads as rows, and a page costs one text object per
+    line however many columns it has. Alternate rows are shaded.
     """
     from matplotlib.patches import Rectangle
 
     chars = _column_chars(spec)
-    total = sum(spec.widths)
-    xs = [LEFT]
-    for w in spec.widths[:-1]:
-        xs.append(xs[-1] + (RIGHT - LEFT) * w / total)
-    right_edges = [*xs[1:], RIGHT]
     align = spec.align or "l" * len(spec.headers)
-    pitch = line_pitch_in() / PAGE_SIZE_IN[1]
-    gap = 0.012  # a little space between columns, for right-aligned text
-
-    def put(j: int, y: float, text: str, **kw: Any) -> None:
-        if align[j] == "r":
-            fig.text(right_edges[j] - gap, y, text, ha="right", va="top",
-                     multialignment="right", linespacing=LINESPACING, **kw)
-        else:
-            fig.text(xs[j], y, text, ha="left", va="top", multialignment="left",
-                     linespacing=LINESPACING, **kw)
-
+    pitch = LINE_IN / PAGE_SIZE_IN[1]
+    ascent = 0.8 * pitch
     y = top
-    for j, head in enumerate(spec.headers):
-        put(j, y, head, fontsize=FONT_PT, fontweight="bold", color=INK)
-    y -= pitch * 1.2
+    fig.text(LEFT, y - ascent, _table_line(spec.headers, chars, align), family=MONO,
+             fontsize=FONT_PT, fontweight="bold", color=INK, va="baseline")
+    y -= pitch * 1.15
     fig.add_artist(_rule(fig, y))
-    y -= pitch * 0.3
-    columns: dict[bool, list[list[str]]] = {False: [[] for _ in spec.headers],
-                                            True: [[] for _ in spec.headers]}
-    used = 0
+    y -= pitch * 0.2
     for k, i in enumerate(rows):
         cells = _row_lines(spec, spec.rows[i], chars)
         n = max(len(c) for c in cells)
-        flagged = bool(spec.flags and spec.flags[i])
-        for j, lines in enumerate(cells):
-            columns[flagged][j].extend(lines + [""] * (n - len(lines)))
-            columns[not flagged][j].extend([""] * n)
+        colour = FAIL_INK if spec.flags and spec.flags[i] else INK
         if k % 2 == 1:
-            fig.add_artist(Rectangle((LEFT - 0.005, y - (used + n) * pitch + 0.2 * pitch),
+            fig.add_artist(Rectangle((LEFT - 0.005, y - n * pitch - 0.05 * pitch),
                                      RIGHT - LEFT + 0.01, n * pitch, transform=fig.transFigure,
-                                     facecolor="#eeeeee", edgecolor="none", zorder=-1))
-        used += n
-    for flagged, colour in ((False, INK), (True, FAIL_INK)):
-        for j, lines in enumerate(columns[flagged]):
-            if any(lines):
-                put(j, y, "\n".join(lines), fontsize=FONT_PT, color=colour)
-    return y - used * pitch
+                                     facecolor="#ededed", edgecolor="none", zorder=-1))
+        for line in range(n):
+            texts = [c[line] if line < len(c) else "" for c in cells]
+            fig.text(LEFT, y - ascent - line * pitch, _table_line(texts, chars, align),
+                     family=MONO, fontsize=FONT_PT, color=colour, va="baseline")
+        y -= n * pitch
+    return y
 
 
 def _rule(fig: Figure, y: float, colour: str = RULE) -> Any:
@@ -322,34 +302,81 @@ def plot_plan(study: Study, analysis: Any) -> list[tuple[str, str, str]]:
         name = study.by_id[board_circuit].board or board_circuit
         plan.append(("board", pick, f"Board {name}"))
         drawn.add(pick)
-    seen: set[str] = set()
+    above: dict[str, list[str]] = {}
     for p in analysis.pairs:
-        if p.verdict != "total" and p.downstream not in drawn and p.downstream not in seen:
-            seen.add(p.downstream)
-            plan.append(("pair", p.downstream, f"Not selective: {p.downstream}"))
+        if p.verdict != "total":
+            above.setdefault(p.downstream, []).append(p.upstream)
+    for downstream, upstreams in above.items():
+        if downstream not in drawn:
+            plan.append(("pair", downstream,
+                         f"Not selective: {downstream} under {', '.join(upstreams)}"))
     return plan
+
+
+#: How the register shows a band's settings: a label and the unit to show the value in
+#: (``None``: left out, because the device's name already says it).
+SETTING_LABELS: dict[str, tuple[str, str] | None] = {
+    "In_a": None, "type": None, "Ir_x": None, "Isd_x": None, "Ii_x": None,
+    "energy_class": ("class", ""), "icn_a": ("Icn", "kA"), "icu_a": ("Icu", "kA"),
+    "breaking_capacity_a": ("breaks", "kA"), "Ir_a": ("Ir", "A"), "Isd_a": ("Isd", "A"),
+    "Ii_a": ("Ii", "A"), "tr_s": ("tr", "s"), "tsd_s": ("tsd", "s"),
+}
+CAPACITY_SETTINGS = ("icn_a", "icu_a", "breaking_capacity_a")
+
+
+def register_settings(settings: Any, capacity_a: float | None = None) -> str:
+    """A band's settings as a person reads them (``class 3, Icn 6 kA``).
+
+    ``capacity_a``: a breaking capacity the study gives for the circuit, which replaces the
+    device's own.
+    """
+    parts = []
+    capacity_shown = False
+    for key, val in dict(settings).items():
+        label = SETTING_LABELS.get(key, (key, ""))
+        if label is None:
+            continue
+        name, unit = label
+        if key == "sd_i2t":
+            if val:
+                parts.append("I2t ramp")
+            continue
+        if key in CAPACITY_SETTINGS and capacity_a is not None:
+            parts.append(f"{name} {capacity_a / 1000:g} kA (study)")
+            capacity_shown = True
+            continue
+        if not isinstance(val, int | float):
+            parts.append(f"{name} {val}")
+        elif unit == "kA":
+            parts.append(f"{name} {val / 1000:g} kA")
+        else:
+            parts.append(f"{name} {val:g}{' ' + unit if unit else ''}")
+    if capacity_a is not None and not capacity_shown:
+        parts.append(f"breaks {capacity_a / 1000:g} kA (study)")
+    return ", ".join(parts)
+
+
+def _cable_text(cable: Any) -> str:
+    if cable is None:
+        return "-"
+    par = f"{cable.parallel}x" if (cable.parallel or 1) > 1 else ""
+    cpc = f"/{cable.cpc_mm2:g}" if cable.cpc_mm2 else ""
+    metal = {"copper": "cu", "aluminium": "al"}.get(cable.material, cable.material)
+    return f"{par}{cable.csa_mm2:g}{cpc} {metal} {cable.insulation} {cable.length_m:g} m"
 
 
 def _device_table(study: Study, basis: str | None) -> TableSpec:
     from coordination.devices import band_for
 
-    rows, flags = [], []
+    rows = []
     for c in study.circuits:
         band = band_for(study, c.id, basis)
-        feeds = (c.board or c.id) if study.children.get(c.id) else ""
-        cable = ""
-        if c.cable is not None:
-            par = f"{c.cable.parallel} x " if (c.cable.parallel or 1) > 1 else ""
-            cpc = f"/{c.cable.cpc_mm2:g}" if c.cable.cpc_mm2 else ""
-            cable = (f"{par}{c.cable.csa_mm2:g}{cpc} mm\u00b2 {c.cable.material[:2]} "
-                     f"{c.cable.insulation}, {c.cable.length_m:g} m")
-        rows.append((c.id, study.board_name(c.id), feeds, band.name, band.basis,
-                     _settings(band.settings), "-" if c.load_a is None else f"{c.load_a:g}",
-                     cable))
-        flags.append(False)
-    return TableSpec(("circuit", "sits on", "feeds", "device", "basis", "settings", "Ib A",
-                      "cable"), (1.5, 1.2, 0.9, 1.5, 0.7, 2.4, 0.45, 2.0), tuple(rows),
-                     "llllllrl", wrap=(3, 5, 7), flags=tuple(flags))
+        rows.append((c.id, study.board_name(c.id), band.name, band.basis,
+                     register_settings(band.settings, c.breaking_capacity_a),
+                     "-" if c.load_a is None else f"{c.load_a:g}", _cable_text(c.cable)))
+    return TableSpec(("circuit", "sits on", "device", "basis", "settings", "Ib A",
+                      "cable mm\u00b2"), (0.0, 0.0, 0.6, 0.0, 2.0, 0.0, 0.0), tuple(rows),
+                     "lllllrl", wrap=(2, 4), fit=(0, 1, 3, 6))
 
 
 def _fault_table(study: Study, levels: Any) -> TableSpec:
@@ -362,7 +389,8 @@ def _fault_table(study: Study, levels: Any) -> TableSpec:
                      _ka(getattr(n, "ief_min_a", None)), _ohm(getattr(n, "zs_ohm", None))))
     return TableSpec(("circuit", "board", "ph", "Ik3 max kA", "Ik1 max kA", "window kA",
                       "Ik min end kA", "Ief min end kA", "Zs end \u03a9"),
-                     (1.7, 1.4, 0.35, 0.9, 0.9, 0.9, 1.0, 1.0, 0.8), tuple(rows), "lllrrrrrr")
+                     (0.5, 1.0, 0.0, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2), tuple(rows), "lllrrrrrr",
+                     wrap=(1,), fit=(0,))
 
 
 def _pair_table(analysis: Any) -> TableSpec:
@@ -377,8 +405,8 @@ def _pair_table(analysis: Any) -> TableSpec:
         flags.append(not p.ok)
     return TableSpec(("downstream", "upstream", "verdict", "Is kA", "window kA", "decided by",
                       "bases d/u", "need kA", "met"),
-                     (2.1, 2.1, 0.65, 0.55, 1.0, 0.95, 1.25, 0.7, 0.4), tuple(rows), "lllrllllr",
-                     wrap=(0, 1), flags=tuple(flags))
+                     (1.0, 1.0, 0.0, 0.0, 0.3, 0.2, 0.3, 0.0, 0.0), tuple(rows), "lllrllllr",
+                     wrap=(0, 1), fit=(2, 4, 5, 6), flags=tuple(flags))
 
 
 def _check_table(results: Sequence[Any]) -> TableSpec:
@@ -388,8 +416,8 @@ def _check_table(results: Sequence[Any]) -> TableSpec:
                      _value(r.limit, r.unit), r.reason))
         flags.append(not r.ok)
     return TableSpec(("circuit", "check", "result", "value", "limit", "reason"),
-                     (1.5, 1.45, 0.5, 0.8, 0.8, 4.15), tuple(rows), "lllrrl", wrap=(5,),
-                     flags=tuple(flags))
+                     (0.0, 0.0, 0.0, 0.0, 0.0, 1.0), tuple(rows), "lllrrl", wrap=(5,),
+                     fit=(0, 1, 2, 3, 4), flags=tuple(flags))
 
 
 def _supply_lines(study: Study, levels: Any) -> list[str]:
@@ -497,7 +525,7 @@ def _cover(study: Study, levels: Any, analysis: Any, results: Sequence[Any],
             fig.text(LEFT, y, title, fontsize=11, fontweight="bold", color=INK, va="top")
             y -= 0.022
             for raw in lines:
-                for k, text in enumerate(textwrap.wrap(raw, width) or [""]):
+                for k, text in enumerate(_wrap(raw, width) or [""]):
                     fig.text(LEFT + (0.02 if k else 0.0), y, text, fontsize=8.5, color=INK,
                              va="top")
                     y -= 0.0155
@@ -523,7 +551,7 @@ def _cover(study: Study, levels: Any, analysis: Any, results: Sequence[Any],
         # the caution, boxed
         fig.text(LEFT, y - 0.005, "Caution", fontsize=11, fontweight="bold", color=FAIL_INK,
                  va="top")
-        fig.text(LEFT, y - 0.03, "\n".join(textwrap.wrap(CAUTION, 95)), fontsize=10,
+        fig.text(LEFT, y - 0.03, "\n".join(_wrap(CAUTION, 95)), fontsize=10,
                  color=INK, va="top", linespacing=1.4,
                  bbox={"boxstyle": "round,pad=0.6", "facecolor": "#f3efe6",
                        "edgecolor": FAIL_INK, "linewidth": 0.8})
@@ -535,7 +563,7 @@ def _cover(study: Study, levels: Any, analysis: Any, results: Sequence[Any],
 
 def _table_pages(study: Study, heading: str, intro: Sequence[str],
                  spec: TableSpec) -> list[PageBuilder]:
-    intro_in = (0.32 + 0.16 * sum(len(textwrap.wrap(t, 130)) for t in intro)) if intro else 0.3
+    intro_in = (0.32 + 0.16 * sum(len(_wrap(t, 130)) for t in intro)) if intro else 0.3
     body_in = (TOP - BOTTOM) * PAGE_SIZE_IN[1]
     chunks = _paginate(spec, body_in - intro_in, body_in - 0.3)
     builders: list[PageBuilder] = []
@@ -546,7 +574,7 @@ def _table_pages(study: Study, heading: str, intro: Sequence[str],
             y = TOP - 0.012
             if k == 0:
                 for para in intro:
-                    for line in textwrap.wrap(para, 130):
+                    for line in _wrap(para, 130):
                         fig.text(LEFT, y, line, fontsize=7.5, color=MUTED, va="top")
                         y -= 0.013
                 y -= 0.008
@@ -564,29 +592,36 @@ def _plot_page(study: Study, levels: Any, analysis: Any, kind: str, circuit_id: 
         from coordination.plot import pairs_in_chain, plot_circuit
 
         fig = _new_page(study, heading)
-        ax = fig.add_axes((0.11, 0.40, 0.84, 0.51))
+        ax = fig.add_axes((0.11, 0.42, 0.84, 0.49))
         plot_circuit(study, levels, analysis, circuit_id, basis=basis, ax=ax,
                      title=f"{circuit_id} and the devices above it")
         chain = (circuit_id, *study.ancestors(circuit_id))
-        lines = []
-        if kind == "board":
-            feeder = study.by_id[circuit_id].parent
-            lines.append(f"Fed by {feeder} ({analysis.for_circuit(circuit_id)[0].upstream_device}"
-                         f"). Drawn: its outgoing circuit {circuit_id}, the one with the least "
-                         "selectivity on this board, with every device above it."
-                         if analysis.for_circuit(circuit_id) else "")
-        pairs = pairs_in_chain(analysis, chain)
-        for p in pairs:
-            limit = "" if p.verdict == "total" else f", Is {_ka(p.limit_a)} kA"
-            lines.append(f"{p.downstream} ({p.downstream_device}) under {p.upstream} "
-                         f"({p.upstream_device}): {p.verdict}{limit} over "
-                         f"{_ka(p.window_a[0])}-{_ka(p.window_a[1])} kA, decided by "
-                         f"{p.decided_by}; requirement {'met' if p.ok else 'NOT met'}.")
-        y = 0.205
-        for raw in lines:
-            for text in textwrap.wrap(raw, 125):
-                fig.text(LEFT, y, text, fontsize=7.2, color=INK, va="top")
-                y -= 0.0125
+        y = 0.235
+        parent = study.by_id[circuit_id].parent
+        if kind == "board" and parent in study.by_id:
+            board = study.by_id[parent].board or parent
+            text = (f"Board {board} is fed by {parent}. Drawn: its outgoing circuit {circuit_id}, "
+                    "the one with the least selectivity on this board, with every device "
+                    "above it.")
+        else:
+            text = (f"Drawn: circuit {circuit_id} with every device above it; the hatched "
+                    "zones are where both devices of a pair may operate.")
+        for line in _wrap(text, 125):
+            fig.text(LEFT, y, line, fontsize=7.5, color=INK, va="top")
+            y -= 0.013
+        rows, flags = [], []
+        for p in pairs_in_chain(analysis, chain):
+            rows.append((p.downstream, p.upstream, p.verdict,
+                         "-" if p.verdict == "total" else _ka(p.limit_a),
+                         f"{_ka(p.window_a[0])}-{_ka(p.window_a[1])}", p.decided_by,
+                         "yes" if p.ok else "NO"))
+            flags.append(not p.ok)
+        if rows:
+            spec = TableSpec(("downstream", "upstream", "verdict", "Is kA", "window kA",
+                              "decided by", "met"), (1.0, 1.0, 0, 0, 0.3, 0.3, 0),
+                             tuple(rows), "lllrllr", fit=(0, 1, 2, 3, 4, 5, 6),
+                             flags=tuple(flags))
+            _draw_table(fig, spec, range(len(rows)), y - 0.006)
         _finish_page(fig, number, total)
         return fig
 
@@ -601,13 +636,13 @@ def _notes_page(study: Study, levels: Any) -> PageBuilder:
         for title, text in (*NOTES, ("Fault convention of this study", convention or "-")):
             fig.text(LEFT, y, title, fontsize=10, fontweight="bold", color=INK, va="top")
             y -= 0.019
-            for line in textwrap.wrap(str(text), 118):
+            for line in _wrap(str(text), 118):
                 fig.text(LEFT, y, line, fontsize=8.2, color=INK, va="top")
                 y -= 0.0145
             y -= 0.012
         fig.text(LEFT, y - 0.01, "Caution", fontsize=10, fontweight="bold", color=FAIL_INK,
                  va="top")
-        fig.text(LEFT, y - 0.032, "\n".join(textwrap.wrap(CAUTION, 110)), fontsize=8.5,
+        fig.text(LEFT, y - 0.032, "\n".join(_wrap(CAUTION, 110)), fontsize=8.5,
                  color=INK, va="top", linespacing=1.4)
         _finish_page(fig, number, total)
         return fig
@@ -655,6 +690,14 @@ def _node_record(node: Any) -> dict[str, Any]:
     return dict(vars(node))
 
 
+def ordinary_mode(path: Path) -> None:
+    """Give a finished temporary file the permissions a new file would have (umask applied);
+    temporary files are created private."""
+    umask = os.umask(0)
+    os.umask(umask)
+    os.chmod(path, 0o666 & ~umask)
+
+
 def _write_csv(path: Path, records: Sequence[dict[str, Any]]) -> None:
     headers, rows = _csv_rows(records)
     with path.open("w", newline="", encoding="utf-8") as handle:
@@ -694,9 +737,9 @@ def build_pages(study: Study, basis: str | None = None) -> tuple[list[PageBuilde
 
     pages: list[PageBuilder] = [_cover(study, levels, analysis, results, basis)]
     pages += _table_pages(study, "Device register", [
-        "Every protective device of the study: the board it sits on, the board it feeds, its "
-        "band and the basis of that band for selectivity, its settings, the design current Ib "
-        "and its cable (line/protective conductor).",
+        "Every protective device of the study: the board it sits on, its band and the basis of "
+        "that band for selectivity, its settings, the design current Ib and its cable (line/"
+        "protective conductor in mm\u00b2, material, insulation, length).",
     ], _device_table(study, basis))
     pages += _table_pages(study, "Fault levels", [
         "Maximum currents at each circuit's origin (its board): Ik3 three-phase, Ik1 "
@@ -784,9 +827,12 @@ def write_report(study: Study, path: str | os.PathLike, *, csv: bool = False,
                 ("faults", [_node_record(n) for n in levels.nodes]),
             )
             for name, records in tables:
-                out = stem.parent / f"{stem.name}-{name}.csv"
+                out = check_output_path(stem.parent / f"{stem.name}-{name}.csv",
+                                        inputs=(study.source,) if study.source else (),
+                                        key="--csv")
                 tmp = stack.enter_context(atomic_path(out))
                 _write_csv(tmp, records)
+                ordinary_mode(tmp)
                 extra.append(out)
         metadata = {"Title": f"Selectivity report: {study.title}",
                     "Creator": f"coordination {__version__}", "Subject": CAUTION}
@@ -797,6 +843,7 @@ def write_report(study: Study, path: str | os.PathLike, *, csv: bool = False,
                 fig = build(number, total)
                 pdf.savefig(fig)
                 _progress(progress, number, total)
+        ordinary_mode(pdf_tmp)
     return ReportSummary(ok=ok, pages=total, extra_files=tuple(extra), path=target)
 
 

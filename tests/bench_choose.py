@@ -113,9 +113,9 @@ def bench(name: str, text: str) -> None:
     print(f"  screen of every grid: {len(grids)} grids, {settings_count:,} settings, "
           f"{passing:,} pass the screen, {screen_s:.3f} s -> "
           f"{settings_count / screen_s:,.0f} candidate settings per second")
-    print(f"  whole choose (screen, cheap masks, exact confirmation): {choose_s:.3f} s, "
-          f"{choice.searched:,} candidates looked at -> "
-          f"{choice.searched / choose_s:,.0f} per second; answer: {choice.name}")
+    print(f"  whole choose (cheap masks, screen, exact confirmation): {choose_s:.3f} s for "
+          f"{choice.searched:,} candidates ruled in or out (most by the cheap masks on Ib and "
+          f"Iz, a whole (In, Ir) grid at a time); answer: {choice.name}")
 
 
 def main() -> None:

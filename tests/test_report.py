@@ -6,6 +6,7 @@ The installations are invented (the bundled examples and a small study below).
 from __future__ import annotations
 
 import csv
+import os
 import re
 from pathlib import Path
 
@@ -115,11 +116,18 @@ def test_csv_tables_on_request(shop_report):
     assert "ik_max_a" in fault_rows[0]
 
 
-def test_no_csv_unless_asked(tmp_path):
+def test_no_csv_unless_asked_and_a_progress_bar(tmp_path, capsys):
     s = study.load(SHOP)
-    summary = write_report(s, tmp_path / "plain.pdf")
+    summary = write_report(s, tmp_path / "plain.pdf", progress=True)
     assert summary.extra_files == ()
     assert sorted(p.name for p in tmp_path.iterdir()) == ["plain.pdf"]
+    err = capsys.readouterr().err
+    assert f"page {summary.pages}/{summary.pages}" in err
+    # common practice: a new file gets the ordinary permissions (umask applied), not the
+    # private mode of a temporary file
+    umask = os.umask(0)
+    os.umask(umask)
+    assert (tmp_path / "plain.pdf").stat().st_mode & 0o777 == 0o666 & ~umask
 
 
 def test_plots_cover_every_board_and_every_non_selective_pair():
@@ -133,13 +141,6 @@ def test_plots_cover_every_board_and_every_non_selective_pair():
         if p.verdict != "total":
             assert p.downstream in plotted, p
     assert len(plotted) == len(plan)  # no circuit drawn twice
-
-
-def test_progress_bar_on_stderr(tmp_path, capsys):
-    s = study.load(SHOP)
-    summary = write_report(s, tmp_path / "shop.pdf", progress=True)
-    err = capsys.readouterr().err
-    assert f"page {summary.pages}/{summary.pages}" in err
 
 
 def test_failure_while_writing_leaves_the_earlier_report(tmp_path, monkeypatch):

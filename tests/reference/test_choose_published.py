@@ -136,13 +136,17 @@ def test_smallest_gg_over_a_board_of_class3_mcbs(finals, ik_a, bracket_a, expect
     # IEC 60269-2 and EN 60898-1 Annex ZA: the hand-worked rating above is the published answer
     assert hand == expected
     choice = choose.choose(s, "sub-main", family="gG")
+    # IEC 60269-2 and EN 60898-1 Annex ZA: a selective gG rating exists (worked above)
     assert choice.found, choice.reason
     # IEC 60269-2 pre-arcing I2t against EN 60898-1 Annex ZA class-3 let-through (hand answer)
     assert choice.rating_a == pytest.approx(expected, rel=0, abs=0)
+    # IEC 60269-2 (shorthand of the trade): the answer as it goes into the study file
     assert choice.device == f"gG{expected}"
-    # the next smaller fuse-link is ruled out by selectivity with a final circuit's MCB
+    # IEC 60269-2 and EN 60898-1 Annex ZA (worked above): the next smaller fuse-link is ruled
+    # out by selectivity with a final circuit's MCB
     assert choice.binding is not None and "selectivity" in choice.binding
     assert "final-" in choice.binding
+    # common practice: the answer reads back as the same device
     assert band_from_spec(choice.device).name == choice.name
 
 
@@ -170,6 +174,7 @@ def test_final_circuit_bounded_by_ib_in_iz(family, ib_a, iz_a, csa_mm2, expected
     # their cables, so only Ib, In and Iz decide)
     assert faults.compute(s).by_circuit["final"].ik_max_a <= 3_500.0
     choice = choose.choose(s, "final", family=family)
+    # IEC 60364-4-43 433.1: a rating exists between Ib and Iz (worked by hand above)
     assert choice.found, choice.reason
     # IEC 60364-4-43 433.1: the smallest rating with In >= Ib (worked by hand above)
     assert choice.rating_a == pytest.approx(expected_a, rel=0, abs=0)
@@ -221,9 +226,11 @@ iz_a = {iz_a}
 def test_infeasible_when_the_load_exceeds_the_cable():
     s = study.loads(final_study(40.0, 27.0, 4.0))
     choice = choose.choose(s, "final", family="B")
+    # IEC 60364-4-43 433.1: Ib 40 A > Iz 27 A, so nothing fits, and the reason says so
     assert not choice.found
     assert choice.device is None and choice.rating_a is None
     assert "Ib 40 A" in choice.reason and "Iz 27 A" in choice.reason
+    # IEC 60364-4-43 433.1: only a cable with Iz >= Ib can carry the load
     assert any("larger cable" in t for t in choice.suggestions)
 
 
@@ -233,6 +240,7 @@ def test_infeasible_when_the_load_exceeds_the_cable():
 def test_infeasible_gg_by_its_conventional_fusing_current():
     s = study.loads(final_study(22.0, 27.0, 4.0))
     choice = choose.choose(s, "final", family="gG")
+    # IEC 60364-4-43 433.1 with I2 = 1.6 In (IEC 60269-1, from memory): worked above
     assert not choice.found
     assert "I2" in choice.reason
     need = [t for t in choice.suggestions if "larger cable" in t]
@@ -249,9 +257,12 @@ def test_infeasible_selectivity_explains_what_would_help():
     s = study.loads(tuned(lambda pfc: board_study(("B16", "B32"), pfc, iz_a=100.0), 5_500.0,
                           "final-1"))
     choice = choose.choose(s, "sub-main", family="gG")
+    # EN 60898-1 Annex ZA, IEC 60269-2 and IEC 60364-4-43 433.1 together: worked above
     assert not choice.found
     assert "selectivity" in choice.reason
     text = " ".join(choice.suggestions)
+    # common practice: the remedies a designer has (lower let-through below, a tested
+    # combination, a cable that allows the larger fuse-link)
     assert "lower let-through" in text
     assert "tested" in text
     assert "larger cable" in text
@@ -310,11 +321,13 @@ iz_a = 200
 def test_electronic_short_time_delay_clears_the_fuse(margin, interval_s):
     s = study.loads(fuse_under_breaker_study(margin, interval_s))
     choice = choose.choose(s, "incomer", family="electronic")
+    # IEC 60947-2 (adjustable short-time delay) against IEC 60269-2 gates: a setting exists
     assert choice.found, choice.reason
     band = band_from_spec(dict(choice.device), basis=s.basis)
     settings = dict(choice.settings)
     # IEC 60364-4-43 433.1: the long-time setting carries the load (Ir >= Ib = 250 A)
     assert settings["Ir_a"] >= 250.0
+    # IEC 60947-2: the answer has a short-time delay on the unit's grid
     assert "tsd_s" in settings
     for current_a, no_melt_s in GG160_NO_MELT_GATES:
         need_s = no_melt_s * margin + interval_s
