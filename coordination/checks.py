@@ -473,13 +473,63 @@ def _get(node: Any, name: str, default: float | None = None) -> float | None:
     return default if value is None else float(value)
 
 
-def _tmax(band: Band, i: float) -> float:
-    return float(band.t_max(i)) if i > 0 else math.inf
+#: Fault currents of a node [A] at which the checks read its device's edges.
+_NODE_CURRENTS = ("ief_min_a", "ik_max_a", "ik3_max_a", "ik1_max_a", "ik_min_end_a")
+
+
+class _Edges:
+    """Upper edge [s] and maximum let-through I2t [A2s] of bands at the currents the checks read.
+
+    Built with one vectorised call per distinct band over all the currents its circuits need
+    (identical devices in many circuits share the call); a current not asked for in advance is
+    evaluated on its own, so the values never depend on what was gathered.
+    """
+
+    def __init__(self, wanted: Mapping[Band, Iterable[float]]) -> None:
+        self._values: dict[Band, dict[float, tuple[float, float]]] = {}
+        for band, currents in wanted.items():
+            i = np.array(sorted({c for c in currents if c > 0}), dtype=np.float64)
+            if i.size == 0:
+                continue
+            t = np.asarray(band.t_max(i), dtype=np.float64).tolist()
+            energy = np.asarray(band.i2t_let_through(i), dtype=np.float64).tolist()
+            self._values[band] = dict(zip(i.tolist(), zip(t, energy, strict=True), strict=True))
+
+    @classmethod
+    def for_nodes(cls, items: Iterable[tuple[Band, Any]]) -> _Edges:
+        """The edges of each (band, fault-level node) pair at the node's fault currents."""
+        wanted: dict[Band, set[float]] = {}
+        for band, node in items:
+            currents = wanted.setdefault(band, set())
+            for name in _NODE_CURRENTS:
+                try:
+                    value = _get(node, name)
+                except (TypeError, ValueError):
+                    continue
+                if value is not None and math.isfinite(value):
+                    currents.add(value)
+        return cls(wanted)
+
+    def _pair(self, band: Band, i: float) -> tuple[float, float] | None:
+        values = self._values.get(band)
+        return None if values is None else values.get(i)
+
+    def t_max(self, band: Band, i: float) -> float:
+        """Upper edge at ``i`` [s]; ``inf`` for no current."""
+        if not i > 0:
+            return math.inf
+        pair = self._pair(band, i)
+        return float(band.t_max(i)) if pair is None else pair[0]
+
+    def i2t(self, band: Band, i: float) -> float:
+        """Maximum let-through energy at ``i`` [A2s]."""
+        pair = self._pair(band, i)
+        return float(band.i2t_let_through(i)) if pair is None else pair[1]
 
 
 # -------------------------------------------------------------------------------------------
 # the four checks of one circuit
-def _disconnection(study: Study, cid: str, band: Band, node: Any) -> CheckResult:
+def _disconnection(study: Study, cid: str, band: Band, node: Any, edges: _Edges) -> CheckResult:
     supply = study.supply
     kind = EARTHING_KIND.get(str(supply.earthing).upper(), "TN")
     in_a = _in_a(band)
@@ -496,7 +546,7 @@ def _disconnection(study: Study, cid: str, band: Band, node: Any) -> CheckResult
     ief = _get(node, "ief_min_a", 0.0) or 0.0
     zs = _get(node, "zs_ohm", math.nan)
     zs = math.nan if zs is None else zs
-    t = _tmax(band, ief)
+    t = edges.t_max(band, ief)
     ia = operating_current_a(band, limit)
     zs_max = supply.c_min * supply.u0_v / ia if math.isfinite(ia) else 0.0
     ok = t <= limit
@@ -551,8 +601,8 @@ def _overload(study: Study, cid: str, band: Band) -> CheckResult | None:
     return CheckResult(cid, "overload", ok, value, limit, "A", reason, band.basis, details)
 
 
-def _fault_energy(study: Study, cid: str, band: Band, node: Any,
-                  overload_protected: bool) -> CheckResult | None:
+def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protected: bool,
+                  edges: _Edges) -> CheckResult | None:
     circuit = study.by_id[cid]
     cable = circuit.cable
     if cable is None:
@@ -586,8 +636,8 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any,
     for what, conductor, i, s, k in cases:
         if i is None or not (i > 0):
             continue
-        t = _tmax(band, i)
-        energy = float(band.i2t_let_through(i))
+        t = edges.t_max(band, i)
+        energy = edges.i2t(band, i)
         need = adiabatic_min_csa_mm2(energy, k) if math.isfinite(energy) else math.inf
         if t > ADIABATIC_LIMIT_S:
             if conductor == "line" and overload_protected:
@@ -717,14 +767,20 @@ def check_device(study: Study, levels: Any, circuit_id: str,
     if circuit_id not in study.by_id:
         raise InputError(f"no circuit {circuit_id!r} in the study", key="circuit")
     node = levels.by_circuit[circuit_id]
+    return _check_device(study, circuit_id, band, node, _Edges.for_nodes([(band, node)]))
+
+
+def _check_device(study: Study, circuit_id: str, band: Band, node: Any,
+                  edges: _Edges) -> tuple[CheckResult, ...]:
+    """:func:`check_device` with the band's edges at the node's currents already evaluated."""
     try:
-        results: list[CheckResult | None] = [_disconnection(study, circuit_id, band, node)]
+        results: list[CheckResult | None] = [_disconnection(study, circuit_id, band, node, edges)]
         overload = _overload(study, circuit_id, band)
         results.append(overload)
         circuit = study.by_id[circuit_id]
         protected = (overload is not None and overload.ok and circuit.cable is not None
                      and circuit.cable.iz_a is not None)
-        results.append(_fault_energy(study, circuit_id, band, node, protected))
+        results.append(_fault_energy(study, circuit_id, band, node, protected, edges))
         results.append(_breaking_capacity(study, circuit_id, band, node))
     except InputError as error:
         if error.key is not None and error.key.startswith("supply"):
@@ -773,10 +829,15 @@ def run(study: Study, levels: Any) -> tuple[CheckResult, ...]:
     """
     from coordination.devices import band_for
 
+    # every band's edges at all its circuits' fault currents in one vectorised call per band
+    bands = [band_for(study, circuit.id, basis="envelope") for circuit in study.circuits]
+    by_circuit = levels.by_circuit
+    edges = _Edges.for_nodes((band, by_circuit[circuit.id])
+                             for band, circuit in zip(bands, study.circuits, strict=True)
+                             if circuit.id in by_circuit)
     out: list[CheckResult] = []
-    for circuit in study.circuits:
-        band = band_for(study, circuit.id, basis="envelope")
-        out.extend(check_device(study, levels, circuit.id, band))
+    for band, circuit in zip(bands, study.circuits, strict=True):
+        out.extend(_check_device(study, circuit.id, band, by_circuit[circuit.id], edges))
     return tuple(out)
 
 
@@ -828,7 +889,8 @@ def format_table(results: Sequence[CheckResult] | Iterable[CheckResult]) -> str:
         for i, r in enumerate(mine):
             rows.append([cid if i == 0 else "", r.check, "ok" if r.ok else "! FAIL",
                          _value_text(r.value, r.unit), _value_text(r.limit, r.unit), r.reason])
-        absent = [c for c in CHECK_NAMES if c not in {r.check for r in mine}]
+        present = {r.check for r in mine}
+        absent = [c for c in CHECK_NAMES if c not in present]
         if absent:
             missing.append(f"{cid} ({', '.join(absent)})")
     body = table(["circuit", "check", "result", "value", "limit", "why / what to do"], rows,

@@ -67,8 +67,8 @@ EQUAL_RTOL = 1e-9
 _BREAK_EPS = 1e-7
 #: Tolerance factors around an upstream current setting whose neighbourhood is sampled densely.
 _SETTING_FACTORS = (0.8, 0.85, 0.9, 0.95, 1.0, 1.05, 1.1, 1.2)
+#: Tolerance of the limit search in log10 of the current (about 2.3e-13 relative in amperes).
 _XTOL = 1e-13
-_RETURN_LOW = True
 #: Log10 stand-in for an infinite time (never operates) when root-finding.
 _LOG_NEVER = 30.0
 
@@ -263,8 +263,9 @@ def _refine(down: Band, up: Band, a: float, b: float, margin: float, interval_s:
             lu = np.where(finite_u, np.log10(np.maximum(tu, 1e-30)), _LOG_NEVER)
         return np.where(finite_d | finite_u, ld - lu, -1.0)  # both never: selective
 
-    x_lo, x_hi = find_crossing(gap, math.log10(a), math.log10(b), xtol=_XTOL)
-    return float(10.0 ** float(x_lo if _RETURN_LOW else x_hi))
+    # the final bracket straddles the boundary to _XTOL; its selective end is the limit
+    x_lo, _ = find_crossing(gap, math.log10(a), math.log10(b), xtol=_XTOL)
+    return float(10.0 ** float(x_lo))
 
 
 @lru_cache(maxsize=65536)

@@ -48,6 +48,9 @@ def atomic_path(out: str | os.PathLike) -> Iterator[Path]:
                                dir=target.parent if str(target.parent) else ".")
     os.close(fd)
     tmp_path = Path(tmp)
+    umask = os.umask(0)
+    os.umask(umask)
+    os.chmod(tmp_path, 0o666 & ~umask)  # an ordinary file, not mkstemp's private 0600
     try:
         yield tmp_path
         os.replace(tmp_path, target)

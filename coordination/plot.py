@@ -254,10 +254,9 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
     faults_a = [_finite(getattr(levels.by_circuit.get(cid), "ik_max_a", None)) for cid in chain]
     faults_a += [_finite(getattr(levels.by_circuit.get(cid), "ik3_max_a", None)) for cid in chain]
     faults_a = [f for f in faults_a if f]
-    lows = [b.pickup_min_a for b in bands.values()]
-    if _finite(circuit.load_a):
-        lows.append(float(circuit.load_a))
-    i_min = 10.0 ** math.floor(math.log10(0.7 * min(lows)))
+    lows = [v for v in (*(_finite(b.pickup_min_a) for b in bands.values()),
+                        _finite(circuit.load_a)) if v]
+    i_min = 10.0 ** math.floor(math.log10(0.7 * min(lows))) if lows else 1.0
     top = max(faults_a) if faults_a else 100.0 * max(b.rating_a for b in bands.values())
     i_max = 10.0 ** math.ceil(math.log10(1.3 * top))
 
@@ -410,6 +409,3 @@ def save_figure(fig: Figure, path: str | os.PathLike) -> None:
     with matplotlib.rc_context({"pdf.fonttype": 42, "svg.fonttype": "none"}), \
             atomic_path(path) as tmp:
         fig.savefig(tmp, format=suffix, dpi=150)
-        from coordination.report import ordinary_mode
-
-        ordinary_mode(tmp)

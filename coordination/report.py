@@ -101,7 +101,7 @@ def _num(value: Any) -> float | None:
 
 
 def _ka(value: Any) -> str:
-    """A current in kA for the tables (A below 100 A, so small earth faults stay readable)."""
+    """A current in kA to three significant figures, for the tables; "-" when unknown."""
     v = _num(value)
     if v is None:
         return "-"
@@ -132,7 +132,16 @@ def _wrap(text: str, width: int) -> list[str]:
 
 
 def report_date() -> dt.date:
-    """Today, or the date of ``SOURCE_DATE_EPOCH`` when set (reproducible documents)."""
+    """Today, or the date of ``SOURCE_DATE_EPOCH`` when set (reproducible documents).
+
+    Examples
+    --------
+    >>> import os
+    >>> os.environ["SOURCE_DATE_EPOCH"] = "86400"
+    >>> print(report_date().isoformat())
+    1970-01-02
+    >>> del os.environ["SOURCE_DATE_EPOCH"]
+    """
     epoch = os.environ.get("SOURCE_DATE_EPOCH")
     if epoch and epoch.isdigit():
         return dt.datetime.fromtimestamp(int(epoch), tz=dt.UTC).date()
@@ -255,7 +264,8 @@ def _new_page(study: Study, heading: str | None) -> Figure:
     from matplotlib.figure import Figure
 
     fig = Figure(figsize=PAGE_SIZE_IN)
-    fig.text(LEFT, 0.975, study.title, fontsize=7, color=MUTED, ha="left", va="top")
+    title = study.title if len(study.title) <= 90 else study.title[:89] + "\u2026"
+    fig.text(LEFT, 0.975, title, fontsize=7, color=MUTED, ha="left", va="top")
     fig.text(RIGHT, 0.975, "selectivity report", fontsize=7, color=MUTED, ha="right",
              va="top")
     if heading:
@@ -284,33 +294,108 @@ def _worst_key(analysis: Any, circuit_id: str, rating: float) -> tuple:
     return (VERDICT_RANK[worst.verdict], _num(worst.limit_a) or math.inf, -rating)
 
 
-def plot_plan(study: Study, analysis: Any) -> list[tuple[str, str, str]]:
-    """The plots the report carries: ``(kind, circuit id, caption heading)``.
+@dataclass(frozen=True)
+class PlannedPlot:
+    """One plot page of the report.
+
+    Attributes
+    ----------
+    kind : str
+        ``"board"`` (a board's representative circuit) or ``"pair"`` (a circuit with a
+        non-selective pair above it).
+    circuit : str
+        The circuit drawn, with every device above it.
+    heading : str
+        The page heading.
+    also : tuple of str
+        Circuits of the same board with the same device and the same selectivity results: the
+        plot stands for them too (their cables and loads differ).
+    """
+
+    kind: str
+    circuit: str
+    heading: str
+    also: tuple[str, ...] = ()
+
+
+def _signature(study: Study, analysis: Any, circuit_id: str) -> tuple:
+    """Circuits with equal signatures have the same plot but for their cables and loads."""
+    from coordination.devices import band_for
+
+    pairs = tuple((p.upstream, p.verdict, p.limit_a, tuple(p.window_a), p.decided_by)
+                  for p in analysis.for_circuit(circuit_id))
+    return (study.by_id[circuit_id].parent, band_for(study, circuit_id, analysis.basis).key,
+            pairs)
+
+
+#: At most this many plots of non-selective pairs (the worst first); the notes name the rest.
+MAX_PAIR_PLOTS = 60
+
+
+def _severity(analysis: Any, circuit_id: str) -> tuple[int, float]:
+    """Worst verdict first, then the smallest fraction of the window that is selective."""
+    worst = (3, math.inf)
+    for p in analysis.for_circuit(circuit_id):
+        if p.verdict == "total":
+            continue
+        top = _num(p.window_a[1]) or 1.0
+        worst = min(worst, (VERDICT_RANK[p.verdict], (_num(p.limit_a) or 0.0) / top))
+    return worst
+
+
+def plot_plan(study: Study, analysis: Any, *,
+              max_pair_plots: int = MAX_PAIR_PLOTS) -> list[PlannedPlot]:
+    """The plots the report carries.
 
     One per board that has an incoming device (its outgoing circuit with the least selectivity,
     which draws the whole chain above it), then one per circuit that has a non-selective pair
-    above it and was not already drawn.
+    above it, except that circuits of one board with the same device and the same results share
+    one plot (listed in ``also``), so a large study does not print a page per final circuit.
+    Of those, at most ``max_pair_plots``, the worst first (kept in study order);
+    :func:`not_drawn` names the rest.
     """
     from coordination.devices import band_for
 
-    plan: list[tuple[str, str, str]] = []
-    drawn: set[str] = set()
+    plan: list[PlannedPlot] = []
+    covered: dict[tuple, list[str]] = {}  # signature -> [drawn circuit, others...]
     for board_circuit in _boards(study):
         outgoing = study.children[board_circuit]
         pick = min(outgoing, key=lambda cid: _worst_key(
             analysis, cid, band_for(study, cid, analysis.basis).rating_a))
         name = study.by_id[board_circuit].board or board_circuit
-        plan.append(("board", pick, f"Board {name}"))
-        drawn.add(pick)
+        plan.append(PlannedPlot("board", pick, f"Board {name}"))
+        covered.setdefault(_signature(study, analysis, pick), [pick])
     above: dict[str, list[str]] = {}
     for p in analysis.pairs:
         if p.verdict != "total":
             above.setdefault(p.downstream, []).append(p.upstream)
     for downstream, upstreams in above.items():
-        if downstream not in drawn:
-            plan.append(("pair", downstream,
-                         f"Not selective: {downstream} under {', '.join(upstreams)}"))
-    return plan
+        sig = _signature(study, analysis, downstream)
+        if sig in covered:
+            if downstream not in covered[sig]:
+                covered[sig].append(downstream)
+            continue
+        covered[sig] = [downstream]
+        plan.append(PlannedPlot("pair", downstream,
+                                f"Not selective: {downstream} under {', '.join(upstreams)}"))
+    pair_plots = [e for e in plan if e.kind == "pair"]
+    if len(pair_plots) > max_pair_plots:
+        keep = {e.circuit for e in sorted(pair_plots, key=lambda e: _severity(
+            analysis, e.circuit))[:max_pair_plots]}
+        plan = [e for e in plan if e.kind == "board" or e.circuit in keep]
+    by_drawn = {members[0]: tuple(members[1:]) for members in covered.values()}
+    return [PlannedPlot(e.kind, e.circuit, e.heading, by_drawn.get(e.circuit, ()))
+            for e in plan]
+
+
+def not_drawn(analysis: Any, plan: Sequence[PlannedPlot]) -> list[str]:
+    """Circuits with a non-selective pair above them that no plot of the plan stands for."""
+    covered = {e.circuit for e in plan} | {c for e in plan for c in e.also}
+    out: list[str] = []
+    for p in analysis.pairs:
+        if p.verdict != "total" and p.downstream not in covered and p.downstream not in out:
+            out.append(p.downstream)
+    return out
 
 
 #: How the register shows a band's settings: a label and the unit to show the value in
@@ -329,6 +414,13 @@ def register_settings(settings: Any, capacity_a: float | None = None) -> str:
 
     ``capacity_a``: a breaking capacity the study gives for the circuit, which replaces the
     device's own.
+
+    Examples
+    --------
+    >>> print(register_settings({"type": "B", "In_a": 32, "energy_class": 3, "icn_a": 6000}))
+    class 3, Icn 6 kA
+    >>> print(register_settings({"In_a": 250, "Ir_a": 200, "Ii_a": 2500}, capacity_a=36000))
+    Ir 200 A, Ii 2500 A, breaks 36 kA (study)
     """
     parts = []
     capacity_shown = False
@@ -393,31 +485,57 @@ def _fault_table(study: Study, levels: Any) -> TableSpec:
                      wrap=(1,), fit=(0,))
 
 
+BASIS_SHORT = {"typical": "typ", "envelope": "env", "datasheet": "data"}
+
+
 def _pair_table(analysis: Any) -> TableSpec:
     rows, flags = [], []
     for p in analysis.pairs:
+        bases = "/".join(BASIS_SHORT.get(b, b) for b in (p.downstream_basis, p.upstream_basis))
         rows.append((
-            f"{p.downstream} ({p.downstream_device})", f"{p.upstream} ({p.upstream_device})",
+            p.downstream, p.upstream, f"{p.downstream_device} / {p.upstream_device}",
             p.verdict, "-" if p.verdict == "total" else _ka(p.limit_a),
-            f"{_ka(p.window_a[0])}-{_ka(p.window_a[1])}", p.decided_by,
-            f"{p.downstream_basis}/{p.upstream_basis}",
+            f"{_ka(p.window_a[0])}-{_ka(p.window_a[1])}", p.decided_by, bases,
             "total" if p.required_a is None else _ka(p.required_a), "yes" if p.ok else "NO"))
         flags.append(not p.ok)
-    return TableSpec(("downstream", "upstream", "verdict", "Is kA", "window kA", "decided by",
-                      "bases d/u", "need kA", "met"),
-                     (1.0, 1.0, 0.0, 0.0, 0.3, 0.2, 0.3, 0.0, 0.0), tuple(rows), "lllrllllr",
-                     wrap=(0, 1), fit=(2, 4, 5, 6), flags=tuple(flags))
+    return TableSpec(("downstream", "upstream", "devices", "verdict", "Is kA", "window kA",
+                      "decided by", "bases", "need kA", "met"),
+                     (0.0, 0.0, 1.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0), tuple(rows),
+                     "llllrlllrr", fit=(0, 1, 3, 4, 5, 6, 7, 8), flags=tuple(flags))
 
 
-def _check_table(results: Sequence[Any]) -> TableSpec:
-    rows, flags = [], []
+CHECK_COLUMNS = (("disconnection", "disconnection"), ("overload", "overload"),
+                 ("fault-energy", "fault energy"), ("breaking-capacity", "breaking capacity"))
+
+
+def _check_cell(result: Any) -> str:
+    """``ok 100 ms / 400 ms``: the verdict, the value and the limit it must not exceed."""
+    word = "ok" if result.ok else "FAIL"
+    return f"{word} {_value(result.value, result.unit)} / {_value(result.limit, result.unit)}"
+
+
+def _check_matrix(study: Study, results: Sequence[Any]) -> TableSpec:
+    """One row per circuit, one column per check (``-``: not run, for want of data)."""
+    by_circuit: dict[str, dict[str, Any]] = {}
     for r in results:
-        rows.append((r.circuit, r.check, "pass" if r.ok else "FAIL", _value(r.value, r.unit),
-                     _value(r.limit, r.unit), r.reason))
-        flags.append(not r.ok)
-    return TableSpec(("circuit", "check", "result", "value", "limit", "reason"),
-                     (0.0, 0.0, 0.0, 0.0, 0.0, 1.0), tuple(rows), "lllrrl", wrap=(5,),
-                     fit=(0, 1, 2, 3, 4), flags=tuple(flags))
+        by_circuit.setdefault(r.circuit, {})[r.check] = r
+    rows, flags = [], []
+    for c in study.circuits:
+        mine = by_circuit.get(c.id, {})
+        rows.append((c.id, *(_check_cell(mine[k]) if k in mine else "-"
+                             for k, _ in CHECK_COLUMNS)))
+        flags.append(any(not r.ok for r in mine.values()))
+    return TableSpec(("circuit", *(title for _, title in CHECK_COLUMNS)),
+                     (0.0, 1.0, 1.0, 1.0, 1.0), tuple(rows), "lllll", wrap=(1, 2, 3, 4),
+                     fit=(0,), flags=tuple(flags))
+
+
+def _check_failures(results: Sequence[Any]) -> TableSpec:
+    rows = [(r.circuit, r.check, _value(r.value, r.unit), _value(r.limit, r.unit), r.reason)
+            for r in results if not r.ok]
+    return TableSpec(("circuit", "check", "value", "limit", "what to do"),
+                     (0.0, 0.0, 0.0, 0.0, 1.0), tuple(rows), "llrrl", wrap=(4,),
+                     fit=(0, 1, 2, 3), flags=(True,) * len(rows))
 
 
 def _supply_lines(study: Study, levels: Any) -> list[str]:
@@ -469,9 +587,10 @@ NOTES = (
         "loop impedance Ze or the transformer (rating, uk, X/R); conductor resistance from "
         "IEC 60228 at 20 degC for maximum currents and at operating temperature for minimum "
         "ones; reactance per metre from common practice unless the study gives it; voltage "
-        "factors cmax and cmin as stated on the cover. Motor contribution, arc resistance, "
-        "busbar and switchgear impedance are neglected: maxima are slightly high and minima "
-        "slightly low, which is the safe side for both.")),
+        "factors cmax and cmin as stated on the cover. Arc resistance, busbar and switchgear "
+        "impedance are neglected, which puts maxima slightly high and minima slightly low (the "
+        "safe side for both); the contribution of running motors to the maximum currents is "
+        "neglected too, so where large motors run the maxima may be slightly low.")),
     ("Bands and bases", (
         "Each device is a band between its earliest operating time (lower edge) and its latest "
         "clearing time (upper edge). On the typical basis the band sits in the middle of the "
@@ -514,8 +633,10 @@ def _cover(study: Study, levels: Any, analysis: Any, results: Sequence[Any],
         fig.text(LEFT, y, "Selectivity report", fontsize=24, fontweight="bold", color=INK,
                  va="top")
         y -= 0.05
-        fig.text(LEFT, y, study.title, fontsize=15, color=INK, va="top")
-        y -= 0.035
+        for line in _wrap(study.title, 64) or [""]:
+            fig.text(LEFT, y, line, fontsize=15, color=INK, va="top")
+            y -= 0.025
+        y -= 0.01
         source = f"   study file: {Path(study.source).name}" if study.source else ""
         fig.text(LEFT, y, f"Date {report_date().isoformat()}   tool: coordination "
                  f"{__version__}{source}", fontsize=9, color=MUTED, va="top")
@@ -586,8 +707,10 @@ def _table_pages(study: Study, heading: str, intro: Sequence[str],
     return builders
 
 
-def _plot_page(study: Study, levels: Any, analysis: Any, kind: str, circuit_id: str,
-               heading: str, basis: str | None) -> PageBuilder:
+def _plot_page(study: Study, levels: Any, analysis: Any, entry: PlannedPlot,
+               basis: str | None) -> PageBuilder:
+    kind, circuit_id, heading = entry.kind, entry.circuit, entry.heading
+
     def build(number: int, total: int) -> Figure:
         from coordination.plot import pairs_in_chain, plot_circuit
 
@@ -606,6 +729,9 @@ def _plot_page(study: Study, levels: Any, analysis: Any, kind: str, circuit_id: 
         else:
             text = (f"Drawn: circuit {circuit_id} with every device above it; the hatched "
                     "zones are where both devices of a pair may operate.")
+        if entry.also:
+            text += (f" The same device on the same board, with the same results, also "
+                     f"protects: {', '.join(entry.also)}.")
         for line in _wrap(text, 125):
             fig.text(LEFT, y, line, fontsize=7.5, color=INK, va="top")
             y -= 0.013
@@ -628,15 +754,23 @@ def _plot_page(study: Study, levels: Any, analysis: Any, kind: str, circuit_id: 
     return build
 
 
-def _notes_page(study: Study, levels: Any) -> PageBuilder:
+def _notes_page(study: Study, levels: Any, omitted: Sequence[str] = ()) -> PageBuilder:
     def build(number: int, total: int) -> Figure:
         fig = _new_page(study, "Notes and limitations")
         y = TOP - 0.01
         convention = getattr(levels, "convention", "")
-        for title, text in (*NOTES, ("Fault convention of this study", convention or "-")):
+        notes = [*NOTES, ("Fault convention of this study", convention or "-")]
+        if omitted:
+            shown = ", ".join(omitted[:40]) + (f" and {len(omitted) - 40} more"
+                                               if len(omitted) > 40 else "")
+            notes.append(("Plots left out", (
+                f"{len(omitted)} circuits with a non-selective pair above them are not drawn "
+                f"(the report draws the {MAX_PAIR_PLOTS} worst); draw any of them with "
+                f"'coordination plot STUDY --circuit ID': {shown}.")))
+        for title, text in notes:
             fig.text(LEFT, y, title, fontsize=10, fontweight="bold", color=INK, va="top")
             y -= 0.019
-            for line in _wrap(str(text), 118):
+            for line in _wrap(str(text), 108):
                 fig.text(LEFT, y, line, fontsize=8.2, color=INK, va="top")
                 y -= 0.0145
             y -= 0.012
@@ -688,14 +822,6 @@ def _node_record(node: Any) -> dict[str, Any]:
     if is_dataclass(node):
         return {f.name: getattr(node, f.name) for f in fields(node)}
     return dict(vars(node))
-
-
-def ordinary_mode(path: Path) -> None:
-    """Give a finished temporary file the permissions a new file would have (umask applied);
-    temporary files are created private."""
-    umask = os.umask(0)
-    os.umask(umask)
-    os.chmod(path, 0o666 & ~umask)
 
 
 def _write_csv(path: Path, records: Sequence[dict[str, Any]]) -> None:
@@ -753,17 +879,28 @@ def build_pages(study: Study, basis: str | None = None) -> tuple[list[PageBuilde
         "Each circuit under each device above it. Verdict 'total': selective up to the maximum "
         "fault at its board; 'partial': selective up to Is; 'none': the bands meet in overload. "
         "Decided by the time-current edges, by energy (below 10 ms, I2t) or by a tested limit. "
-        "Bases: typical, envelope or datasheet, downstream/upstream. Rows that miss their "
-        "required selectivity are marked NO.",
+        "Devices and bases downstream/upstream (typ: typical, env: envelope, data: datasheet; "
+        "full device settings in the register). Need: the selectivity the study requires "
+        "('total' unless it gives selective_to_a). Rows that miss it are marked NO.",
     ], _pair_table(analysis))
     pages += _table_pages(study, "Protection checks", [
-        "Disconnection time (IEC 60364-4-41 Table 41.1), overload (IEC 60364-4-43, 433), fault "
-        "energy (IEC 60364-4-43, 434.5.2: k^2 S^2 against the let-through I2t) and breaking "
-        "capacity, on the envelope basis. Failures are marked FAIL.",
-    ], _check_table(results))
-    for kind, cid, heading in plot_plan(study, analysis):
-        pages.append(_plot_page(study, levels, analysis, kind, cid, heading, basis))
-    pages.append(_notes_page(study, levels))
+        "Disconnection time (IEC 60364-4-41 Table 41.1), overload (IEC 60364-4-43, 433: the "
+        "device's conventional tripping current I2 against 1.45 Iz), fault energy "
+        "(IEC 60364-4-43, 434.5.2: the conductor section needed for the let-through I2t against "
+        "the section installed) and breaking capacity against the maximum fault at the board, on "
+        "the envelope basis. Each cell: the result, the value and the limit it must not exceed; "
+        "'-' where the study lacks the data. Failures are set in red and detailed after the "
+        "table; the reason for every check is in the CSV output (--csv).",
+    ], _check_matrix(study, results))
+    failures = _check_failures(results)
+    if failures.rows:
+        pages += _table_pages(study, "Failed protection checks", [
+            "Each failed check with what it needs and what to do.",
+        ], failures)
+    plan = plot_plan(study, analysis)
+    for entry in plan:
+        pages.append(_plot_page(study, levels, analysis, entry, basis))
+    pages.append(_notes_page(study, levels, not_drawn(analysis, plan)))
 
     return pages, ok, levels, analysis, results
 
@@ -832,7 +969,6 @@ def write_report(study: Study, path: str | os.PathLike, *, csv: bool = False,
                                         key="--csv")
                 tmp = stack.enter_context(atomic_path(out))
                 _write_csv(tmp, records)
-                ordinary_mode(tmp)
                 extra.append(out)
         metadata = {"Title": f"Selectivity report: {study.title}",
                     "Creator": f"coordination {__version__}", "Subject": CAUTION}
@@ -843,7 +979,6 @@ def write_report(study: Study, path: str | os.PathLike, *, csv: bool = False,
                 fig = build(number, total)
                 pdf.savefig(fig)
                 _progress(progress, number, total)
-        ordinary_mode(pdf_tmp)
     return ReportSummary(ok=ok, pages=total, extra_files=tuple(extra), path=target)
 
 
@@ -853,6 +988,17 @@ def bundled_example(name: str = DEMO_EXAMPLE) -> tuple[str, str]:
 
     Installed, the examples are the package data ``coordination.examples``; in a source
     checkout (an editable install) they are the repository's ``examples/`` folder.
+
+    Raises
+    ------
+    InputError
+        When the installation lacks the example.
+
+    Examples
+    --------
+    >>> text, where = bundled_example("small-shop.toml")
+    >>> print(where.endswith("small-shop.toml"), "[[circuit]]" in text)
+    True True
     """
     try:
         from importlib.resources import files
@@ -882,6 +1028,16 @@ def run_demo(output_dir: str | os.PathLike) -> int:
     int
         0 when the demo ran (the example has non-selective pairs on purpose, so the checks'
         own exit code would be 1).
+
+    Raises
+    ------
+    InputError
+        When ``output_dir`` is a file.
+
+    Examples
+    --------
+    >>> run_demo("coordination-demo")  # doctest: +SKIP
+    0
     """
     from coordination import checks, engine, faults, study
 
@@ -912,5 +1068,5 @@ def run_demo(output_dir: str | os.PathLike) -> int:
     return 0
 
 
-__all__ = ["STANDARDS", "ReportSummary", "bundled_example", "plot_plan", "run_demo",
-           "write_report"]
+__all__ = ["STANDARDS", "PlannedPlot", "ReportSummary", "bundled_example", "not_drawn",
+           "plot_plan", "run_demo", "write_report"]

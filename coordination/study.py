@@ -113,16 +113,19 @@ class _Table:
                 raise self.error(key, f"missing key {key!r}; give a number [{unit}]")
             return default
         value = self.data[key]
-        low = f"more than {_g(lo)}" if lo_open else f"at least {_g(lo)}"
-        allowed = f"allowed: {low} and at most {_g(hi)} {unit}".rstrip()
+
+        def allowed() -> str:  # the message is built only for an error
+            low = f"more than {_g(lo)}" if lo_open else f"at least {_g(lo)}"
+            return f"allowed: {low} and at most {_g(hi)} {unit}".rstrip()
+
         if isinstance(value, bool) or not isinstance(value, int | float):
             raise self.error(key, f"{key} must be a number [{unit}], not {_describe(value)}; "
-                                  f"{allowed}")
+                                  f"{allowed()}")
         value = float(value)
         if not math.isfinite(value):
-            raise self.error(key, f"{key} = {_g(value)} is not a finite number; {allowed}")
+            raise self.error(key, f"{key} = {_g(value)} is not a finite number; {allowed()}")
         if value < lo or (lo_open and value == lo) or value > hi:
-            raise self.error(key, f"{key} = {_g(value)} is out of range; {allowed}")
+            raise self.error(key, f"{key} = {_g(value)} is out of range; {allowed()}")
         return value
 
     def integer(self, key: str, *, choices: Sequence[int] | None = None, lo: int = 1,
@@ -264,7 +267,29 @@ def _size(t: _Table, key: str, material: str, *, zero_ok: bool = False) -> float
     return value
 
 
+#: Cables already validated, by their table's items: a building repeats a few cable types
+#: thousands of times, and a valid table always gives the same (frozen) Cable.
+_CABLES: dict[tuple, Cable] = {}
+_CABLES_MAX = 4096
+
+
 def _cable(data: Any, circuit: str) -> Cable:
+    try:
+        # with each value's type: 1, 1.0 and true are equal keys but not equally valid
+        key = (tuple(sorted((k, type(v), v) for k, v in data.items()))
+               if isinstance(data, dict) else None)
+        cached = _CABLES.get(key) if key is not None else None
+    except TypeError:  # an unhashable or unorderable value: validate it the long way
+        key = cached = None
+    if cached is not None:
+        return cached
+    cable = _validated_cable(data, circuit)
+    if key is not None and len(_CABLES) < _CABLES_MAX:
+        _CABLES[key] = cable
+    return cable
+
+
+def _validated_cable(data: Any, circuit: str) -> Cable:
     t = _Table(data, CABLE_KEYS, circuit=circuit, prefix="cable.", name="[circuit.cable]")
     material = t.choice("material", cables.MATERIALS, default="copper",
                         aliases=cables.MATERIAL_ALIASES)

@@ -50,11 +50,15 @@ def peak_rss_mb(cmd: list[str]) -> float:
 
 
 def in_process(path: Path) -> dict[str, float]:
-    """Stage times inside one process [s]."""
+    """Stage times inside one process [s]: the stages of ``check``, its tables and its JSON."""
     from coordination import checks, engine, faults, study
+    from coordination.cli import to_json
     from coordination.devices import _band
 
     _band.cache_clear()
+    engine._compare.cache_clear()
+    engine._first_crossing.cache_clear()
+    checks._operating_current_a.cache_clear()
     t0 = time.perf_counter()
     s = study.load(path)
     t1 = time.perf_counter()
@@ -62,10 +66,15 @@ def in_process(path: Path) -> dict[str, float]:
     t2 = time.perf_counter()
     analysis = engine.analyse(s, levels)
     t3 = time.perf_counter()
-    checks.run(s, levels)
+    results = checks.run(s, levels)
     t4 = time.perf_counter()
+    engine.format_table(s, levels, analysis)
+    checks.format_table(results)
+    t5 = time.perf_counter()
+    to_json({**analysis.to_json(), "checks": [r.to_json() for r in results]})
+    t6 = time.perf_counter()
     return {"load": t1 - t0, "faults": t2 - t1, "engine": t3 - t2, "checks": t4 - t3,
-            "pairs": len(analysis.pairs)}
+            "tables": t5 - t4, "json": t6 - t5, "pairs": len(analysis.pairs)}
 
 
 def main() -> None:
@@ -114,7 +123,8 @@ def main() -> None:
         peak = peak_rss_mb([*exe, "check", str(full), "--json"])
         print(f"peak memory, check full: {peak:.0f} MB")
 
-        print("\nin process (first run, cold caches):")
+        print("\nin process (first run, cold caches; tables: both text tables of check; json: the "
+          "JSON of check --json):")
         for label, path in (("quarter", quarter), ("full", full)):
             stages = in_process(path)
             print(f"  {label:8} " + "  ".join(

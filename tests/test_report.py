@@ -19,6 +19,7 @@ from coordination.cli import app
 from coordination.report import (
     DEMO_REPORT_NAME,
     STANDARDS,
+    not_drawn,
     plot_plan,
     run_demo,
     write_report,
@@ -134,13 +135,36 @@ def test_plots_cover_every_board_and_every_non_selective_pair():
     s = study.load(EXAMPLES / "office-building.toml")
     analysis = engine.analyse(s, faults.compute(s))
     plan = plot_plan(s, analysis)
-    plotted = {cid for _, cid, _ in plan}
+    drawn = [e.circuit for e in plan]
+    covered = set(drawn) | {c for e in plan for c in e.also}
     boards = [c.id for c in s.circuits if s.children.get(c.id)]
-    assert len([k for k, _, _ in plan if k == "board"]) == len(boards)
+    assert len([e for e in plan if e.kind == "board"]) == len(boards)
     for p in analysis.pairs:
         if p.verdict != "total":
-            assert p.downstream in plotted, p
-    assert len(plotted) == len(plan)  # no circuit drawn twice
+            assert p.downstream in covered, p
+    assert len(set(drawn)) == len(drawn)  # no circuit drawn twice
+    by_downstream = {}
+    for p in analysis.pairs:
+        by_downstream.setdefault(p.downstream, []).append(
+            (p.upstream, p.verdict, p.limit_a, tuple(p.window_a)))
+    for e in plan:
+        for other in e.also:
+            # a shared plot stands only for circuits on the same board with the same device and
+            # the same results
+            assert s.by_id[other].parent == s.by_id[e.circuit].parent
+            assert s.by_id[other].device == s.by_id[e.circuit].device
+            assert by_downstream[other] == by_downstream[e.circuit]
+
+
+def test_pair_plots_are_capped_and_the_rest_named():
+    s = study.load(EXAMPLES / "office-building.toml")
+    analysis = engine.analyse(s, faults.compute(s))
+    plan = plot_plan(s, analysis, max_pair_plots=2)
+    assert len([e for e in plan if e.kind == "pair"]) == 2
+    left_out = not_drawn(analysis, plan)
+    assert left_out
+    covered = {e.circuit for e in plan} | {c for e in plan for c in e.also} | set(left_out)
+    assert covered >= {p.downstream for p in analysis.pairs if p.verdict != "total"}
 
 
 def test_failure_while_writing_leaves_the_earlier_report(tmp_path, monkeypatch):

@@ -21,7 +21,7 @@ from typer.testing import CliRunner
 from coordination.cli import app
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
-from generate import chain, to_toml, wide  # noqa: E402
+from generate import chain, to_toml, wide
 
 runner = CliRunner()
 
@@ -218,7 +218,10 @@ def _invoke_quietly(tmp_path: Path, doc: dict, command: list[str]):
     return run(command[0], path, *command[1:])
 
 
-@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+FIXTURE_OK = [HealthCheck.function_scoped_fixture]
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=FIXTURE_OK)
 @given(doc=broken_documents(), command=st.sampled_from(
     [["faults"], ["check"], ["faults", "--json"], ["check", "--json"],
      ["choose", "--circuit", "sockets"], ["choose", "--circuit", "incomer"]]))
@@ -233,7 +236,7 @@ def test_fuzz_text_commands_raise_only_input_errors(tmp_path, doc, command):
         assert result.stderr.strip().count("\n") == 0
 
 
-@settings(max_examples=8, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@settings(max_examples=8, deadline=None, suppress_health_check=FIXTURE_OK)
 @given(doc=broken_documents(), command=st.sampled_from(["plot", "report"]))
 def test_fuzz_output_commands_raise_only_input_errors(tmp_path, doc, command):
     out = tmp_path / ("fuzz.png" if command == "plot" else "fuzz.pdf")
@@ -256,7 +259,7 @@ def _pairs_json(path: Path) -> list[dict]:
     return json.loads(result.stdout)["pairs"]
 
 
-@settings(max_examples=10, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@settings(max_examples=10, deadline=None, suppress_health_check=FIXTURE_OK)
 @given(order=st.permutations(range(len(BASE["circuit"]))))
 def test_verdicts_stable_when_circuits_are_reordered(tmp_path, order):
     reordered = copy.deepcopy(BASE)
