@@ -85,7 +85,10 @@ def to_json(value: Any) -> str:
             return clean(v.item())
         return v
 
-    return json.dumps(clean(value), allow_nan=False)
+    try:  # most payloads are already clean: let the C encoder check them
+        return json.dumps(value, allow_nan=False)
+    except (ValueError, TypeError):
+        return json.dumps(clean(value), allow_nan=False)
 
 
 def load_study(path: Path):

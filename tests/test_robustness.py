@@ -301,3 +301,12 @@ def test_wide_board_of_5000_checks(tmp_path):
     result = run("check", write(tmp_path, wide(5000)), "--json")
     assert result.exit_code in (0, 1), result.output
     assert len(json.loads(result.stdout)["pairs"]) == 5000
+
+
+def test_deep_chain_checks_every_ancestor_pair(tmp_path):
+    # every ancestor is paired (DESIGN.md), so a chain of n circuits has n (n - 1) / 2 pairs:
+    # the engine's cost grows with the pairs, not with recursion depth
+    depth = 300
+    result = run("check", write(tmp_path, chain(depth)), "--json")
+    assert result.exit_code in (0, 1), result.output
+    assert len(json.loads(result.stdout)["pairs"]) == depth * (depth - 1) // 2
