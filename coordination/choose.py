@@ -347,8 +347,11 @@ def electronic_parts(current_a: np.ndarray, grid: SettingsGrid, basis: str) -> t
         tuple[np.ndarray, np.ndarray, np.ndarray], tuple[np.ndarray, np.ndarray, np.ndarray]]:
     """The elements of every setting of a grid, apart: long-time, short-time, instantaneous.
 
-    The same model as ``curves.breaker.electronic_band`` (definite-time short-time delay): each
-    element depends on only some of the settings, so it is evaluated once per value of those.
+    The model of ``curves.breaker.electronic_band`` itself (its
+    :func:`curves.breaker.electronic_elements`, broadcast over the grid's axes): each element
+    depends on only some of the settings, so it is evaluated once per value of those. The
+    long-time part depends on Isd as well as tr, since the long-time law gives way to the
+    short-time delay above the short-time pickup.
 
     Parameters
     ----------
@@ -361,7 +364,7 @@ def electronic_parts(current_a: np.ndarray, grid: SettingsGrid, basis: str) -> t
     Returns
     -------
     lower, upper : tuple of ndarray
-        Each ``(long_time, short_time, instantaneous)`` of shapes ``(n_tr, n)``,
+        Each ``(long_time, short_time, instantaneous)`` of shapes ``(n_isd, n_tr, n)``,
         ``(n_isd, n_tsd, n)`` and ``(n_ii, n)`` [s]; ``inf`` where the element does not act.
         A setting's edge is the element-wise minimum of its three parts.
 
@@ -375,39 +378,38 @@ def electronic_parts(current_a: np.ndarray, grid: SettingsGrid, basis: str) -> t
     ...                  np.array([8.0]), np.array([10.0, np.nan]), {})
     >>> lower, upper = electronic_parts(np.array([500.0, 5000.0]), g, "typical")
     >>> print([part.shape for part in lower])
-    [(1, 2), (2, 2, 2), (2, 2)]
+    [(2, 1, 2), (2, 2, 2), (2, 2)]
     """
     from curves import breaker as b
 
     i = np.asarray(current_a, dtype=float)
-    ir = grid.ir_a
-    x = i / ir
-    t_conv = b.conventional_time_s(grid.rating_a)
-    x_lo, x_hi = b.tolerance(*b.CONVENTIONAL_X, basis)
-    lt_lo, lt_hi = b.tolerance(1 - b.LONG_TIME_TOLERANCE[0], 1 + b.LONG_TIME_TOLERANCE[1], basis)
-    p_lo, p_hi = b.tolerance(1 - b.ELECTRONIC_PICKUP_TOLERANCE,
-                             1 + b.ELECTRONIC_PICKUP_TOLERANCE, basis)
-    d_lo, d_hi = b.tolerance(-b.SHORT_TIME_TOLERANCE_S[0], b.SHORT_TIME_TOLERANCE_S[1], basis)
-    clear = b.BREAKER_CLEARING_S
-    tr = grid.tr_s[:, None]
-    with np.errstate(divide="ignore"):
-        lt_min = np.where(x > x_lo, b.i2t_time(x, tr * lt_lo, b.TR_AT_X), np.inf)  # (tr, n)
-        lt_max = np.where(x >= x_hi,
-                          np.minimum(t_conv, b.i2t_time(x, tr * lt_hi, b.TR_AT_X) + clear),
-                          np.inf)
-    isd_a = (grid.isd_x * ir)[:, None, None]  # (isd, 1, 1)
-    tsd = grid.tsd_s[None, :, None]  # (1, tsd, 1)
-    st_min = np.where(i >= p_lo * isd_a, tsd + d_lo, np.inf)  # (isd, tsd, n)
-    st_max = np.where(i >= p_hi * isd_a, tsd + d_hi + clear, np.inf)
-    ii_a = np.where(np.isnan(grid.ii_x), np.inf, grid.ii_x * grid.rating_a)[:, None]  # (ii, 1)
-    in_min = np.where(i >= p_lo * ii_a, TIME_FLOOR_S, np.inf)  # (ii, n)
-    in_max = np.where(i >= p_hi * ii_a, clear, np.inf)
-    return (lt_min, st_min, in_min), (lt_max, st_max, in_max)
+    settings = {
+        "rating_a": grid.rating_a,
+        "ir_a": grid.ir_a,
+        "tr_s": grid.tr_s[None, :, None],  # (1, tr, 1)
+        "isd_a": (grid.isd_x * grid.ir_a)[:, None, None],  # (isd, 1, 1)
+        "tsd_s": grid.tsd_s[None, :, None],  # (1, tsd, 1)
+        "ii_a": np.where(np.isnan(grid.ii_x), np.inf, grid.ii_x * grid.rating_a)[:, None],
+        "sd_i2t": bool(grid.extra.get("sd_i2t", False)),
+        "basis": basis,
+    }
+    lower = b.electronic_elements(i, "lower", **settings)
+    upper = b.electronic_elements(i, "upper", **settings)
+    n = i.shape[-1]
+    n_isd, n_tsd, n_tr, n_ii = grid.shape
+    shapes = ((n_isd, n_tr, n), (n_isd, n_tsd, n), (n_ii, n))
+
+    def full(parts: tuple[np.ndarray, ...]) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        lt, st, inst = (np.broadcast_to(part, shape) for part, shape in
+                        zip(parts, shapes, strict=True))
+        return lt, st, inst
+
+    return full(lower), full(upper)
 
 
 def _combine(parts: tuple[np.ndarray, np.ndarray, np.ndarray]) -> np.ndarray:
     lt, st, inst = parts
-    return np.minimum(np.minimum(lt[None, None, :, None, :], st[:, :, None, None, :]),
+    return np.minimum(np.minimum(lt[:, None, :, None, :], st[:, :, None, None, :]),
                       inst[None, None, None, :, :])
 
 
@@ -873,7 +875,7 @@ def screen_grid(problem: _Problem, grid: SettingsGrid) -> np.ndarray:
             need = problem.need[1] * (1 - 1e-6)
             lt, st, inst = (np.all(np.minimum(part, TIME_CEILING_S) >= need, axis=-1)
                             for part in lower)
-            ok &= st[:, :, None, None] & lt[None, None, :, None] & inst[None, None, None, :]
+            ok &= st[:, :, None, None] & lt[:, None, :, None] & inst[None, None, None, :]
         if problem.above:
             pickup = b.tolerance(*b.CONVENTIONAL_X, problem.basis)[0] * grid.ir_a
             for k, p in enumerate(problem.above):
@@ -884,7 +886,7 @@ def screen_grid(problem: _Problem, grid: SettingsGrid) -> np.ndarray:
                 adjustable = bool(problem.above_adjustable[k])
                 lt, st, inst = (_need_of(part[..., inside], p.margin, p.interval_s, adjustable)
                                 <= t_up for part in upper)
-                clear = (st[:, :, None, None, :] | lt[None, None, :, None, :]
+                clear = (st[:, :, None, None, :] | lt[:, None, :, None, :]
                          | inst[None, None, None, :, :])
                 ok &= clear.all(axis=-1)
     study = problem.study
@@ -895,7 +897,7 @@ def screen_grid(problem: _Problem, grid: SettingsGrid) -> np.ndarray:
     in_scope = study.is_final(problem.circuit_id) and grid.ir_a <= checks.FINAL_CIRCUIT_SCOPE_A
     limit = checks.disconnection_time_s(study.supply.u0_v, study.supply.earthing, in_scope)
     lt, st, inst = electronic_parts(np.array([ief]), grid, "envelope")[1]
-    t_env = np.minimum(np.minimum(lt[None, None, :, None, 0], st[:, :, None, None, 0]),
+    t_env = np.minimum(np.minimum(lt[:, None, :, None, 0], st[:, :, None, None, 0]),
                        inst[None, None, None, :, 0])
     ok &= t_env.reshape(n_isd, n_tsd, n_tr, n_ii) <= limit
     return ok

@@ -187,6 +187,36 @@ def test_short_time_i2t_ramp():
     assert ramp.t_max(i5) > flat.t_max(i5)
 
 
+# IEC 60947-2, short-time delay (common practice for the shape): with a short-time element and
+# no instantaneous release the unit holds any fault above the short-time pickup for tsd: from
+# the upper pickup limit (Isd + 10 %, from memory) up to 100 kA the lower edge is never below
+# tsd - 20 ms and the upper edge is the short-time clearing tsd (+ 20 ms, from memory) + the
+# breaker's clearing time, flat: the long-time I2t law does not go on getting faster. Rows:
+# (In [A], Ir / In, tr [s], Isd / Ir, tsd [s]), settings where tsd is faster than the long time
+# at Isd.
+SHORT_TIME_UNITS = [(630, 1.0, 8, 6, 0.2), (400, 0.8, 0.5, 2, 0.1), (1600, 0.5, 24, 10, 0.4),
+                    (250, 1.0, 2, 4, 0.3)]
+
+
+@pytest.mark.parametrize("basis", BASES)
+@pytest.mark.parametrize(("In_a", "ir_x", "tr_s", "isd_x", "tsd_s"), SHORT_TIME_UNITS)
+def test_short_time_delay_holds_up_to_100_ka(In_a, ir_x, tr_s, isd_x, tsd_s, basis):
+    band = el(In_a, basis, Ir_x=ir_x, tr_s=tr_s, Isd_x=isd_x, tsd_s=tsd_s, Ii_x="off")
+    isd_hi = isd_x * ir_x * In_a * (1 + ELECTRONIC_PICKUP_TOL)
+    i = np.geomspace(isd_hi, 100_000.0, 200)
+    lo, hi = band.t_min(i), band.t_max(i)
+    assert np.all(lo >= tsd_s - TSD_TOL_S - 1e-12)
+    assert np.all(lo <= tsd_s + 1e-12)
+    assert np.all(hi >= tsd_s)
+    assert np.all(hi <= tsd_s + TSD_TOL_S + CLEARING_MAX_S + 1e-12)
+    np.testing.assert_allclose(hi, hi[0], rtol=1e-12)  # flat: the short-time clearing only
+    if basis == "envelope":  # the full tolerance: the slowest compliant clearing
+        np.testing.assert_allclose(hi, tsd_s + TSD_TOL_S + CLEARING_MAX_S, rtol=1e-12)
+        # below the upper pickup limit the short-time element is not sure to pick up: the
+        # upper edge is still the long-time one (slower than the short-time clearing)
+        assert band.t_max(isd_hi * BELOW) > tsd_s + TSD_TOL_S + CLEARING_MAX_S
+
+
 # -- settings a unit does not offer ------------------------------------------------------------
 @pytest.mark.parametrize(
     ("make", "kwargs", "key"),
