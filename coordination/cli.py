@@ -183,6 +183,14 @@ def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption 
         typer.echo("")
         typer.echo(checks.format_table(results))
         typer.echo("")
+        if not analysis.ok:
+            uppers = sorted({p.upstream for p in analysis.pairs if not p.ok})
+            typer.echo(
+                "next: for a pair that falls short, choose a larger upstream device "
+                f"(coordination choose {study_path} --circuit {uppers[0]}), give the "
+                "manufacturer's tested limit (tested_limits_a), or state the selectivity the "
+                "circuit needs (selective_to_a)."
+            )
         typer.echo(CAUTION)
     raise typer.Exit(0 if ok else 1)
 
