@@ -7,7 +7,6 @@ from __future__ import annotations
 
 FINAL_DEVICES = ("B6", "B10", "B16", "B20", "C16", "B32", "C20", "B16")
 FINAL_CABLES = {  # csa_mm2: (cpc_mm2, iz_a) for a PVC copper twin-and-earth style run
-    1.5: (1.0, 17.5),
     2.5: (1.5, 24.0),
     4.0: (1.5, 32.0),
     6.0: (2.5, 41.0),
@@ -18,7 +17,7 @@ def _final(i: int) -> tuple[str, float]:
     device = FINAL_DEVICES[i % len(FINAL_DEVICES)]
     rating = float(device[1:])
     csa = next(s for s, (_, iz) in FINAL_CABLES.items() if iz >= rating * 1.0)
-    return device, csa
+    return f"{device} 10kA", csa
 
 
 def _circuit(cid: str, parent: str, device: str, *, phases: int = 3, load_a: float | None = None,
@@ -49,7 +48,7 @@ def building(risers: int = 10, boards_per_riser: int = 5, finals_per_board: int 
     With the defaults: 1 + 10 + 50 + 2,000 = 2,061 circuits.
     """
     parts = [header(f"Invented building, {risers} risers")]
-    parts.append(_circuit("incomer", "supply", "gG1250", length_m=5, csa_mm2=240, cpc_mm2=120,
+    parts.append(_circuit("incomer", "supply", "gG1250", length_m=5, csa_mm2=240, cpc_mm2=240,
                           insulation="xlpe", board="main switchboard"))
     for r in range(risers):
         rid = f"riser-{r + 1}"
@@ -63,7 +62,8 @@ def building(risers: int = 10, boards_per_riser: int = 5, finals_per_board: int 
                 device, csa = _final(f)
                 cpc, iz = FINAL_CABLES[csa]
                 parts.append(_circuit(f"{bid}-c{f + 1}", bid, device, phases=1,
-                                      load_a=float(device[1:]) * 0.8, length_m=10 + (f % 5) * 4,
+                                      load_a=float(device.split()[0][1:]) * 0.8,
+                                      length_m=10 + (f % 5) * 4,
                                       csa_mm2=csa, cpc_mm2=cpc, iz_a=iz))
     return "\n".join(parts)
 
