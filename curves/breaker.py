@@ -97,7 +97,7 @@ from typing import Any
 import numpy as np
 
 from curves.band import TIME_FLOOR_S, Band
-from curves.errors import InputError
+from curves.errors import InputError, positive_number
 
 #: Rated currents In of breakers and trip units [A], Renard R'10 series 16 .. 1600 A
 #: (IEC 60059 preferred ratings, from memory; common practice).
@@ -264,17 +264,6 @@ def _fmt(values: Sequence[float]) -> str:
     return ", ".join(f"{v:g}" for v in values)
 
 
-def _number(key: str, value: Any, *, allow_zero: bool = False) -> float:
-    """A finite positive float from a setting, or InputError naming the key."""
-    if isinstance(value, bool) or not isinstance(value, int | float | np.integer | np.floating):
-        raise InputError(f"{key} must be a number, not {value!r}", key=key)
-    number = float(value)
-    if not math.isfinite(number) or number < 0 or (number == 0 and not allow_zero):
-        raise InputError(f"{key} = {number:g} is not allowed; give a finite positive number",
-                         key=key)
-    return number
-
-
 def _on_grid(key: str, value: float, grid: Sequence[float], what: str) -> float:
     for g in grid:
         if math.isclose(value, g, rel_tol=1e-6, abs_tol=1e-9):
@@ -283,7 +272,7 @@ def _on_grid(key: str, value: float, grid: Sequence[float], what: str) -> float:
 
 
 def _rating(In_a: Any) -> float:
-    rating = _number("In_a", In_a)
+    rating = positive_number("In_a", In_a)
     for r in BREAKER_RATINGS_A:
         if math.isclose(rating, r, rel_tol=1e-9):
             return float(r)
@@ -297,8 +286,8 @@ def _multiple(name: str, base_name: str, base_a: float, x_value: Any, a_value: A
 
     Returns the multiple on ``grid``, or ``default_x`` when neither is given.
     """
-    x = None if x_value is None else _number(f"{name}_x", x_value)
-    a = None if a_value is None else _number(f"{name}_a", a_value)
+    x = None if x_value is None else positive_number(f"{name}_x", x_value)
+    a = None if a_value is None else positive_number(f"{name}_a", a_value)
     if x is not None:
         x = _on_grid(f"{name}_x", x, grid, f"(multiple of {base_name})")
     if a is not None:
@@ -374,7 +363,7 @@ def thermal_magnetic_band(
                          f"switched off); allowed: {_fmt(II_X)} x In", key="Ii_x")
     ir_x = _multiple("Ir", "In", rating, Ir_x, Ir_a, TM_IR_FRACTIONS, 1.0)
     ii_x = _multiple("Ii", "In", rating, Ii_x, Ii_a, II_X, 10.0)
-    icu = None if icu_a is None else _number("icu_a", icu_a)
+    icu = None if icu_a is None else positive_number("icu_a", icu_a)
     ir = ir_x * rating
     ii = ii_x * rating
     t_conv = conventional_time_s(rating)
@@ -594,7 +583,7 @@ def electronic_band(
         tr = 8.0
         notes.append("tr_s not given: 8 s at 6 Ir assumed")
     else:
-        tr = _on_grid("tr_s", _number("tr_s", tr_s), TR_S, "(time at 6 Ir, s)")
+        tr = _on_grid("tr_s", positive_number("tr_s", tr_s), TR_S, "(time at 6 Ir, s)")
     if not isinstance(sd_i2t, bool | np.bool_):
         raise InputError(f"sd_i2t must be true or false, not {sd_i2t!r}", key="sd_i2t")
     isd_x = _multiple("Isd", "Ir", ir, Isd_x, Isd_a, ISD_X, None)
@@ -605,7 +594,8 @@ def electronic_band(
                              f"{_fmt(ISD_X)} x Ir)", key=key)
         tsd = None
     else:
-        tsd = 0.1 if tsd_s is None else _on_grid("tsd_s", _number("tsd_s", tsd_s), TSD_S, "(s)")
+        tsd = (0.1 if tsd_s is None
+               else _on_grid("tsd_s", positive_number("tsd_s", tsd_s), TSD_S, "(s)"))
     if isinstance(Ii_x, str):
         if Ii_x.strip().lower() != "off":
             raise InputError(f"Ii_x = {Ii_x!r} is not allowed; allowed: "
@@ -615,7 +605,7 @@ def electronic_band(
         ii_x = None
     else:
         ii_x = _multiple("Ii", "In", rating, Ii_x, Ii_a, ELECTRONIC_II_X, None)
-    icu = None if icu_a is None else _number("icu_a", icu_a)
+    icu = None if icu_a is None else positive_number("icu_a", icu_a)
     ii = None if ii_x is None else ii_x * rating
     isd = None if isd_x is None else isd_x * ir
     if isd is not None and ii is not None and isd > ii * (1 + 1e-9):

@@ -33,7 +33,7 @@ from collections.abc import Callable, Mapping
 from typing import Any
 
 from curves.band import Band
-from curves.errors import InputError
+from curves.errors import InputError, positive_number
 
 FAMILIES = ("mcb", "gG", "tm", "electronic", "datasheet")
 _ALIASES = {"mcb": "mcb", "gg": "gG", "tm": "tm", "breaker-tm": "tm",
@@ -144,16 +144,6 @@ def _standard_basis(basis: str, family: str) -> str:
     return basis
 
 
-def _positive(key: str, value: Any) -> float:
-    if isinstance(value, bool) or not isinstance(value, int | float):
-        raise InputError(f"{key} must be a number, not {value!r}", key=key)
-    number = float(value)
-    if not math.isfinite(number) or number <= 0:
-        raise InputError(f"{key} = {number:g} is not allowed; give a finite positive number",
-                         key=key)
-    return number
-
-
 def _in_series(rating: float, series: tuple[float, ...], what: str) -> float:
     for r in series:
         if math.isclose(rating, r, rel_tol=1e-9):
@@ -169,19 +159,19 @@ def _mcb(curve_type: Any, rating: Any, basis: str, energy_class: Any = 3,
     if not isinstance(curve_type, str) or curve_type.strip().upper() not in ("B", "C", "D"):
         raise InputError(f"MCB type must be \"B\", \"C\" or \"D\", not {curve_type!r}",
                          key="type")
-    rating_a = _in_series(_positive("In_a", rating), MCB_RATINGS_A, "MCB")
+    rating_a = _in_series(positive_number("In_a", rating), MCB_RATINGS_A, "MCB")
     if isinstance(energy_class, bool) or energy_class not in (1, 2, 3):
         raise InputError(f"energy_class must be 1, 2 or 3, not {energy_class!r}",
                          key="energy_class")
     return mcb_band(curve_type.strip().upper(), rating_a, basis=basis,
-                    energy_class=int(energy_class), icn_a=_positive("icn_a", icn_a))
+                    energy_class=int(energy_class), icn_a=positive_number("icn_a", icn_a))
 
 
 def _gg(rating: Any, basis: str, breaking_capacity_a: Any = None) -> Band:
     from curves.fuse import GG_RATINGS_A, gg_band
 
-    rating_a = _in_series(_positive("In_a", rating), GG_RATINGS_A, "gG fuse-link")
-    cap = None if breaking_capacity_a is None else _positive("breaking_capacity_a",
+    rating_a = _in_series(positive_number("In_a", rating), GG_RATINGS_A, "gG fuse-link")
+    cap = None if breaking_capacity_a is None else positive_number("breaking_capacity_a",
                                                              breaking_capacity_a)
     return gg_band(rating_a, basis=basis, breaking_capacity_a=cap)
 
@@ -232,7 +222,7 @@ def _from_table(spec: Mapping[str, Any], basis: str) -> Band:
                              f"{', '.join(allowed)}", key=key)
     for key, value in table.items():
         if key not in _NOT_NUMBERS:
-            _positive(key, value)
+            positive_number(key, value)
     if family == "datasheet":
         from curves.tabulated import datasheet_band
 

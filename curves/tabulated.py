@@ -31,24 +31,13 @@ The band's basis is always ``"datasheet"``.
 
 from __future__ import annotations
 
-import math
 from collections.abc import Sequence
 from typing import Any
 
 import numpy as np
 
 from curves.band import TIME_FLOOR_S, Band
-from curves.errors import InputError
-
-
-def _number(key: str, value: Any) -> float:
-    if isinstance(value, bool) or not isinstance(value, int | float | np.integer | np.floating):
-        raise InputError(f"{key} must be a number, not {value!r}", key=key)
-    number = float(value)
-    if not math.isfinite(number) or number <= 0:
-        raise InputError(f"{key} = {number:g} is not allowed; give a finite positive number",
-                         key=key)
-    return number
+from curves.errors import InputError, positive_number
 
 
 def check_points(key: str, points: Any, *, rising: bool = False) -> tuple[np.ndarray, np.ndarray]:
@@ -84,7 +73,7 @@ def check_points(key: str, points: Any, *, rising: bool = False) -> tuple[np.nda
         where = f"{key}[{n}]"
         if isinstance(pair, str | bytes) or not isinstance(pair, Sequence) or len(pair) != 2:
             raise InputError(f"{where} must be a [current_a, value] pair, not {pair!r}", key=key)
-        rows.append((_number(where, pair[0]), _number(where, pair[1])))
+        rows.append((positive_number(where, pair[0]), positive_number(where, pair[1])))
     arr = np.array(rows, dtype=np.float64)
     current, value = arr[:, 0], arr[:, 1]
     bad = np.flatnonzero(np.diff(current) <= 0)
@@ -185,7 +174,7 @@ def datasheet_band(
     >>> print(float(band.t_min(2000)))
     1.0
     """
-    rating = _number("In_a", In_a)
+    rating = positive_number("In_a", In_a)
     if name is None:
         label = f"datasheet {rating:g} A"
     elif isinstance(name, str) and name.strip():
@@ -198,11 +187,11 @@ def datasheet_band(
         raise InputError(f"the lower curve starts at {lo_i[0]:g} A, above the upper curve's "
                          f"first current {hi_i[0]:g} A; the lower curve (minimum pickup) must "
                          "start at or below the upper one", key="lower")
-    inst = None if instantaneous_a is None else _number("instantaneous_a", instantaneous_a)
-    icu = None if breaking_capacity_a is None else _number("breaking_capacity_a",
+    inst = None if instantaneous_a is None else positive_number("instantaneous_a", instantaneous_a)
+    icu = None if breaking_capacity_a is None else positive_number("breaking_capacity_a",
                                                            breaking_capacity_a)
     pre_arc = (None if pre_arcing_i2t_min_a2s is None
-               else _number("pre_arcing_i2t_min_a2s", pre_arcing_i2t_min_a2s))
+               else positive_number("pre_arcing_i2t_min_a2s", pre_arcing_i2t_min_a2s))
     lt = None if let_through is None else check_points("let_through", let_through, rising=True)
 
     def lower_edge(i: np.ndarray) -> np.ndarray:
