@@ -290,6 +290,7 @@ def grid(band, multiples):
 
 
 KINDS = st.sampled_from(["tm", "electronic"])
+ROUNDING = 1e-12  # relative; floating-point rounding, not a tolerance of the standard
 
 
 @st.composite
@@ -326,8 +327,9 @@ def test_larger_ir_never_sits_left(kind_settings, basis, multiples, data):
     a = build(kind, {**s, "Ir_x": small}, basis)
     b = build(kind, {**s, "Ir_x": large}, basis)
     i = grid(a, multiples)
-    assert np.all(b.t_min(i) >= a.t_min(i))
-    assert np.all(b.t_max(i) >= a.t_max(i))
+    # where both edges are held at the same clipped value the two may differ in the last bit
+    assert np.all(b.t_min(i) >= a.t_min(i) * (1 - ROUNDING))
+    assert np.all(b.t_max(i) >= a.t_max(i) * (1 - ROUNDING))
     assert b.pickup_min_a > a.pickup_min_a
 
 
