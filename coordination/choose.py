@@ -564,8 +564,6 @@ def _pair_settings(study: Study, downstream_id: str) -> tuple[float, float, floa
     return float(margin), float(interval), c.selective_to_a
 
 
-def _descendants(study: Study, circuit_id: str) -> list[str]:
-    return [c.id for c in study.circuits if circuit_id in study.ancestors(c.id)]
 
 
 def _clamped_lower(band: Band, grid: np.ndarray) -> np.ndarray:
@@ -615,7 +613,7 @@ def _problem(study: Study, levels: Any, circuit_id: str, family: str | None,
 
     below: list[_Pair] = []
     seen: set = set()
-    for d in _descendants(study, circuit_id):
+    for d in study.descendants(circuit_id):
         band = band_for(study, d)
         margin, interval, selective_to = _pair_settings(study, d)
         hi = float(nodes[d].ik_max_a)
@@ -1233,11 +1231,10 @@ def choose_board(study: Study, board_id: str, *, family: str | None = None) -> t
                          f"give a circuit that feeds a board, or {SUPPLY_ID!r} for the whole "
                          f"study", key="--board")
     levels = faults.compute(study)
-    feeders = [c.id for c in study.circuits if study.children.get(c.id)
-               and (board_id == SUPPLY_ID or c.id == board_id
-                    or board_id in study.ancestors(c.id))]
-    depth = {cid: len(study.ancestors(cid)) for cid in feeders}
-    order = sorted(feeders, key=lambda cid: -depth[cid])  # stable: deepest first
+    inside = (set(study.by_id) if board_id == SUPPLY_ID
+              else {board_id, *study.descendants(board_id)})
+    feeders = [c.id for c in study.circuits if study.children.get(c.id) and c.id in inside]
+    order = sorted(feeders, key=lambda cid: -study.depth[cid])  # stable: deepest first
     choices: list[Choice] = []
     current = study
     for n, cid in enumerate(order):

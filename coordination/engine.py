@@ -134,11 +134,26 @@ class PairResult:
     margin: float = 1.0
     interval_s: float = 0.0
     tested_limit_a: float | None = None
+    upstream_last: str = ""
+    upstream_count: int = 1
+
+    @property
+    def upstream_span(self) -> str:
+        """``upstream``, or for a run of alike devices ``"n7 to n1 (7 alike)"``."""
+        if self.upstream_count == 1:
+            return self.upstream
+        return f"{self.upstream} to {self.upstream_last} ({self.upstream_count} alike)"
 
     def to_json(self) -> dict[str, Any]:
-        """The contract's JSON for one pair (currents in A; ``limit_a`` null for total)."""
+        """The contract's JSON for one pair (currents in A; ``limit_a`` null for total).
+
+        ``upstream_count`` ancestors in a row, from ``upstream`` (the nearest) up to
+        ``upstream_last``, have the same device: the row stands for each of those pairs.
+        """
         return {
             "upstream": self.upstream,
+            "upstream_last": self.upstream_last or self.upstream,
+            "upstream_count": self.upstream_count,
             "downstream": self.downstream,
             "verdict": self.verdict,
             "limit_a": None if self.verdict == "total" else self.limit_a,
@@ -160,6 +175,9 @@ class PairResult:
 @dataclass(frozen=True)
 class Analysis:
     """Every ancestor pair of a study, downstream circuits in study order, nearest ancestor first.
+
+    Ancestors in a row with the same device give the same result, so one :class:`PairResult`
+    stands for the run (``upstream_count`` pairs, ``upstream`` to ``upstream_last``).
 
     Attributes
     ----------
@@ -183,16 +201,14 @@ class Analysis:
         return tuple(p for p in self.pairs if p.downstream == circuit_id)
 
     def summary(self) -> dict[str, Any]:
-        """Counts of verdicts and unmet requirements."""
-        verdicts = [p.verdict for p in self.pairs]
-        return {
-            "pairs": len(self.pairs),
-            "total": verdicts.count("total"),
-            "partial": verdicts.count("partial"),
-            "none": verdicts.count("none"),
-            "unmet": sum(not p.ok for p in self.pairs),
-            "ok": self.ok,
-        }
+        """Counts of pairs (a run of alike ancestors counts each), verdicts and unmet ones."""
+        counts = {"total": 0, "partial": 0, "none": 0}
+        unmet = 0
+        for p in self.pairs:
+            counts[p.verdict] += p.upstream_count
+            unmet += 0 if p.ok else p.upstream_count
+        return {"pairs": sum(counts.values()), "rows": len(self.pairs), **counts,
+                "unmet": unmet, "ok": self.ok}
 
     def to_json(self) -> dict[str, Any]:
         """``{"pairs": [...], "summary": {...}}`` (the contract's keys; currents in A)."""
@@ -419,6 +435,72 @@ def compare(upstream: Band, downstream: Band, window_a: tuple[float, float], *,
 
 # ---------------------------------------------------------------------------------------------
 # a whole study
+#: At most this many result rows in one analysis (about 3 kB of memory and JSON each). Only a
+#: tree hundreds of levels deep with differing devices comes near it: a 5,000-circuit building
+#: four levels deep has about 15,000 rows, and a chain of alike devices one row per circuit.
+MAX_ROWS = 500_000
+
+
+@dataclass(frozen=True)
+class _Run:
+    """Ancestors in a row that share one band, nearest first; ``rest`` continues upwards.
+
+    A circuit's list shares its tail with its parent's, so all the lists of a study take
+    memory and time linear in the number of circuits, however deep the tree.
+    """
+
+    band: Band
+    first: str
+    last: str
+    count: int
+    rest: _Run | None
+    rows: int  # runs in the list from this one up
+
+
+def _ancestor_runs(study: Study, bands: Mapping[str, Band]) -> dict[str, _Run | None]:
+    """The runs above every circuit (``None``: fed from the supply), in study order."""
+    runs: dict[str, _Run | None] = {}
+    for c in study.circuits:  # parents first
+        if c.parent not in bands:
+            runs[c.id] = None
+            continue
+        above, band = runs[c.parent], bands[c.parent]
+        if above is not None and above.band is band:  # the parent extends the run above it
+            runs[c.id] = _Run(band, c.parent, above.last, above.count + 1, above.rest,
+                              above.rows)
+        else:
+            runs[c.id] = _Run(band, c.parent, c.parent, 1, above,
+                              1 + (above.rows if above is not None else 0))
+    return runs
+
+
+def _segments(study: Study, head: _Run | None,
+              tested: Mapping[str, float]) -> list[tuple[Band, str, str, int]]:
+    """``(band, first, last, count)`` nearest first; an ancestor with a tested limit alone."""
+    out: list[tuple[Band, str, str, int]] = []
+    run = head
+    while run is not None:
+        if run.count == 1 or not tested:
+            out.append((run.band, run.first, run.last, run.count))
+        else:  # walk this run only when the circuit has tested limits
+            node = start = end = run.first
+            n = 0
+            for _ in range(run.count):
+                nxt = study.by_id[node].parent
+                if node in tested:
+                    if n:
+                        out.append((run.band, start, end, n))
+                    out.append((run.band, node, node, 1))
+                    start, n = nxt, 0
+                else:
+                    end, n = node, n + 1
+                node = nxt
+            if n:
+                out.append((run.band, start, run.last, n))
+        run = run.rest
+    return out
+
+
 def _window_top(levels: Any, circuit_id: str) -> float:
     try:
         node = levels.by_circuit[circuit_id]
@@ -444,13 +526,26 @@ def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
     -------
     Analysis
         One :class:`PairResult` per (ancestor, circuit) pair, circuits in study order, nearest
-        ancestor first.
+        ancestor first; ancestors in a row with the same device (and no tested limit) share one
+        result, which says how many it stands for.
+
+    Raises
+    ------
+    InputError
+        When the results would need more than :data:`MAX_ROWS` rows (a tree hundreds of levels
+        deep with differing devices).
 
     Notes
     -----
     Margin and interval come from the downstream circuit, else the study; a tested limit from
     ``tested_limits_a[upstream id]`` of the downstream circuit; the requirement from its
     ``selective_to_a`` (``None``: total selectivity, i.e. up to the window's top).
+
+    A pair's result depends only on the two bands, the downstream circuit's window, margin,
+    interval and requirement, and the pair's tested limit. So the ancestors of a circuit are
+    taken in runs that share one band (:class:`_Run`): the work and the output grow with the
+    number of circuits times the number of *different* devices in a row above them, which
+    keeps a chain of thousands of alike devices linear in its length.
 
     References
     ----------
@@ -478,12 +573,21 @@ def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
     total
     """
     bands = {c.id: band_for(study, c.id, basis) for c in study.circuits}
+    runs = _ancestor_runs(study, bands)
+    rows = sum(r.rows for r in runs.values() if r is not None)
+    rows += sum(2 * len(c.tested_limits_a) for c in study.circuits)  # a split adds two at most
+    if rows > MAX_ROWS:
+        deepest = max(study.circuits, key=lambda c: runs[c.id].rows if runs[c.id] else 0)
+        raise InputError(
+            f"{rows:,} selectivity rows to list (the tree is deep, with different devices in a "
+            f"row above its circuits); at most {MAX_ROWS:,} are allowed: check the study in parts, "
+            "one per board", circuit=deepest.id, key="from")
     results: list[PairResult] = []
     by_down: dict[str, tuple[PairResult, ...]] = {}
     all_ok = True
     for circuit in study.circuits:
-        ancestors = study.ancestors(circuit.id)
-        if not ancestors:
+        head = runs[circuit.id]
+        if head is None:
             continue
         down = bands[circuit.id]
         lo = float(down.pickup_min_a)
@@ -493,9 +597,8 @@ def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
         required = circuit.selective_to_a
         need = hi if required is None else min(float(required), hi)
         mine = []
-        for up_id in ancestors:
-            up = bands[up_id]
-            tested = circuit.tested_limits_a.get(up_id)
+        for up, first, last, count in _segments(study, head, circuit.tested_limits_a):
+            tested = circuit.tested_limits_a.get(first) if count == 1 else None
             try:
                 sel = compare(up, down, (lo, hi), margin=margin, interval_s=interval,
                               tested_limit_a=tested)
@@ -505,11 +608,12 @@ def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
                 sel.limit_a is not None and sel.limit_a >= need * (1 - EQUAL_RTOL))
             all_ok = all_ok and ok
             mine.append(PairResult(
-                upstream=up_id, downstream=circuit.id, verdict=sel.verdict, limit_a=sel.limit_a,
+                upstream=first, downstream=circuit.id, verdict=sel.verdict, limit_a=sel.limit_a,
                 window_a=sel.window_a, decided_by=sel.decided_by, upstream_basis=up.basis,
                 downstream_basis=down.basis, required_a=required, ok=ok,
                 upstream_device=up.name, downstream_device=down.name, note=sel.note,
-                time_s=sel.time_s, margin=margin, interval_s=interval, tested_limit_a=tested))
+                time_s=sel.time_s, margin=margin, interval_s=interval, tested_limit_a=tested,
+                upstream_last=last, upstream_count=count))
         by_down[circuit.id] = tuple(mine)
         results.extend(mine)
     return Analysis(tuple(results), all_ok, basis, by_down)
@@ -628,7 +732,7 @@ def format_table(study: Study, levels: Any, analysis: Analysis) -> str:
             previous = p.downstream
             rows.append([
                 p.downstream if first else "", p.downstream_device if first else "",
-                f"{p.upstream} ({p.upstream_device})",
+                f"{p.upstream_span} ({p.upstream_device})",
                 _VERDICT_TEXT[p.verdict], _ka(p.limit_a) if p.verdict != "total" else "-",
                 f"{format_current(p.window_a[0])} - {format_current(p.window_a[1])}",
                 p.decided_by, bases,

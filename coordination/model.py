@@ -122,16 +122,35 @@ class Study:
         return MappingProxyType({k: tuple(v) for k, v in kids.items()})
 
     @cached_property
-    def _ancestors(self) -> Mapping[str, tuple[str, ...]]:
-        # circuits are ordered parents-first, so each parent's chain is known when needed
-        chains: dict[str, tuple[str, ...]] = {}
-        for c in self.circuits:
-            chains[c.id] = () if c.parent == SUPPLY_ID else (c.parent, *chains[c.parent])
-        return MappingProxyType(chains)
+    def depth(self) -> Mapping[str, int]:
+        """Number of circuits above each circuit (0: fed from the supply)."""
+        depths: dict[str, int] = {SUPPLY_ID: -1}
+        for c in self.circuits:  # parents first
+            depths[c.id] = depths[c.parent] + 1
+        del depths[SUPPLY_ID]
+        return MappingProxyType(depths)
 
     def ancestors(self, circuit_id: str) -> tuple[str, ...]:
-        """Ids of every circuit above this one, nearest first."""
-        return self._ancestors[circuit_id]
+        """Ids of every circuit above this one, nearest first.
+
+        Walked up on each call, so a deep tree never holds every circuit's chain at once.
+        """
+        chain: list[str] = []
+        parent = self.by_id[circuit_id].parent
+        while parent != SUPPLY_ID:
+            chain.append(parent)
+            parent = self.by_id[parent].parent
+        return tuple(chain)
+
+    def descendants(self, circuit_id: str) -> list[str]:
+        """Ids of every circuit below this one, in study order."""
+        below: set[str] = set()
+        todo = list(self.children.get(circuit_id, ()))
+        while todo:
+            cid = todo.pop()
+            below.add(cid)
+            todo.extend(self.children.get(cid, ()))
+        return [c.id for c in self.circuits if c.id in below]
 
     def is_final(self, circuit_id: str) -> bool:
         """A final circuit: said so in the study, or else one that feeds no board."""

@@ -20,7 +20,7 @@ from __future__ import annotations
 
 import math
 import os
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
@@ -104,6 +104,22 @@ def _chain(study: Study, circuit_id: str) -> tuple[str, ...]:
         raise InputError(f"no circuit {circuit_id!r} in the study; give one of its circuit ids",
                          key="--circuit")
     return (circuit_id, *study.ancestors(circuit_id))
+
+
+def _drawn(chain: Sequence[str], bands: Mapping[str, Band]) -> list[tuple[str, str, int]]:
+    """``(first, last, count)`` per band drawn: the circuit, then each run of alike devices above.
+
+    A run of ancestors with one device is one band on the plot (and one row of the engine's
+    results), so a deep chain of alike devices draws as two bands.
+    """
+    out: list[tuple[str, str, int]] = [(chain[0], chain[0], 1)]
+    for cid in chain[1:]:
+        first, _, count = out[-1]
+        if len(out) > 1 and bands[first] is bands[cid]:
+            out[-1] = (first, cid, count + 1)
+        else:
+            out.append((cid, cid, 1))
+    return out
 
 
 def _current_grid(band: Band, i_lo: float, i_hi: float, points: int = 500) -> np.ndarray:
@@ -194,7 +210,8 @@ def _minor_grid(x_lo: float, x_hi: float, y_lo: float, y_hi: float) -> Any:
 def pairs_in_chain(analysis: Any, chain: Sequence[str]) -> list[Any]:
     """The engine's pairs whose upstream and downstream are both in a chain of circuits."""
     members = set(chain)
-    return [p for p in analysis.pairs if p.upstream in members and p.downstream in members]
+    return [p for cid in reversed(chain) for p in analysis.for_circuit(cid)
+            if p.upstream in members]
 
 
 # -- the plot ----------------------------------------------------------------------------------
@@ -247,6 +264,7 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
         basis = getattr(analysis, "basis", None)
     chain = _chain(study, circuit_id)
     bands = {cid: band_for(study, cid, basis) for cid in chain}
+    drawn = _drawn(chain, bands)
     node = levels.by_circuit.get(circuit_id)
     circuit = study.by_id[circuit_id]
 
@@ -272,10 +290,10 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
     ax.set_xlim(i_min, i_max)
     ax.set_ylim(TIME_FLOOR_S, TIME_CEILING_S)
 
-    # -- bands, downstream first (drawn last so it sits on top)
-    order = list(chain)
-    for k, cid in reversed(list(enumerate(order))):
+    # -- bands, downstream first (drawn last so it sits on top); alike devices in a row once
+    for k, (cid, last, count) in reversed(list(enumerate(drawn))):
         band = bands[cid]
+        who = cid if count == 1 else f"{cid} to {last} ({count} alike)"
         colour = PALETTE[k % len(PALETTE)]
         dash = DASHES[k % len(DASHES)]
         grid = _current_grid(band, i_min, i_max)
@@ -284,7 +302,7 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
         t_lo, t_hi = band.edges(grid)
         ax.fill_between(grid, t_lo, t_hi, facecolor=colour, alpha=BAND_ALPHA, linewidth=0, zorder=2,
                         gid=f"band:{cid}",
-                        label=f"{cid}: {band.name} ({band.basis})")
+                        label=f"{who}: {band.name} ({band.basis})")
         for edge in (t_lo, t_hi):
             ax.plot(grid, edge, color=colour, linestyle=dash, linewidth=1.3, zorder=3,
                     gid=f"edge:{cid}")
@@ -292,7 +310,7 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
         if tag is not None:
             # to the left of the edge in the right third of the axis, so it stays inside
             right = math.log10(tag[0] / i_min) > 0.66 * math.log10(i_max / i_min)
-            ax.annotate(f"{cid}\n{band.name}", xy=tag, xytext=(-4 if right else 4, 2),
+            ax.annotate(f"{who}\n{band.name}", xy=tag, xytext=(-4 if right else 4, 2),
                         textcoords="offset points", ha="right" if right else "left",
                         fontsize=7, color=colour, zorder=6, gid=f"tag:{cid}",
                         bbox={"boxstyle": "round,pad=0.15", "facecolor": "white",
@@ -303,8 +321,9 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
 
     marks = 0
     zones = 0
+    shown = {cid for cid, _, _ in drawn}
     for pair in pairs_in_chain(analysis, chain):
-        if pair.verdict == "total":
+        if pair.verdict == "total" or pair.upstream not in shown or pair.downstream not in shown:
             continue
         name = f"{pair.upstream}>{pair.downstream}"
         polys = _geometry_polygons(engine.overlap(study, levels, pair, basis))

@@ -418,7 +418,7 @@ def plot_plan(study: Study, analysis: Any, *,
     above: dict[str, list[str]] = {}
     for p in analysis.pairs:
         if p.verdict != "total":
-            above.setdefault(p.downstream, []).append(p.upstream)
+            above.setdefault(p.downstream, []).append(p.upstream_span)
     for downstream, upstreams in above.items():
         sig = _signature(study, analysis, downstream)
         if sig in covered:
@@ -543,7 +543,7 @@ def _pair_table(analysis: Any) -> TableSpec:
     for p in analysis.pairs:
         bases = "/".join(BASIS_SHORT.get(b, b) for b in (p.downstream_basis, p.upstream_basis))
         rows.append((
-            p.downstream, p.upstream, f"{p.downstream_device} / {p.upstream_device}",
+            p.downstream, p.upstream_span, f"{p.downstream_device} / {p.upstream_device}",
             p.verdict, "-" if p.verdict == "total" else _ka(p.limit_a),
             f"{_ka(p.window_a[0])}-{_ka(p.window_a[1])}", p.decided_by, bases,
             "total" if p.required_a is None else _ka(p.required_a), "yes" if p.ok else "NO"))
@@ -787,7 +787,7 @@ def _plot_page(study: Study, levels: Any, analysis: Any, entry: PlannedPlot,
             y -= 0.013
         rows, flags = [], []
         for p in pairs_in_chain(analysis, chain):
-            rows.append((p.downstream, p.upstream, p.verdict,
+            rows.append((p.downstream, p.upstream_span, p.verdict,
                          "-" if p.verdict == "total" else _ka(p.limit_a),
                          f"{_ka(p.window_a[0])}-{_ka(p.window_a[1])}", p.decided_by,
                          "yes" if p.ok else "NO"))

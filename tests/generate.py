@@ -68,13 +68,17 @@ def building(risers: int = 10, boards_per_riser: int = 5, finals_per_board: int 
     return "\n".join(parts)
 
 
-def chain(depth: int) -> str:
-    """A chain of ``depth`` circuits, each feeding the next (a deep tree)."""
+def chain(depth: int, devices: tuple[str, ...] = ("gG100",)) -> str:
+    """A chain of ``depth`` circuits, each feeding the next (a deep tree).
+
+    The devices repeat from the top down in the order given (one device: all alike).
+    """
     parts = [header(f"Chain of {depth}")]
     parent = "supply"
     for d in range(depth):
         cid = f"n{d}"
-        parts.append(_circuit(cid, parent, "gG100", length_m=0.5, csa_mm2=35, cpc_mm2=16))
+        parts.append(_circuit(cid, parent, devices[d % len(devices)], length_m=0.5, csa_mm2=35,
+                              cpc_mm2=16))
         parent = cid
     return "\n".join(parts)
 

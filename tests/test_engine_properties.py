@@ -12,6 +12,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from coordination import engine, faults
+from coordination.devices import band_for
 from coordination.model import Cable, Circuit, Study, Supply
 from curves.fuse import GG_RATINGS_A, gg_band
 from curves.mcb import MCB_RATINGS_A, mcb_band
@@ -128,6 +129,16 @@ def walk_up(parents: list[int], k: int) -> list[int]:
     return chain
 
 
+def run_members(study, pair):
+    """The ancestors one result row stands for, nearest first."""
+    ids, node = [], pair.upstream
+    for _ in range(pair.upstream_count):
+        ids.append(node)
+        node = study.by_id[node].parent
+    assert ids[-1] == pair.upstream_last
+    return ids
+
+
 # DESIGN.md: every ancestor of a circuit is paired with it, not only its direct parent
 @settings(max_examples=30, deadline=None)
 @given(tree=trees(), basis=st.sampled_from((None, *BASES)))
@@ -135,11 +146,30 @@ def test_every_ancestor_pair_present(tree, basis):
     study, parents = tree
     levels = faults.compute(study)
     analysis = engine.analyse(study, levels, basis=basis)
-    got = [(p.upstream, p.downstream) for p in analysis.pairs]
+    got = [(u, p.downstream) for p in analysis.pairs for u in run_members(study, p)]
     expected = {(f"c{a}", f"c{k}") for k in range(len(parents)) for a in walk_up(parents, k)}
     assert len(got) == len(set(got))
     assert set(got) == expected
+    assert analysis.summary()["pairs"] == len(expected)
     assert analysis.ok == all(p.ok for p in analysis.pairs)
     for p in analysis.pairs:
         assert p.window_a[1] == levels.by_circuit[p.downstream].ik_max_a
         assert (p.verdict == "total") == (p.limit_a is None)
+
+
+# Our design: a row standing for a run of alike ancestors says what each of those pairs, decided
+# on its own by compare(), would say
+@settings(max_examples=30, deadline=None)
+@given(tree=trees())
+def test_a_run_of_alike_ancestors_answers_for_each_of_them(tree):
+    study, _ = tree
+    levels = faults.compute(study)
+    analysis = engine.analyse(study, levels)
+    for p in analysis.pairs:
+        members = run_members(study, p)
+        assert len({study.by_id[u].device for u in members}) == 1
+        for u in members:
+            alone = engine.compare(band_for(study, u), band_for(study, p.downstream), p.window_a,
+                                   margin=p.margin, interval_s=p.interval_s)
+            assert (alone.verdict, alone.limit_a, alone.decided_by) == (
+                p.verdict, p.limit_a, p.decided_by)

@@ -123,6 +123,20 @@ def test_one_band_per_device_in_the_chain(workshop, circuit, chain):
         assert len(found[f"edge:{cid}"]) == 2  # lower and upper edge
 
 
+def test_a_deep_chain_of_alike_devices_draws_each_device_once():
+    # our design: alike devices in a row above the circuit are one band, labelled as a run
+    text = "\n".join([
+        '[study]\ntitle = "invented riser of alike fuses"\n[supply]\npfc_a = 20000',
+        *(f'[[circuit]]\nid = "n{k}"\nfrom = "{"supply" if k == 0 else f"n{k - 1}"}"\n'
+          f'device = "{"gG63" if k == 39 else "gG160"}"' for k in range(40))])
+    s = study.loads(text)
+    levels = faults.compute(s)
+    found = artists(plot_circuit(s, levels, engine.analyse(s, levels), "n39").axes[0])
+    assert sorted(g for g in found if g.startswith("band:")) == ["band:n38", "band:n39"]
+    (band,) = found["band:n38"]
+    assert band.get_label().startswith("n38 to n0 (39 alike): gG160")
+
+
 def test_band_lies_between_the_edges_of_the_device(workshop):
     from coordination.devices import band_for
 

@@ -303,10 +303,49 @@ def test_wide_board_of_5000_checks(tmp_path):
     assert len(json.loads(result.stdout)["pairs"]) == 5000
 
 
-def test_deep_chain_checks_every_ancestor_pair(tmp_path):
-    # every ancestor is paired (DESIGN.md), so a chain of n circuits has n (n - 1) / 2 pairs:
-    # the engine's cost grows with the pairs, not with recursion depth
-    depth = 300
+def test_deep_chain_of_5000_alike_devices_checks_in_one_row_per_circuit(tmp_path, monkeypatch):
+    # every ancestor is paired (DESIGN.md): n (n - 1) / 2 pairs in a chain of n. Alike devices in
+    # a row give alike results, so the engine decides one pair per circuit and lists one row
+    # standing for the run: work and output linear in the chain's length
+    from coordination import engine
+
+    depth = 5000
+    decided = []
+    compare = engine.compare
+    monkeypatch.setattr(engine, "compare", lambda *a, **k: decided.append(1) or compare(*a, **k))
     result = run("check", write(tmp_path, chain(depth)), "--json")
     assert result.exit_code in (0, 1), result.output
-    assert len(json.loads(result.stdout)["pairs"]) == depth * (depth - 1) // 2
+    out = json.loads(result.stdout)
+    assert len(out["pairs"]) == depth - 1
+    assert len(decided) == depth - 1
+    assert sum(p["upstream_count"] for p in out["pairs"]) == depth * (depth - 1) // 2
+    assert out["summary"]["pairs"] == depth * (depth - 1) // 2
+    deepest = out["pairs"][-1]
+    assert (deepest["downstream"], deepest["upstream"], deepest["upstream_last"],
+            deepest["upstream_count"]) == ("n4999", "n4998", "n0", 4999)
+
+
+def test_chain_of_differing_devices_lists_every_pair(tmp_path):
+    # no two devices in a row alike: one row per (ancestor, circuit) pair
+    depth = 40
+    result = run("check", write(tmp_path, chain(depth, ("gG160", "gG125"))), "--json")
+    assert result.exit_code in (0, 1), result.output
+    pairs = json.loads(result.stdout)["pairs"]
+    assert len(pairs) == depth * (depth - 1) // 2
+    assert {p["upstream_count"] for p in pairs} == {1}
+
+
+def test_a_tested_limit_splits_a_run_of_alike_devices(tmp_path):
+    text = chain(8) + '\n[circuit.tested_limits_a]\nn3 = 2500\n'  # for n7, under n6 .. n0
+    result = run("check", write(tmp_path, text), "--json")
+    assert result.exit_code in (0, 1), result.output
+    rows = [(p["upstream"], p["upstream_last"], p["upstream_count"], p["basis"])
+            for p in json.loads(result.stdout)["pairs"] if p["downstream"] == "n7"]
+    assert rows == [("n6", "n4", 3, "time-current"), ("n3", "n3", 1, "tested"),
+                    ("n2", "n0", 3, "time-current")]
+
+
+def test_a_tree_too_deep_to_list_is_refused_in_one_line(tmp_path):
+    # 1,100 circuits in a chain of alternating devices: 604,450 rows, over the limit
+    result = run("check", write(tmp_path, chain(1100, ("gG160", "gG125"))), "--json")
+    assert_refused(result, "n1099", "from", "500,000")
