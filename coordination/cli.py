@@ -6,6 +6,7 @@ Heavy modules (matplotlib, the report) are imported only inside the commands tha
 
 from __future__ import annotations
 
+import gc
 import json
 import math
 import sys
@@ -85,10 +86,10 @@ def to_json(value: Any) -> str:
             return clean(v.item())
         return v
 
-    try:  # most payloads are already clean: let the C encoder check them
-        return json.dumps(value, allow_nan=False)
+    try:  # most payloads are already clean: let the C encoder check them (no cycles in ours)
+        return json.dumps(value, allow_nan=False, check_circular=False)
     except (ValueError, TypeError):
-        return json.dumps(clean(value), allow_nan=False)
+        return json.dumps(clean(value), allow_nan=False, check_circular=False)
 
 
 def load_study(path: Path):
@@ -300,8 +301,16 @@ def demo(
     raise typer.Exit(code)
 
 
+#: First-generation threshold of the cyclic garbage collector for one command. A check builds
+#: tens of thousands of short-lived acyclic objects; at Python's default (700) the collector
+#: ran 168 times (0.046 s) in a 2,061-circuit check, at this threshold 18 times (0.024 s, mostly
+#: while importing). Cycles (the report's figures) are still collected.
+GC_THRESHOLD = 50_000
+
+
 def main() -> None:
     """Console entry point: usage errors, like input errors, are one line and exit code 2."""
+    gc.set_threshold(GC_THRESHOLD, *gc.get_threshold()[1:])
     try:
         code = app(prog_name="coordination", standalone_mode=False)
     except typer.Abort:

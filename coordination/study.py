@@ -20,10 +20,11 @@ from __future__ import annotations
 
 import difflib
 import math
-import tomllib
 from collections.abc import Mapping, Sequence
 from pathlib import Path
 from typing import Any
+
+import tomli
 
 from coordination import cables
 from coordination.model import SUPPLY_ID, Cable, Circuit, Study, Supply, Transformer
@@ -425,7 +426,7 @@ def from_dict(data: Any, source: str | None = None) -> Study:
     Parameters
     ----------
     data : dict
-        The document as ``tomllib`` returns it (keys of the study-file contract).
+        The document as a TOML parser returns it (keys of the study-file contract).
     source : str, optional
         Where it came from (a path), kept in ``Study.source``.
 
@@ -563,7 +564,8 @@ def loads(text: str, source: str | None = None) -> Study:
 
     References
     ----------
-    TOML 1.0 (tomllib); study-file contract, version 1 (DESIGN.md).
+    TOML 1.0 (parsed by tomli, of which the standard library's tomllib is a copy); study-file
+    contract, version 1 (DESIGN.md).
 
     Examples
     --------
@@ -577,8 +579,8 @@ def loads(text: str, source: str | None = None) -> Study:
         raise InputError(f"{name} is empty; a study needs a [supply] table and [[circuit]] "
                          "tables")
     try:
-        data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as error:
+        data = tomli.loads(text)
+    except tomli.TOMLDecodeError as error:
         raise InputError(f"{name} is not valid TOML: {error}") from None
     return from_dict(data, source=source)
 
