@@ -732,7 +732,8 @@ def format_table(study: Study, levels: Any, analysis: Analysis) -> str:
             previous = p.downstream
             rows.append([
                 p.downstream if first else "", p.downstream_device if first else "",
-                f"{p.upstream_span} ({p.upstream_device})",
+                f"{p.upstream} ({p.upstream_device})" if p.upstream_count == 1 else
+                f"{p.upstream} to {p.upstream_last} ({p.upstream_count} x {p.upstream_device})",
                 _VERDICT_TEXT[p.verdict], _ka(p.limit_a) if p.verdict != "total" else "-",
                 f"{format_current(p.window_a[0])} - {format_current(p.window_a[1])}",
                 p.decided_by, bases,

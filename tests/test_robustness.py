@@ -325,6 +325,13 @@ def test_deep_chain_of_5000_alike_devices_checks_in_one_row_per_circuit(tmp_path
             deepest["upstream_count"]) == ("n4999", "n4998", "n0", 4999)
 
 
+def test_the_table_names_both_ends_of_a_run_and_counts_every_pair(tmp_path):
+    result = run("check", write(tmp_path, chain(4)))
+    assert result.exit_code in (0, 1), result.output
+    assert "n2 to n0 (3 x gG100)" in result.stdout
+    assert "selectivity: 6 pairs" in result.stdout  # 1 + 2 + 3, in three rows
+
+
 def test_chain_of_differing_devices_lists_every_pair(tmp_path):
     # no two devices in a row alike: one row per (ancestor, circuit) pair
     depth = 40
