@@ -20,7 +20,7 @@ from __future__ import annotations
 
 import math
 import os
-from collections.abc import Mapping, Sequence
+from collections.abc import Sequence
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
@@ -29,7 +29,7 @@ from coordination.checks import k_factor
 from coordination.devices import band_for
 from coordination.io import atomic_path
 from coordination.model import Cable, Study
-from coordination.text import format_current, format_seconds
+from coordination.text import format_current, format_seconds, positive_or_none
 from curves.band import TIME_CEILING_S, TIME_FLOOR_S, Band
 from curves.errors import InputError
 
@@ -88,38 +88,12 @@ def withstand_time(current_a: Any, k: float, csa_mm2: float) -> np.ndarray:
 
 
 # -- helpers -----------------------------------------------------------------------------------
-def _finite(value: Any) -> float | None:
-    if value is None:
-        return None
-    try:
-        v = float(value)
-    except (TypeError, ValueError):
-        return None
-    return v if math.isfinite(v) and v > 0 else None
-
-
 def _chain(study: Study, circuit_id: str) -> tuple[str, ...]:
     """The circuit and every circuit above it, nearest first."""
     if circuit_id not in study.by_id:
         raise InputError(f"no circuit {circuit_id!r} in the study; give one of its circuit ids",
                          key="--circuit")
     return (circuit_id, *study.ancestors(circuit_id))
-
-
-def _drawn(chain: Sequence[str], bands: Mapping[str, Band]) -> list[tuple[str, str, int]]:
-    """``(first, last, count)`` per band drawn: the circuit, then each run of alike devices above.
-
-    A run of ancestors with one device is one band on the plot (and one row of the engine's
-    results), so a deep chain of alike devices draws as two bands.
-    """
-    out: list[tuple[str, str, int]] = [(chain[0], chain[0], 1)]
-    for cid in chain[1:]:
-        first, _, count = out[-1]
-        if len(out) > 1 and bands[first] is bands[cid]:
-            out[-1] = (first, cid, count + 1)
-        else:
-            out.append((cid, cid, 1))
-    return out
 
 
 def _current_grid(band: Band, i_lo: float, i_hi: float, points: int = 500) -> np.ndarray:
@@ -131,7 +105,7 @@ def _current_grid(band: Band, i_lo: float, i_hi: float, points: int = 500) -> np
     corners = [band.pickup_max_a, band.instantaneous_a]
     for key in ("Isd_a", "Ii_a"):
         corners.append(band.settings.get(key))
-    extra = [c * f for c in corners if _finite(c) for f in (1 - 1e-6, 1 + 1e-6)
+    extra = [c * f for c in corners if positive_or_none(c) for f in (1 - 1e-6, 1 + 1e-6)
              if start < c * f < i_hi]
     return np.unique(np.concatenate([grid, np.asarray(extra, dtype=np.float64)]))
 
@@ -264,16 +238,20 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
         basis = getattr(analysis, "basis", None)
     chain = _chain(study, circuit_id)
     bands = {cid: band_for(study, cid, basis) for cid in chain}
-    drawn = _drawn(chain, bands)
+    # the circuit, then the engine's rows above it: ancestors in a row with one device are one
+    # row there, and one band here (first, last, count)
+    drawn = [(circuit_id, circuit_id, 1)] + [
+        (p.upstream, p.upstream_last or p.upstream, p.upstream_count)
+        for p in analysis.for_circuit(circuit_id)]
     node = levels.by_circuit.get(circuit_id)
     circuit = study.by_id[circuit_id]
 
     # -- current span: below the smallest pickup to a bit past the largest fault in the chain
-    faults_a = [_finite(getattr(levels.by_circuit.get(cid), "ik_max_a", None)) for cid in chain]
-    faults_a += [_finite(getattr(levels.by_circuit.get(cid), "ik3_max_a", None)) for cid in chain]
+    faults_a = [positive_or_none(getattr(levels.by_circuit.get(cid), key, None))
+                for key in ("ik_max_a", "ik3_max_a") for cid in chain]
     faults_a = [f for f in faults_a if f]
-    lows = [v for v in (*(_finite(b.pickup_min_a) for b in bands.values()),
-                        _finite(circuit.load_a)) if v]
+    lows = [v for v in (*(positive_or_none(b.pickup_min_a) for b in bands.values()),
+                        positive_or_none(circuit.load_a)) if v]
     i_min = 10.0 ** math.floor(math.log10(0.7 * min(lows))) if lows else 1.0
     top = max(faults_a) if faults_a else 100.0 * max(b.rating_a for b in bands.values())
     i_max = 10.0 ** math.ceil(math.log10(1.3 * top))
@@ -327,7 +305,7 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
             continue
         name = f"{pair.upstream}>{pair.downstream}"
         polys = _geometry_polygons(engine.overlap(study, levels, pair, basis))
-        limit = _finite(pair.limit_a)
+        limit = positive_or_none(pair.limit_a)
         if polys:
             where = f", Is {format_current(limit)}" if limit is not None else ""
             ax.add_patch(_zone_patch(
@@ -354,11 +332,11 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
     # -- vertical markers
     board = study.board_name(circuit_id)
     markers = [
-        ("max-fault", _finite(getattr(node, "ik_max_a", None)),
+        ("max-fault", positive_or_none(getattr(node, "ik_max_a", None)),
          "maximum fault at {board}: {i}"),
-        ("min-earth-fault", _finite(getattr(node, "ief_min_a", None)),
+        ("min-earth-fault", positive_or_none(getattr(node, "ief_min_a", None)),
          "minimum earth fault at the far end: {i}"),
-        ("load", _finite(circuit.load_a), "design current Ib: {i}"),
+        ("load", positive_or_none(circuit.load_a), "design current Ib: {i}"),
     ]
     for key, current, text in markers:
         if current is None:

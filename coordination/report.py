@@ -35,7 +35,7 @@ from typing import TYPE_CHECKING, Any
 from coordination import CAUTION, __version__
 from coordination.io import atomic_path, check_output_path
 from coordination.model import Study
-from coordination.text import format_current
+from coordination.text import finite_or_none, format_current
 from curves.errors import InputError
 
 if TYPE_CHECKING:  # pragma: no cover
@@ -94,31 +94,21 @@ class ReportSummary:
 
 
 # -- small formatting helpers -------------------------------------------------------------------
-def _num(value: Any) -> float | None:
-    if value is None:
-        return None
-    try:
-        v = float(value)
-    except (TypeError, ValueError):
-        return None
-    return v if math.isfinite(v) else None
-
-
 def _ka(value: Any) -> str:
     """A current in kA to three significant figures, for the tables; "-" when unknown."""
-    v = _num(value)
+    v = finite_or_none(value)
     if v is None:
         return "-"
     return f"{v / 1000:.3g}"
 
 
 def _ohm(value: Any) -> str:
-    v = _num(value)
+    v = finite_or_none(value)
     return "-" if v is None else f"{v:.3g}"
 
 
 def _value(value: Any, unit: str) -> str:
-    v = _num(value)
+    v = finite_or_none(value)
     if v is None:
         return "never" if unit == "s" and value is not None else "-"
     if unit == "s":
@@ -340,8 +330,9 @@ def _worst_key(analysis: Any, circuit_id: str, rating: float) -> tuple:
     pairs = analysis.for_circuit(circuit_id)
     if not pairs:
         return (3, math.inf, -rating)
-    worst = min(pairs, key=lambda p: (VERDICT_RANK[p.verdict], _num(p.limit_a) or math.inf))
-    return (VERDICT_RANK[worst.verdict], _num(worst.limit_a) or math.inf, -rating)
+    worst = min(pairs, key=lambda p: (VERDICT_RANK[p.verdict],
+                                      finite_or_none(p.limit_a) or math.inf))
+    return (VERDICT_RANK[worst.verdict], finite_or_none(worst.limit_a) or math.inf, -rating)
 
 
 @dataclass(frozen=True)
@@ -388,8 +379,8 @@ def _severity(analysis: Any, circuit_id: str) -> tuple[int, float]:
     for p in analysis.for_circuit(circuit_id):
         if p.verdict == "total":
             continue
-        top = _num(p.window_a[1]) or 1.0
-        worst = min(worst, (VERDICT_RANK[p.verdict], (_num(p.limit_a) or 0.0) / top))
+        top = finite_or_none(p.window_a[1]) or 1.0
+        worst = min(worst, (VERDICT_RANK[p.verdict], (finite_or_none(p.limit_a) or 0.0) / top))
     return worst
 
 
@@ -602,9 +593,9 @@ def _supply_lines(study: Study, levels: Any) -> list[str]:
     if s.ze_ohm is not None:
         lines.append(f"external earth-fault loop impedance Ze {s.ze_ohm:g} \u03a9")
     lines.append(f"voltage factors cmax {s.c_max:g}, cmin {s.c_min:g} (IEC 60909-0 Table 1)")
-    ik3 = _num(getattr(levels, "origin_ik3_a", None))
-    ik1 = _num(getattr(levels, "origin_ik1_a", None))
-    ze = _num(getattr(levels, "ze_ohm", None))
+    ik3 = finite_or_none(getattr(levels, "origin_ik3_a", None))
+    ik1 = finite_or_none(getattr(levels, "origin_ik1_a", None))
+    ze = finite_or_none(getattr(levels, "ze_ohm", None))
     origin = []
     if ik3:
         origin.append(f"Ik3 max {ik3 / 1000:.3g} kA")

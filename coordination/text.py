@@ -4,8 +4,34 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
+from typing import Any
 
 from curves.band import Band
+
+
+def finite_or_none(value: Any) -> float | None:
+    """``float(value)`` when it is a finite number, else ``None`` (for optional numbers shown).
+
+    >>> print(finite_or_none("2.5"), finite_or_none(float("inf")), finite_or_none("x"))
+    2.5 None None
+    """
+    if value is None:
+        return None
+    try:
+        v = float(value)
+    except (TypeError, ValueError):
+        return None
+    return v if math.isfinite(v) else None
+
+
+def positive_or_none(value: Any) -> float | None:
+    """:func:`finite_or_none`, and ``None`` also for zero or less (currents drawn on log axes).
+
+    >>> print(positive_or_none(0.0), positive_or_none(16))
+    None 16.0
+    """
+    v = finite_or_none(value)
+    return v if v is not None and v > 0 else None
 
 
 def format_seconds(t: float | None) -> str:
