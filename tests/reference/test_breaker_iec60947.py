@@ -64,6 +64,15 @@ def el(In_a, basis, **kw):
     return electronic_band(In_a=In_a, basis=basis, **kw)
 
 
+def assert_conventional(band, ir, t_conv):
+    """Conventional non-tripping and tripping currents of a release set to ``ir``."""
+    assert band.conventional_time_s == t_conv
+    assert band.t_min(NON_TRIPPING_X * ir) >= t_conv
+    assert band.t_max(TRIPPING_X * ir) <= t_conv
+    assert band.pickup_min_a >= NON_TRIPPING_X * ir * BELOW
+    assert band.pickup_max_a <= TRIPPING_X * ir * ABOVE
+
+
 # -- conventional currents ---------------------------------------------------------------------
 # IEC 60947-2, 7.2.1.2.4, Table 6: at 1.05 Ir no trip within the conventional time; at 1.30 Ir
 # trip within it; 1 h (In <= 63 A) / 2 h (In > 63 A).
@@ -73,11 +82,7 @@ def el(In_a, basis, **kw):
 def test_thermal_magnetic_conventional_currents(In_a, t_conv, ir_x, basis):
     band = tm(In_a, basis, Ir_x=ir_x)
     ir = ir_x * In_a
-    assert band.conventional_time_s == t_conv
-    assert band.t_min(NON_TRIPPING_X * ir) >= t_conv
-    assert band.t_max(TRIPPING_X * ir) <= t_conv
-    assert band.pickup_min_a >= NON_TRIPPING_X * ir * BELOW
-    assert band.pickup_max_a <= TRIPPING_X * ir * ABOVE
+    assert_conventional(band, ir, t_conv)
 
 
 # IEC 60947-2, 7.2.1.2.4, Table 6 (long-time release of an electronic unit): same conventional
@@ -88,11 +93,7 @@ def test_thermal_magnetic_conventional_currents(In_a, t_conv, ir_x, basis):
 def test_electronic_conventional_currents(In_a, t_conv, ir_x, tr_s, basis):
     band = el(In_a, basis, Ir_x=ir_x, tr_s=tr_s, Isd_x=10, tsd_s=0.4)
     ir = ir_x * In_a
-    assert band.conventional_time_s == t_conv
-    assert band.t_min(NON_TRIPPING_X * ir) >= t_conv
-    assert band.t_max(TRIPPING_X * ir) <= t_conv
-    assert band.pickup_min_a >= NON_TRIPPING_X * ir * BELOW
-    assert band.pickup_max_a <= TRIPPING_X * ir * ABOVE
+    assert_conventional(band, ir, t_conv)
 
 
 # IEC 60947-2, Table 6: between the conventional currents the standard lets a device either
