@@ -290,6 +290,22 @@ def test_python_api_and_json_agree(tmp_path):
     assert cli_nodes == api_nodes
 
 
+def test_json_writes_never_as_null_and_plain_values_of_any_kind():
+    # DESIGN.md, JSON contract: a time that does not exist ("never") is null
+    from types import MappingProxyType
+
+    import numpy as np
+
+    from coordination.cli import to_json
+
+    value = {"t_s": math.inf, "x": math.nan, "i_a": np.float64(12.5), "n": np.int64(3),
+             "edges_s": np.array([1.0, np.inf]), "details": MappingProxyType({"k": 115.0}),
+             "window_a": (18.5, 7890.0), 4: "int key"}
+    assert json.loads(to_json(value)) == {
+        "t_s": None, "x": None, "i_a": 12.5, "n": 3, "edges_s": [1.0, None],
+        "details": {"k": 115.0}, "window_a": [18.5, 7890.0], "4": "int key"}
+
+
 # -- scale: deep and wide trees never recurse ------------------------------------------------------
 def test_deep_chain_of_5000_loads_and_computes_faults(tmp_path):
     from coordination import faults, study
