@@ -1,9 +1,10 @@
 """Load and validate a study file (TOML) into the frozen dataclasses of :mod:`coordination.model`.
 
 Every problem raises :class:`curves.errors.InputError` naming the circuit and the key and saying
-what is allowed; a misspelt key gets the nearest valid one suggested. Circuits come back ordered
-parents first (an iterative depth-first walk from the supply, siblings in file order), so a
-5,000-deep chain loads without recursion.
+what is allowed; a key written in the wrong table is told the table it belongs in, and a misspelt
+key gets the nearest valid one suggested. Circuits come back ordered parents first (an iterative
+depth-first walk from the supply, siblings in file order), so a 5,000-deep chain loads without
+recursion.
 
 Keys (units in every name that carries a number)::
 
@@ -84,11 +85,105 @@ def _suggest(key: str, allowed: Sequence[str]) -> str:
     return f"unknown key {key!r}; {hint}allowed: {', '.join(allowed)}"
 
 
+#: The study file's tables by dotted name ("" is the top level), with the keys each one takes.
+TABLES: dict[str, tuple[str, ...]] = {
+    "": TOP_KEYS,
+    "study": STUDY_KEYS,
+    "supply": SUPPLY_KEYS,
+    "supply.transformer": TRANSFORMER_KEYS,
+    "circuit": CIRCUIT_KEYS,
+    "circuit.cable": CABLE_KEYS,
+}
+#: What a table's keys are called in messages.
+_KIND = {"": "top-level", "study": "study", "supply": "supply",
+         "supply.transformer": "transformer", "circuit": "circuit", "circuit.cable": "cable",
+         "device": "device"}
+#: Where to look for a key that is unknown in a table, nearest table first.
+_ELSEWHERE = {
+    "": ("study", "supply", "supply.transformer", "circuit", "circuit.cable", "device"),
+    "study": ("supply", "supply.transformer", "circuit", "circuit.cable", "device"),
+    "supply": ("supply.transformer", "study", "circuit", "circuit.cable", "device"),
+    "supply.transformer": ("supply", "study", "circuit", "circuit.cable", "device"),
+    "circuit": ("circuit.cable", "device", "study", "supply", "supply.transformer"),
+    "circuit.cable": ("circuit", "device", "study", "supply", "supply.transformer"),
+}
+
+
+def _keys_of(table: str) -> tuple[str, ...]:
+    """The keys of a study-file table, or of a device's inline table (``"device"``)."""
+    if table != "device":
+        return TABLES[table]
+    try:
+        from curves.spec import FAMILY_KEYS
+    except ImportError:  # pragma: no cover - the device families are not installed yet
+        return ()
+    return ("family", *dict.fromkeys(k for keys in FAMILY_KEYS.values() for k in keys))
+
+
+def _header(table: str) -> str:
+    return "[[circuit]]" if table == "circuit" else f"[{table}]"
+
+
+def _home(key: str, table: str, here: str) -> str:
+    """Where ``key`` of ``table`` is written, said to someone who wrote it in ``here``."""
+    if table == "device":
+        whose = "this circuit's" if here in ("circuit", "circuit.cable") else "a circuit's"
+        return (f"{whose} device table, as a setting of the protective device: "
+                f"device = {{ family = ..., {key} = ... }}")
+    sub = f"{table}.{key}"
+    if sub in TABLES:  # a whole table written in the wrong place, e.g. [cable]
+        if table == "circuit":
+            return f"a circuit: write {_header(sub)} below that circuit's [[circuit]] keys"
+        return f"{_header(table)}: write {_header(sub)} below the {_header(table)} keys"
+    if here.startswith(f"{table}."):  # a parent's key written below a child table's header
+        owner = "this circuit's [[circuit]] table" if table == "circuit" else _header(table)
+        return (f"{owner}: move it above the {_header(here)} line, since in TOML every key "
+                "below a table header belongs to that table")
+    if table == "circuit":
+        return "a [[circuit]] table, with the circuit's id, from and device"
+    if table == "circuit.cable":
+        where = "this circuit's" if here == "circuit" else "a circuit's"
+        return f"{_header(table)}: write it below {where} [circuit.cable] line"
+    return f"{_header(table)}: write it below the {_header(table)} line"
+
+
+def _unknown(key: str, here: str, allowed: Sequence[str]) -> str:
+    """The message for a key that ``here`` does not take: where it belongs, else the nearest key.
+
+    A key that is exactly a key of another table says which table; a misspelling gets the
+    nearest key of this table (difflib), else the nearest key of another table and its home.
+
+    Examples
+    --------
+    >>> print(_unknown("iz_a", "circuit", ("id", "from")))  # doctest: +NORMALIZE_WHITESPACE
+    'iz_a' is not a circuit key; it belongs in [circuit.cable]: write it below this circuit's
+    [circuit.cable] line; allowed circuit keys: id, from
+    """
+    kind = _KIND[here]
+    listed = f"; allowed {kind} keys: {', '.join(allowed)}"
+    others = [(t, _keys_of(t)) for t in _ELSEWHERE[here]]
+    for table, keys in others:
+        if key in keys:
+            return f"{key!r} is not a {kind} key; it belongs in {_home(key, table, here)}{listed}"
+    lowered = {a.lower(): a for a in allowed}
+    if difflib.get_close_matches(key.lower(), list(lowered), n=1, cutoff=0.6):
+        return _suggest(key, allowed)
+    homes: dict[str, tuple[str, str]] = {}  # lowered key -> (key, its nearest table)
+    for table, keys in reversed(others):
+        homes.update((k.lower(), (k, table)) for k in keys)
+    near = difflib.get_close_matches(key.lower(), list(homes), n=1, cutoff=0.6)
+    if near:
+        right, table = homes[near[0]]
+        return (f"unknown key {key!r}; did you mean {right!r}? it is a {_KIND[table]} key and "
+                f"belongs in {_home(right, table, here)}{listed}")
+    return _suggest(key, allowed)
+
+
 class _Table:
     """One TOML table being read: unknown keys are refused first, then each value is typed."""
 
     def __init__(self, data: Any, allowed: Sequence[str], *, circuit: str | None = None,
-                 prefix: str = "", name: str = "") -> None:
+                 prefix: str = "", name: str = "", table: str | None = None) -> None:
         self.circuit = circuit
         self.prefix = prefix
         if not isinstance(data, Mapping):
@@ -98,7 +193,9 @@ class _Table:
         self.data = data
         for key in data:
             if key not in allowed:
-                raise InputError(_suggest(str(key), allowed), circuit=circuit,
+                problem = (_unknown(str(key), table, allowed) if table is not None
+                           else _suggest(str(key), allowed))
+                raise InputError(problem, circuit=circuit,
                                  key=f"{prefix}{key}")
 
     def error(self, key: str, problem: str) -> InputError:
@@ -186,7 +283,7 @@ class _Table:
 
 # ---------------------------------------------------------------------------------------------
 def _study_table(data: Any, source: str | None) -> dict[str, Any]:
-    t = _Table(data, STUDY_KEYS, prefix="study.", name="[study]")
+    t = _Table(data, STUDY_KEYS, prefix="study.", name="[study]", table="study")
     title = t.text("title", what="a text (the study's title)")
     if title is None:
         title = Path(source).stem if source else "untitled study"
@@ -201,7 +298,8 @@ def _study_table(data: Any, source: str | None) -> dict[str, Any]:
 
 
 def _transformer(data: Any) -> Transformer:
-    t = _Table(data, TRANSFORMER_KEYS, prefix="supply.transformer.", name="[supply.transformer]")
+    t = _Table(data, TRANSFORMER_KEYS, prefix="supply.transformer.", name="[supply.transformer]",
+               table="supply.transformer")
     return Transformer(
         rating_kva=t.number("rating_kva", unit="kVA", lo=0.0, hi=10000.0, required=True),
         impedance_pct=t.number("impedance_pct", unit="%", lo=0.0, hi=25.0, required=True),
@@ -214,7 +312,7 @@ def _transformer(data: Any) -> Transformer:
 
 
 def _supply(data: Any) -> Supply:
-    t = _Table(data, SUPPLY_KEYS, prefix="supply.", name="[supply]")
+    t = _Table(data, SUPPLY_KEYS, prefix="supply.", name="[supply]", table="supply")
     phases = t.integer("phases", choices=(1, 3), default=3)
     earthing = t.choice("earthing", EARTHING_SYSTEMS, default="TN-C-S")
     pfc_a = t.number("pfc_a", unit="A", lo=0.0, hi=MAX_CURRENT_A)
@@ -291,7 +389,8 @@ def _cable(data: Any, circuit: str) -> Cable:
 
 
 def _validated_cable(data: Any, circuit: str) -> Cable:
-    t = _Table(data, CABLE_KEYS, circuit=circuit, prefix="cable.", name="[circuit.cable]")
+    t = _Table(data, CABLE_KEYS, circuit=circuit, prefix="cable.", name="[circuit.cable]",
+               table="circuit.cable")
     material = t.choice("material", cables.MATERIALS, default="copper",
                         aliases=cables.MATERIAL_ALIASES)
     cpc_material = t.choice("cpc_material", cables.MATERIALS, aliases=cables.MATERIAL_ALIASES)
@@ -319,6 +418,11 @@ def _circuit_id(raw: Any, number: int) -> str:
     if not isinstance(raw, Mapping):
         raise InputError(f"{where} is {_describe(raw)}, not a table; write each circuit as a "
                          "[[circuit]] table", key="circuit")
+    cable = raw.get("cable")
+    if "id" not in raw and isinstance(cable, Mapping) and "id" in cable:
+        raise InputError(f"{where}: its id is written below its [circuit.cable] line, where it "
+                         "is read as a cable key; move it above that line, since in TOML every "
+                         "key below a table header belongs to that table", key="cable.id")
     if "id" not in raw:
         raise InputError(f"{where} has no id; every circuit needs a unique id (a text)",
                          key="id")
@@ -336,7 +440,10 @@ def _circuit_id(raw: Any, number: int) -> str:
 
 
 def _circuit_fields(raw: Mapping[str, Any], cid: str) -> dict[str, Any]:
-    t = _Table(raw, CIRCUIT_KEYS, circuit=cid)
+    t = _Table(raw, CIRCUIT_KEYS, circuit=cid, table="circuit")
+    if isinstance(raw.get("cable"), Mapping):  # a circuit key below [circuit.cable], such as
+        # 'from' or 'device', is named there before it is reported missing here
+        _Table(raw["cable"], CABLE_KEYS, circuit=cid, prefix="cable.", table="circuit.cable")
     parent = t.text("from", required=True,
                     what="the id of the circuit that feeds this one's board, or 'supply'")
     if not t.has("device"):
@@ -452,7 +559,7 @@ def from_dict(data: Any, source: str | None = None) -> Study:
     >>> print(s.supply.pfc_a)
     16000.0
     """
-    top = _Table(data, TOP_KEYS, name="the study")
+    top = _Table(data, TOP_KEYS, name="the study", table="")
     study_fields = _study_table(data.get("study", {}), source)
     if not top.has("supply"):
         raise InputError("missing [supply] table; give u0_v, phases, earthing and one of pfc_a, "

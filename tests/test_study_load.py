@@ -3,6 +3,8 @@ command line: the message names circuit, key and what is allowed; exit code 2; n
 
 from __future__ import annotations
 
+import subprocess
+import sys
 from pathlib import Path
 
 import pytest
@@ -199,6 +201,114 @@ def test_bad_input_cli(label: str, text: str, circuit: str | None, key: str,
     assert "Traceback" not in result.stderr
     assert not isinstance(result.exception, Exception) or isinstance(result.exception,
                                                                      SystemExit)
+
+
+ROOT = Path(__file__).resolve().parents[1]
+TRANSFORMER = "[supply.transformer]\nrating_kva = 500\nimpedance_pct = 4\n"
+CABLE = "length_m = 25\ncsa_mm2 = 4\ncpc_mm2 = 1.5\n"
+
+# A key written in the wrong table: (label, text, circuit, key, fragments of the message,
+# fragments the message must not carry)
+MISPLACED = [
+    ("cable key at the circuit level", doc(circuits=INCOMER + final(extra="iz_a = 24\n")),
+     "sockets", "iz_a",
+     ["'iz_a' is not a circuit key", "it belongs in [circuit.cable]",
+      "allowed circuit keys: id, from, device, load_a"], ["did you mean", "cable keys"]),
+    ("circuit key below the cable header",
+     doc(circuits=INCOMER + final(cable=CABLE + "load_a = 20\n")), "sockets", "cable.load_a",
+     ["'load_a' is not a cable key", "it belongs in this circuit's [[circuit]] table",
+      "move it above the [circuit.cable] line", "allowed cable keys: length_m, csa_mm2"],
+     ["did you mean"]),
+    ("device below the cable header",  # named there, not reported as a missing device
+     doc(circuits=INCOMER + final(cable=CABLE + 'device = "B6"\n').replace(
+         'device = "B32"\n', "")), "sockets", "cable.device",
+     ["'device' is not a cable key", "above the [circuit.cable] line"], ["missing"]),
+    ("id below the cable header",
+     doc(circuits=INCOMER + final(cable=CABLE + 'id = "x"\n').replace('id = "sockets"\n', "")),
+     None, "cable.id", ["number 2", "below its [circuit.cable] line", "move it above"],
+     ["has no id"]),
+    ("supply key below the transformer header",
+     doc(supply='[supply]\nu0_v = 230\n' + TRANSFORMER + 'earthing = "TN-S"\n'), None,
+     "supply.transformer.earthing",
+     ["'earthing' is not a transformer key", "it belongs in [supply]",
+      "move it above the [supply.transformer] line", "allowed transformer keys: rating_kva"],
+     ["did you mean"]),
+    ("transformer key in the supply table",
+     doc(supply='[supply]\nze_ohm = 0.35\nimpedance_pct = 4\n'), None,
+     "supply.impedance_pct",
+     ["'impedance_pct' is not a supply key", "it belongs in [supply.transformer]",
+      "allowed supply keys: u0_v, phases"], ["did you mean"]),
+    ("study key in the supply table", doc(supply=SUPPLY + "margin = 1.2\n"), None,
+     "supply.margin", ["'margin' is not a supply key", "it belongs in [study]"], []),
+    ("supply key in the study table", doc(head="[study]\nze_ohm = 0.35\n"), None,
+     "study.ze_ohm",
+     ["'ze_ohm' is not a study key", "it belongs in [supply]",
+      "allowed study keys: title, basis, margin, interval_s"], []),
+    ("study key above every table", 'title = "x"\n' + GOOD, None, "title",
+     ["'title' is not a top-level key", "it belongs in [study]",
+      "allowed top-level keys: study, supply, circuit"], []),
+    ("supply key above every table", "u0_v = 230\n" + GOOD, None, "u0_v",
+     ["'u0_v' is not a top-level key", "it belongs in [supply]"], []),
+    ("cable table without its circuit", GOOD + "[cable]\nlength_m = 5\n", None, "cable",
+     ["'cable' is not a top-level key", "[circuit.cable]"], []),
+    ("cable key in the supply table", doc(supply=SUPPLY + "csa_mm2 = 4\n"), None,
+     "supply.csa_mm2", ["'csa_mm2' is not a supply key", "it belongs in [circuit.cable]"], []),
+    ("device setting at the circuit level",
+     doc(circuits=INCOMER + final(extra="icn_a = 10000\n")), "sockets", "icn_a",
+     ["'icn_a' is not a circuit key", "device table", "device = { family = ..., icn_a = ... }"],
+     []),
+    # a misspelling: the nearest key of this table first, else of another table with its home
+    ("misspelt cable key at the circuit level",
+     doc(circuits=INCOMER + final(extra="iz = 24\n")), "sockets", "iz",
+     ["unknown key 'iz'", "did you mean 'iz_a'? it is a cable key", "belongs in [circuit.cable]",
+      "allowed circuit keys:"], []),
+    ("misspelt circuit key keeps its own suggestion",
+     doc(circuits=INCOMER + final(extra="lod_a = 20\n")), "sockets", "lod_a",
+     ["did you mean 'load_a'?", "allowed: id, from"], ["belongs in"]),
+    ("unknown key with nothing near", doc(circuits=INCOMER + final(extra="zzz = 1\n")),
+     "sockets", "zzz", ["unknown key 'zzz'; allowed: id, from"], ["did you mean", "belongs"]),
+]
+
+
+@pytest.mark.parametrize(("label", "text", "circuit", "key", "fragments", "absent"), MISPLACED,
+                         ids=[m[0] for m in MISPLACED])
+def test_misplaced_key_names_its_table_api(label: str, text: str, circuit: str | None,
+                                           key: str, fragments: list[str],
+                                           absent: list[str]) -> None:
+    with pytest.raises(InputError) as info:
+        study.loads(text)
+    error = info.value
+    assert (error.circuit, error.key) == (circuit, key)
+    message = str(error)
+    assert "\n" not in message
+    for fragment in fragments:
+        assert fragment in message
+    for fragment in absent:
+        assert fragment not in message
+    if circuit is not None:
+        assert message.startswith(f"circuit '{circuit}', key '{key}': ")
+
+
+@pytest.mark.parametrize(("label", "text", "circuit", "key", "fragments", "absent"), MISPLACED,
+                         ids=[m[0] for m in MISPLACED])
+def test_misplaced_key_names_its_table_cli(label: str, text: str, circuit: str | None,
+                                           key: str, fragments: list[str], absent: list[str],
+                                           tmp_path: Path) -> None:
+    path = tmp_path / "misplaced.toml"
+    path.write_text(text, encoding="utf-8")
+    result = subprocess.run([sys.executable, "-m", "coordination", "check", str(path)],
+                            capture_output=True, text=True, cwd=ROOT, timeout=120)
+    assert result.returncode == 2
+    assert result.stdout == ""
+    lines = result.stderr.strip().splitlines()
+    assert len(lines) == 1
+    assert lines[0].startswith("error: ")
+    if circuit is not None:
+        assert f"circuit '{circuit}'" in lines[0]
+    assert f"key '{key}'" in lines[0]
+    for fragment in fragments:
+        assert fragment in lines[0]
+    assert "Traceback" not in result.stderr
 
 
 def test_good_study_loads_with_the_contract_keys() -> None:
