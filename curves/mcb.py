@@ -72,6 +72,12 @@ MCB_BASES = ("typical", "envelope")
 #: points).
 TYPICAL_TOLERANCE = 0.10
 
+#: Standard values of rated short-circuit capacity Icn [A]: IEC 60898-1, 5.3.4 (1500, 3000, 4500,
+#: 6000, 10 000 A; above 10 000 A, 15 000, 20 000 and 25 000 A). REFERENCE.md: from memory
+#: (clause number from memory too).
+MCB_ICN_A: tuple[float, ...] = (1500.0, 3000.0, 4500.0, 6000.0, 10000.0, 15000.0, 20000.0,
+                                25000.0)
+
 #: Default rated short-circuit capacity Icn [A] (6 kA, a value of the IEC 60898-1 series).
 DEFAULT_ICN_A = 6000.0
 
@@ -348,6 +354,46 @@ def check_positive(value: object, key: str, what: str) -> float:
     return number
 
 
+def check_icn(icn_a: object) -> float:
+    """A rated short-circuit capacity Icn [A] from the IEC 60898-1 standard values.
+
+    Parameters
+    ----------
+    icn_a : float
+        Rated short-circuit capacity Icn [A].
+
+    Returns
+    -------
+    float
+        The value of :data:`MCB_ICN_A` it equals [A].
+
+    Raises
+    ------
+    InputError
+        Not a finite positive number, or not a standard value (key ``icn_a``); the message
+        lists the allowed values.
+
+    References
+    ----------
+    IEC 60898-1, 5.3.4, standard values of rated short-circuit capacity (from memory).
+
+    Examples
+    --------
+    >>> print(check_icn(10000))
+    10000.0
+    """
+    what = "rated short-circuit capacity Icn"
+    icn = check_positive(icn_a, "icn_a", what)
+    for value in MCB_ICN_A:
+        if abs(icn - value) <= 1e-9 * value:
+            return value
+    allowed = ", ".join(f"{v:g}" for v in MCB_ICN_A)
+    raise InputError(
+        f"{what} {icn:g} A is not a standard value of IEC 60898-1; allowed: {allowed} A",
+        key="icn_a",
+    )
+
+
 # -- the band ------------------------------------------------------------------------------------
 def mcb_band(
     curve_type: str,
@@ -371,7 +417,7 @@ def mcb_band(
     energy_class : int
         Energy-limiting class 1, 2 or 3 (EN 60898-1 Annex ZA).
     icn_a : float
-        Rated short-circuit capacity Icn [A].
+        Rated short-circuit capacity Icn [A], one of :data:`MCB_ICN_A`.
 
     Returns
     -------
@@ -384,7 +430,7 @@ def mcb_band(
     ------
     InputError
         Unknown type (key ``type``), rating not in the series (``In_a``), class not 1..3
-        (``energy_class``), Icn not a finite positive number (``icn_a``), unknown basis
+        (``energy_class``), Icn not one of :data:`MCB_ICN_A` (``icn_a``), unknown basis
         (``basis``).
 
     References
@@ -412,7 +458,7 @@ def mcb_band(
             key="energy_class",
         )
     cls = int(energy_class)
-    icn = check_positive(icn_a, "icn_a", "rated short-circuit capacity Icn")
+    icn = check_icn(icn_a)
     basis = check_basis(basis)
 
     # IEC 60898-1 table of time-current operating characteristics

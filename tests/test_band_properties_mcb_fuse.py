@@ -18,6 +18,8 @@ from curves.fuse import GG_RATINGS_A, gg_band
 from curves.mcb import MCB_INSTANTANEOUS, MCB_RATINGS_A, mcb_band
 
 BASES = ("typical", "envelope")
+#: IEC 60898-1 standard values of rated short-circuit capacity Icn [A] (REFERENCE.md, from memory).
+ICN_STANDARD_A = (1500.0, 3000.0, 4500.0, 6000.0, 10000.0, 15000.0, 20000.0, 25000.0)
 #: A dense current grid from 0.3 A to 300 kA (log-spaced).
 GRID_A = np.logspace(math.log10(0.3), math.log10(3e5), 6001)
 
@@ -185,7 +187,13 @@ bad_mcb = st.one_of(
                 "curve_type": st.just("D"),
                 "rating_a": st.just(16),
                 "icn_a": st.one_of(
-                    st.floats(max_value=0.0), st.just(math.inf), st.just(math.nan)
+                    st.floats(max_value=0.0),
+                    st.just(math.inf),
+                    st.just(math.nan),
+                    # IEC 60898-1 standard values of Icn only (from memory)
+                    st.floats(min_value=1.0, max_value=1e6).filter(
+                        lambda x: not any(abs(x - v) <= 1e-9 * v for v in ICN_STANDARD_A)
+                    ),
                 ),
             }
         ),

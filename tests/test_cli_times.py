@@ -4,6 +4,9 @@ from __future__ import annotations
 
 import json
 import math
+import subprocess
+import sys
+from pathlib import Path
 
 import pytest
 from typer.testing import CliRunner
@@ -46,6 +49,7 @@ def test_json_contract_and_null_for_never():
         assert p["t_min_s"] <= p["t_max_s"]
 
 
+# Our design (DESIGN.md command-line contract): the JSON carries the band's own edges.
 @pytest.mark.parametrize("spec", [TM, ELECTRONIC, DATASHEET, "B32"])
 def test_json_matches_the_band(spec):
     from curves.spec import band_from_spec, parse_inline
@@ -83,6 +87,9 @@ def test_readable_table():
     assert "Traceback" not in result.output
 
 
+# Our design (BRIEF, DESIGN.md): bad input gets one line and exit code 2; the series and grids
+# are IEC 60898-1 / IEC 60947-2 values or common practice, the Icn values IEC 60898-1 standard
+# values (from memory).
 @pytest.mark.parametrize(("args", "words"), [
     (["X32", *currents(100)], ["unknown device"]),
     (["B33", *currents(100)], ["allowed"]),
@@ -97,6 +104,9 @@ def test_readable_table():
     ([TM, "--current", "-5"], ["--current"]),
     ([TM, "--current", "0"], ["--current"]),
     ([TM, *currents(100), "--basis", "nominal"], ["--basis", "typical, envelope"]),
+    (["{family = 'mcb', type = 'B', In_a = 32, icn_a = 7000}", "-i", "100"],
+     ["icn_a", "allowed", "1500", "25000"]),
+    (["B32 7kA", "-i", "100"], ["icn_a", "allowed"]),
 ])
 def test_bad_input_one_line_exit_2(args, words):
     result = run(*args)
@@ -108,3 +118,18 @@ def test_bad_input_one_line_exit_2(args, words):
     assert "Traceback" not in result.output
     for word in words:
         assert word in err
+
+
+# IEC 60898-1 standard values of rated short-circuit capacity Icn (from memory): the module
+# entry point refuses 7000 A on one line with exit code 2.
+def test_non_standard_icn_through_python_m():
+    root = Path(__file__).resolve().parents[1]
+    proc = subprocess.run(
+        [sys.executable, "-m", "coordination", "times",
+         '{family="mcb", type="B", In_a=32, icn_a=7000}', "-i", "100"],
+        capture_output=True, text=True, cwd=root, check=False)
+    assert proc.returncode == 2
+    assert proc.stdout == ""
+    err = proc.stderr.strip()
+    assert "\n" not in err and "Traceback" not in err
+    assert "icn_a" in err and "allowed: 1500, 3000, 4500, 6000, 10000, 15000, 20000, 25000" in err

@@ -16,6 +16,7 @@ DATASHEET = {"family": "datasheet", "name": "invented feeder", "In_a": 630,
 
 
 # -- parse_inline ------------------------------------------------------------------------------
+# Our design (DESIGN.md): text starting with "{" is an inline TOML table, else trade shorthand.
 @pytest.mark.parametrize(("text", "expected"), [
     ("B32", "B32"),
     ("  gG100 \n", "gG100"),
@@ -27,6 +28,7 @@ def test_parse_inline(text, expected):
     assert parse_inline(text) == expected
 
 
+# Our design: empty text and broken TOML tables are refused on one line.
 @pytest.mark.parametrize("text", ["", "   ", "{family = 'tm', In_a = }", "{family = 'tm'",
                                   "{family = 'tm' In_a = 250}"])
 def test_parse_inline_refuses_bad_text(text):
@@ -50,10 +52,30 @@ def test_mcb_shorthand(text, curve_type, rating, inst_x):
     assert band.basis == "typical"
 
 
+# Common practice: trade shorthand with the breaking capacity in kA; the values are IEC 60898-1
+# standard values of Icn (from memory).
 @pytest.mark.parametrize(("text", "capacity_a"), [("C16 10kA", 10000.0), ("B32/4.5kA", 4500.0),
-                                                  ("D10, 15kA", 15000.0)])
+                                                  ("D10, 15kA", 15000.0), ("B6 25kA", 25000.0)])
 def test_mcb_shorthand_with_breaking_capacity(text, capacity_a):
     assert band_from_spec(text).breaking_capacity_a == pytest.approx(capacity_a, rel=1e-12)
+
+
+# IEC 60898-1 standard values of rated short-circuit capacity Icn: 1500, 3000, 4500, 6000,
+# 10 000, 15 000, 20 000, 25 000 A (from memory); any other value is refused with key icn_a.
+@pytest.mark.parametrize("spec", [
+    {"family": "mcb", "type": "B", "In_a": 32, "icn_a": 7000},
+    {"family": "mcb", "type": "C", "In_a": 16, "icn_a": 50000},
+    {"family": "mcb", "type": "D", "In_a": 10, "energy_class": 2, "icn_a": 12500},
+    "B32 7kA",
+    "C16/5kA",
+])
+def test_non_standard_icn_is_refused(spec):
+    with pytest.raises(InputError) as info:
+        band_from_spec(spec)
+    assert info.value.key == "icn_a"
+    message = str(info.value)
+    assert "\n" not in message
+    assert "allowed: 1500, 3000, 4500, 6000, 10000, 15000, 20000, 25000 A" in message
 
 
 def test_gg_shorthand():
@@ -68,6 +90,7 @@ def test_shorthand_and_table_give_the_same_band():
     assert band_from_spec({"family": "gG", "In_a": 63}) == band_from_spec("gG63")
 
 
+# Common practice: trade shorthand; ratings outside the series and unknown letters are refused.
 @pytest.mark.parametrize(("text", "key"), [
     ("B33", "In_a"),  # not in the MCB series (IEC 60898-1 ratings, common practice)
     ("gG99", "In_a"),
@@ -84,6 +107,7 @@ def test_bad_shorthand(text, key):
 
 
 # -- inline tables -----------------------------------------------------------------------------
+# Our design: inline tables for IEC 60947-2 breakers, with the trade terms for settings.
 @pytest.mark.parametrize(("spec", "family"), [
     (TM, "breaker-tm"), (ELECTRONIC, "breaker-electronic"),
     ({**TM, "family": "breaker-tm"}, "breaker-tm"),
@@ -107,12 +131,15 @@ def test_inline_text_is_accepted_by_band_from_spec():
     assert band_from_spec(text) == band_from_spec(TM)
 
 
+# Our design (DESIGN.md): a datasheet device has its own basis, whatever the study asks.
 @pytest.mark.parametrize("basis", ["typical", "envelope", "datasheet"])
 def test_datasheet_basis_whatever_is_asked(basis):
     band = band_from_spec(DATASHEET, basis=basis)
     assert (band.family, band.basis, band.name) == ("datasheet", "datasheet", "invented feeder")
 
 
+# Our design (BRIEF): bad tables name the key and what is allowed; the grids and series are
+# IEC 60947-2 / IEC 60898-1 / IEC 60269 values or common practice, as in curves/.
 @pytest.mark.parametrize(("spec", "key", "words"), [
     ({"In_a": 250}, "family", ["allowed", "tm"]),
     ({"family": "tmm", "In_a": 250}, "family", ["did you mean 'tm'"]),
@@ -153,6 +180,7 @@ def test_table_errors_name_key_and_what_is_allowed(spec, key, words):
         assert word in message
 
 
+# Our design (DESIGN.md): the two bases are "typical" and "envelope", spelled so.
 @pytest.mark.parametrize("basis", ["nominal", "", None, "Typical"])
 def test_unknown_basis(basis):
     with pytest.raises(InputError, match="typical, envelope"):
@@ -164,6 +192,7 @@ def test_datasheet_basis_refused_for_standard_devices():
         band_from_spec(TM, basis="datasheet")
 
 
+# Our design: a spec is text or a table, nothing else.
 @pytest.mark.parametrize("spec", [32, None, ["B32"]])
 def test_spec_of_the_wrong_type(spec):
     with pytest.raises(InputError, match="text or a table"):

@@ -14,6 +14,7 @@ from hypothesis import strategies as st
 
 from curves.band import TIME_FLOOR_S
 from curves.breaker import (
+    BREAKER_CLEARING_S,
     BREAKER_RATINGS_A,
     ELECTRONIC_II_X,
     ELECTRONIC_IR_FRACTIONS,
@@ -188,23 +189,25 @@ def test_short_time_i2t_ramp():
     assert ramp.t_max(i5) > flat.t_max(i5)
 
 
-# IEC 60947-2, short-time delay (common practice for the shape): with a short-time element and
-# no instantaneous release the unit holds any fault above the short-time pickup for tsd: from
-# the upper pickup limit (Isd + 10 %, from memory) up to 100 kA the lower edge is never below
-# tsd - 20 ms and the upper edge is the short-time clearing tsd (+ 20 ms, from memory) + the
-# breaker's clearing time, flat: the long-time I2t law does not go on getting faster. Rows:
-# (In [A], Ir / In, tr [s], Isd / Ir, tsd [s]), settings where tsd is faster than the long time
-# at Isd.
+# Rows: (In [A], Ir / In, tr [s], Isd / Ir, tsd [s]), settings where tsd is faster than the long
+# time at Isd (our own choice of settings on the grids).
 SHORT_TIME_UNITS = [(630, 1.0, 8, 6, 0.2), (400, 0.8, 0.5, 2, 0.1), (1600, 0.5, 24, 10, 0.4),
                     (250, 1.0, 2, 4, 0.3)]
+#: Highest prospective current the breaker tests look at [A].
+I_MAX_A = 200_000.0
 
 
+# IEC 60947-2, short-time delay (common practice for the shape): with a short-time element and
+# no instantaneous release the unit holds any fault above the short-time pickup for tsd: from
+# the upper pickup limit (Isd + 10 %, from memory) up to 200 kA the lower edge is never below
+# tsd - 20 ms and the upper edge is the short-time clearing tsd (+ 20 ms, from memory) + the
+# breaker's clearing time, flat: the long-time I2t law does not go on getting faster.
 @pytest.mark.parametrize("basis", BASES)
 @pytest.mark.parametrize(("In_a", "ir_x", "tr_s", "isd_x", "tsd_s"), SHORT_TIME_UNITS)
-def test_short_time_delay_holds_up_to_100_ka(In_a, ir_x, tr_s, isd_x, tsd_s, basis):
+def test_short_time_delay_holds_up_to_200_ka(In_a, ir_x, tr_s, isd_x, tsd_s, basis):
     band = el(In_a, basis, Ir_x=ir_x, tr_s=tr_s, Isd_x=isd_x, tsd_s=tsd_s, Ii_x="off")
     isd_hi = isd_x * ir_x * In_a * (1 + ELECTRONIC_PICKUP_TOL)
-    i = np.geomspace(isd_hi, 100_000.0, 200)
+    i = np.geomspace(isd_hi, I_MAX_A, 200)
     lo, hi = band.t_min(i), band.t_max(i)
     assert np.all(lo >= tsd_s - TSD_TOL_S - 1e-12)
     assert np.all(lo <= tsd_s + 1e-12)
@@ -218,7 +221,92 @@ def test_short_time_delay_holds_up_to_100_ka(In_a, ir_x, tr_s, isd_x, tsd_s, bas
         assert band.t_max(isd_hi * BELOW) > tsd_s + TSD_TOL_S + CLEARING_MAX_S
 
 
+# -- the breaker's own clearing time at very high currents ------------------------------------
+# Rows: (In [A], Ir / In, Ii / In), our own choice of settings on the grids.
+TM_CLEARING_UNITS = [(250, 0.8, 10), (16, 0.7, 10), (100, 0.7, 10), (1600, 1.0, 5), (630, 0.85, 7)]
+
+
+# IEC 60947-2, 7.2.1.2.4 a): magnetic pickup Ii +/-20 % (from memory): at and above 1.2 Ii the
+# magnetic release has acted and the breaker has cleared by its own clearing time (common
+# practice, at most 30 ms): that is the latest operating time at every current up to 200 kA,
+# never less, so the energy I^2 t_max is never understated.
+@pytest.mark.parametrize("basis", BASES)
+@pytest.mark.parametrize(("In_a", "ir_x", "ii_x"), TM_CLEARING_UNITS)
+def test_thermal_magnetic_upper_edge_is_the_clearing_time_up_to_200_ka(In_a, ir_x, ii_x, basis):
+    band = tm(In_a, basis, Ir_x=ir_x, Ii_x=ii_x)
+    i = np.geomspace(ii_x * In_a * (1 + TM_MAGNETIC_TOL), I_MAX_A, 400)
+    assert BREAKER_CLEARING_S <= CLEARING_MAX_S
+    np.testing.assert_array_equal(band.t_max(i), BREAKER_CLEARING_S)
+    np.testing.assert_allclose(band.i2t_let_through(i), i**2 * BREAKER_CLEARING_S, rtol=1e-12)
+
+
+# Rows: (In [A], Ir / In, tr [s], Isd / Ir or None, tsd [s] or None, I2t ramp, Ii / In), our own
+# choice of settings on the grids.
+ELECTRONIC_CLEARING_UNITS = [
+    (400, 1.0, 8, None, None, False, 10),
+    (16, 0.4, 24, None, None, False, 15),
+    (16, 0.4, 0.5, None, None, False, 2),
+    (630, 0.8, 0.5, 2, 0.4, True, 12),
+    (1600, 0.5, 24, 10, 0.1, False, 5),
+]
+
+
+# Electronic instantaneous pickup Ii +/-10 % (from memory): at and above 1.1 Ii the unit has
+# cleared by the breaker's own clearing time (common practice, at most 30 ms), with or without a
+# short-time element, at every current up to 200 kA.
+@pytest.mark.parametrize("basis", BASES)
+@pytest.mark.parametrize(("In_a", "ir_x", "tr_s", "isd_x", "tsd_s", "sd_i2t", "ii_x"),
+                         ELECTRONIC_CLEARING_UNITS)
+def test_electronic_upper_edge_is_the_clearing_time_up_to_200_ka(In_a, ir_x, tr_s, isd_x, tsd_s,
+                                                                 sd_i2t, ii_x, basis):
+    short_time = {} if isd_x is None else {"Isd_x": isd_x, "tsd_s": tsd_s, "sd_i2t": sd_i2t}
+    band = el(In_a, basis, Ir_x=ir_x, tr_s=tr_s, Ii_x=ii_x, **short_time)
+    i = np.geomspace(ii_x * In_a * (1 + ELECTRONIC_PICKUP_TOL), I_MAX_A, 400)
+    np.testing.assert_array_equal(band.t_max(i), BREAKER_CLEARING_S)
+
+
+# Common practice: with neither a short-time nor an instantaneous element the long-time release
+# still needs the breaker's clearing time: the upper edge never drops below it up to 200 kA.
+@pytest.mark.parametrize("basis", BASES)
+@pytest.mark.parametrize(("In_a", "ir_x", "tr_s"), [(16, 0.4, 0.5), (630, 1.0, 24)])
+def test_electronic_long_time_only_never_faster_than_clearing(In_a, ir_x, tr_s, basis):
+    band = el(In_a, basis, Ir_x=ir_x, tr_s=tr_s, Ii_x="off")
+    i = np.geomspace(10 * ir_x * In_a, I_MAX_A, 400)
+    assert np.all(band.t_max(i) >= BREAKER_CLEARING_S)
+
+
+# -- defaults and notes ------------------------------------------------------------------------
+# Common practice (the module's II_X note): a fixed magnetic release is set at 10 In, so a
+# thermal-magnetic unit given no Ii gets Ii = 10 In.
+@pytest.mark.parametrize("basis", BASES)
+@pytest.mark.parametrize(("In_a", "ir_x"), [(16, 1.0), (250, 0.8), (1600, 0.7)])
+def test_thermal_magnetic_default_ii_is_10_in(In_a, ir_x, basis):
+    band = tm(In_a, basis, Ir_x=ir_x)
+    assert band.settings["Ii_x"] == 10
+    assert band.settings["Ii_a"] == pytest.approx(10 * In_a, rel=1e-12)
+    assert band == tm(In_a, basis, Ir_x=ir_x, Ii_x=10)
+    # the magnetic tolerance (+/-20 %, from memory) sits around 10 In
+    assert 10 * In_a * (1 - TM_MAGNETIC_TOL) * BELOW <= band.instantaneous_a <= 10 * In_a
+
+
+# Electronic long-time delay tolerance -20 % / +0 % of tr (from memory): the typical band takes
+# the middle of it (0.85 .. 0.95 tr at 6 Ir, plus the clearing time), so for tr above 0.6 s the
+# set tr itself lies outside the typical band, and the band says so; the envelope holds tr.
+@pytest.mark.parametrize("tr_s", TR_S)
+def test_typical_band_notes_that_tr_lies_outside_it(tr_s):
+    typ = el(400, "typical", Ir_x=1.0, tr_s=tr_s)
+    env = el(400, "envelope", Ir_x=1.0, tr_s=tr_s)
+    outside = typ.t_max(TR_AT_X * 400.0) < tr_s
+    noted = any("lies outside this band" in note for note in typ.notes)
+    assert noted == outside
+    assert outside == (tr_s > 0.6)
+    assert not any("lies outside" in note for note in env.notes)
+    assert env.t_min(TR_AT_X * 400.0) <= tr_s <= env.t_max(TR_AT_X * 400.0)
+
+
 # -- settings a unit does not offer ------------------------------------------------------------
+# Common practice: the setting grids of adjustable units and the rating series (IEC 60059, from
+# memory); a setting a unit does not offer is refused, naming the key and what is allowed.
 @pytest.mark.parametrize(
     ("make", "kwargs", "key"),
     [
@@ -255,7 +343,9 @@ def test_unknown_basis_is_refused():
 
 
 # -- properties over random valid settings (common practice: what any band must satisfy) -------
-CURRENTS = st.lists(st.floats(min_value=0.5, max_value=60.0), min_size=2, max_size=40)
+# Currents are drawn as fractions of the log range from 0.5 In to 200 kA (I_MAX_A), on top of a
+# fixed log grid over the same range.
+CURRENTS = st.lists(st.floats(min_value=0.0, max_value=1.0), max_size=40)
 
 
 @st.composite
@@ -286,8 +376,14 @@ def build(kind, s, basis):
     return (thermal_magnetic_band if kind == "tm" else electronic_band)(basis=basis, **s)
 
 
-def grid(band, multiples):
-    return np.sort(np.asarray(multiples)) * band.rating_a
+def log_range(lo_a, fractions, points=64):
+    """Currents from ``lo_a`` to ``I_MAX_A`` [A]: a fixed log grid plus the drawn fractions."""
+    u = np.concatenate([np.linspace(0.0, 1.0, points), np.asarray(fractions, dtype=float)])
+    return np.sort(lo_a * (I_MAX_A / lo_a) ** u)
+
+
+def grid(band, fractions):
+    return log_range(0.5 * band.rating_a, fractions)
 
 
 KINDS = st.sampled_from(["tm", "electronic"])
@@ -300,25 +396,49 @@ def any_settings(draw):
     return kind, draw(tm_settings() if kind == "tm" else electronic_settings())
 
 
-# Common practice: edges never rise with current, and the lower edge is never above the upper.
+# Common practice: from 0.5 In up to 200 kA edges never rise with current, the lower edge is
+# never above the upper, and no upper edge is faster than the breaker's own clearing time.
 @settings(max_examples=50, deadline=None)
 @given(any_settings(), st.sampled_from(BASES), CURRENTS)
-def test_edges_never_rise_and_lower_below_upper(kind_settings, basis, multiples):
+def test_edges_never_rise_and_lower_below_upper(kind_settings, basis, fractions):
     kind, s = kind_settings
     band = build(kind, s, basis)
-    i = grid(band, multiples)
+    i = grid(band, fractions)
     lo, hi = band.t_min(i), band.t_max(i)
     assert np.all(lo[1:] <= lo[:-1])
     assert np.all(hi[1:] <= hi[:-1])
     assert np.all(lo <= hi)
     assert np.all(lo > 0)
+    assert np.all(hi >= BREAKER_CLEARING_S)
+
+
+# IEC 60947-2, 7.2.1.2.4 a): magnetic pickup +/-20 % (from memory): from 1.2 Ii up to 200 kA
+# the upper edge of a thermal-magnetic unit is the breaker's clearing time (common practice),
+# on both bases.
+@settings(max_examples=50, deadline=None)
+@given(tm_settings(), st.sampled_from(BASES), CURRENTS)
+def test_thermal_magnetic_clearing_time_from_1_2_ii(s, basis, fractions):
+    band = build("tm", s, basis)
+    i = log_range(s["Ii_x"] * s["In_a"] * (1 + TM_MAGNETIC_TOL), fractions)
+    np.testing.assert_array_equal(band.t_max(i), BREAKER_CLEARING_S)
+
+
+# Electronic instantaneous pickup +/-10 % (from memory): from 1.1 Ii up to 200 kA the upper edge
+# is the breaker's clearing time (common practice), with or without a short-time element.
+@settings(max_examples=50, deadline=None)
+@given(electronic_settings(), st.sampled_from(BASES), CURRENTS)
+def test_electronic_clearing_time_from_1_1_ii(s, basis, fractions):
+    assume("Ii_x" in s)
+    band = build("electronic", s, basis)
+    i = log_range(s["Ii_x"] * s["In_a"] * (1 + ELECTRONIC_PICKUP_TOL), fractions)
+    np.testing.assert_array_equal(band.t_max(i), BREAKER_CLEARING_S)
 
 
 # Common practice: a larger Ir never sits left of (faster than) a smaller one, other settings
 # equal.
 @settings(max_examples=50, deadline=None)
 @given(any_settings(), st.sampled_from(BASES), CURRENTS, st.data())
-def test_larger_ir_never_sits_left(kind_settings, basis, multiples, data):
+def test_larger_ir_never_sits_left(kind_settings, basis, fractions, data):
     kind, s = kind_settings
     fractions = TM_IR_FRACTIONS if kind == "tm" else ELECTRONIC_IR_FRACTIONS
     small, large = sorted(data.draw(st.lists(st.sampled_from(fractions), min_size=2,
@@ -327,21 +447,41 @@ def test_larger_ir_never_sits_left(kind_settings, basis, multiples, data):
         assume(s["Isd_x"] * large <= s["Ii_x"])
     a = build(kind, {**s, "Ir_x": small}, basis)
     b = build(kind, {**s, "Ir_x": large}, basis)
-    i = grid(a, multiples)
+    i = grid(a, fractions)
     # where both edges are held at the same clipped value the two may differ in the last bit
     assert np.all(b.t_min(i) >= a.t_min(i) * (1 - ROUNDING))
     assert np.all(b.t_max(i) >= a.t_max(i) * (1 - ROUNDING))
     assert b.pickup_min_a > a.pickup_min_a
 
 
+# Common practice: a larger rating In never sits left of (faster than) a smaller one with the
+# same Ir / In, Ii / In and other settings, on either edge.
+@settings(max_examples=50, deadline=None)
+@given(any_settings(), st.sampled_from(BASES), CURRENTS, st.data())
+def test_larger_in_never_sits_left(kind_settings, basis, fractions, data):
+    kind, s = kind_settings
+    small, large = sorted(data.draw(st.lists(st.sampled_from(BREAKER_RATINGS_A), min_size=2,
+                                             max_size=2, unique=True)))
+    a = build(kind, {**s, "In_a": small}, basis)
+    b = build(kind, {**s, "In_a": large}, basis)
+    i = grid(a, fractions)
+    # where both edges are held at the same value the two may differ in the last bit
+    assert np.all(b.t_min(i) >= a.t_min(i) * (1 - ROUNDING))
+    assert np.all(b.t_max(i) >= a.t_max(i) * (1 - ROUNDING))
+    assert b.pickup_min_a > a.pickup_min_a
+    assert b.pickup_max_a > a.pickup_max_a
+    if a.instantaneous_a is not None:
+        assert b.instantaneous_a > a.instantaneous_a
+
+
 # Our design (DESIGN.md): the typical band lies inside the envelope.
 @settings(max_examples=50, deadline=None)
 @given(any_settings(), CURRENTS)
-def test_envelope_contains_typical(kind_settings, multiples):
+def test_envelope_contains_typical(kind_settings, fractions):
     kind, s = kind_settings
     typ = build(kind, s, "typical")
     env = build(kind, s, "envelope")
-    i = grid(typ, multiples)
+    i = grid(typ, fractions)
     assert np.all(env.t_min(i) <= typ.t_min(i))
     assert np.all(env.t_max(i) >= typ.t_max(i))
     assert env.pickup_min_a <= typ.pickup_min_a <= typ.pickup_max_a <= env.pickup_max_a

@@ -184,14 +184,33 @@ def test_no_class_values_outside_annex_za(curve_type: str, rating_a: float) -> N
     np.testing.assert_allclose(band.t_max(30 * rating_a), 0.1, rtol=0)
 
 
-# IEC 60898-1 rated short-circuit capacity Icn (REFERENCE.md series, from memory)
-@pytest.mark.parametrize("icn_a", (1_500.0, 3_000.0, 4_500.0, 6_000.0, 10_000.0, 25_000.0))
+# IEC 60898-1 standard values of rated short-circuit capacity Icn: 1500, 3000, 4500, 6000,
+# 10 000 A and, above 10 000 A, 15 000, 20 000, 25 000 A (REFERENCE.md series, from memory)
+ICN_STANDARD_A = (1_500.0, 3_000.0, 4_500.0, 6_000.0, 10_000.0, 15_000.0, 20_000.0, 25_000.0)
+
+
+# IEC 60898-1 standard values of rated short-circuit capacity Icn (from memory)
+@pytest.mark.parametrize("icn_a", ICN_STANDARD_A)
 def test_breaking_capacity_and_settings(icn_a: float) -> None:
     band = mcb_band("C", 32, icn_a=icn_a)
     assert band.breaking_capacity_a == icn_a
     assert band.family == "mcb"
     assert band.name == "C32"
     assert dict(band.settings) == {"type": "C", "In_a": 32, "energy_class": 3, "icn_a": icn_a}
+
+
+# IEC 60898-1 standard values of Icn (from memory): any other value is refused, naming the key
+# and listing the allowed values
+@pytest.mark.parametrize("icn_a", (1_000.0, 2_000.0, 5_000.0, 7_000.0, 12_500.0, 30_000.0,
+                                   50_000.0))
+def test_non_standard_icn_is_refused(icn_a: float) -> None:
+    with pytest.raises(InputError) as caught:
+        mcb_band("C", 32, icn_a=icn_a)
+    assert caught.value.key == "icn_a"
+    message = str(caught.value)
+    assert "allowed" in message and "\n" not in message
+    for value in ICN_STANDARD_A:
+        assert f"{value:g}" in message
 
 
 # IEC 60898-1 ratings (REFERENCE.md, common practice) and types; bad input names the key
