@@ -23,13 +23,23 @@ How a pair is decided (:func:`compare`):
    to the step itself where an edge steps).
 2. An upstream device with an instantaneous release withstands no energy above its
    ``instantaneous_a``: the limit is never above it, unless the study gives a tested limit.
+   A limit set there is reported as decided by ``"time-current"`` whatever D's time at that
+   current: the upstream's current pickup decides, not an energy comparison.
 3. A tested limit for the pair overrides both and is reported as ``"tested"``.
 
 The search runs from the window's low end up to at least ``SEARCH_TOP_A`` whatever the window's
 top, so the costly part depends only on the two bands, the low end, the margin and the interval:
 it is cached, and identical pairs (the same devices in many boards) are computed once.
 
-Geometry (shapely) is used only by :func:`overlap`, for plots and the report.
+The 1.6:1 rule for gG fuse-links holds on the ``typical`` basis (characteristics as the
+standard's selectivity rule assumes them), not for any two arbitrary compliant fuse-links: on the
+``envelope`` basis (the set of all characteristics within the IEC 60269-2 gates) every 1.6:1 pair
+is partial at 1.25 x the larger rating, where the major may melt above its conventional
+non-fusing current while a compliant minor may still take up to its conventional time.
+
+Geometry (shapely) is used only by :func:`overlap`, for plots and the report; its zone is built
+from the same edges as :func:`compare` (margin, interval, instantaneous release), so it begins
+at Is.
 """
 
 from __future__ import annotations
@@ -45,7 +55,7 @@ import numpy as np
 from coordination.devices import band_for
 from coordination.model import Study
 from coordination.roots import find_crossing
-from curves.band import ENERGY_REGION_S, TIME_FLOOR_S, Band
+from curves.band import ENERGY_REGION_S, TIME_CEILING_S, TIME_FLOOR_S, Band
 from curves.errors import InputError
 
 if TYPE_CHECKING:  # shapely is imported lazily, only by overlap()
@@ -89,7 +99,8 @@ class Selectivity:
         (``None`` for total).
     decided_by : {"time-current", "energy", "tested"}
         Which test decided: the edges meeting at or above ``ENERGY_REGION_S``, below it (energy
-        as equivalent time), or a tested limit given by the user.
+        as equivalent time), or a tested limit given by the user. A limit set by the upstream's
+        instantaneous release is ``"time-current"`` (its current pickup decides).
     window_a : tuple of float
         The current window [A]: D's conventional non-tripping current to the maximum fault.
     note : str
@@ -357,7 +368,10 @@ def _compare(up: Band, down: Band, lo: float, hi: float, margin: float, interval
         return Selectivity("total", None, decided, window, note=note, time_s=t)
 
     t = _time_at(down, up, limit, margin, interval_s)
-    decided = "energy" if t < ENERGY_REGION_S else "time-current"
+    if note:  # the upstream's instantaneous current pickup ends selectivity, not an energy test
+        decided = "time-current"
+    else:
+        decided = "energy" if t < ENERGY_REGION_S else "time-current"
     verdict = "none" if limit <= down.pickup_max_a * (1 + EQUAL_RTOL) else "partial"
     if verdict == "none" and not note:
         note = "the bands meet in the downstream device's overload region"
@@ -402,6 +416,11 @@ def compare(upstream: Band, downstream: Band, window_a: tuple[float, float], *,
     ``log10 I`` then converges to it, to 1e-13 in log10 I (to the step itself where an edge is
     discontinuous). A non-selective island narrower than one grid step (about 1.4 %
     in current) away from any known breakpoint could be missed.
+
+    gG fuse-links in the ratio 1.6:1 come out selective on the ``typical`` basis, the
+    characteristics the standard's selectivity rule assumes; the rule does not hold for any two
+    arbitrary compliant fuse-links, so on the ``envelope`` basis such a pair is partial at
+    1.25 x the larger rating (its conventional non-fusing current).
 
     References
     ----------
@@ -509,6 +528,14 @@ def _window_top(levels: Any, circuit_id: str) -> float:
     return float(node.ik_max_a)
 
 
+def _margin_interval(study: Study, circuit_id: str) -> tuple[float, float]:
+    """Margin [-] and interval [s] of the pairs where ``circuit_id`` is downstream."""
+    circuit = study.by_id[circuit_id]
+    margin = circuit.margin if circuit.margin is not None else study.margin
+    interval = circuit.interval_s if circuit.interval_s is not None else study.interval_s
+    return margin, interval
+
+
 def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
     """Selectivity of every circuit under every circuit above it.
 
@@ -592,8 +619,7 @@ def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
         down = bands[circuit.id]
         lo = float(down.pickup_min_a)
         hi = _window_top(levels, circuit.id)
-        margin = circuit.margin if circuit.margin is not None else study.margin
-        interval = circuit.interval_s if circuit.interval_s is not None else study.interval_s
+        margin, interval = _margin_interval(study, circuit.id)
         required = circuit.selective_to_a
         need = hi if required is None else min(float(required), hi)
         mine = []
@@ -623,19 +649,44 @@ def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
 # geometry, lazily, for plots and the report
 def overlap(study: Study, levels: Any, pair: PairResult | tuple[str, str],
             basis: str | None = None) -> BaseGeometry:
-    """The crossover zone of a pair: the intersection of the two bands, clipped to the window.
+    """The crossover zone of a pair: where the upstream may operate before the downstream clears.
+
+    The zone is built from the edges :func:`compare` tests: D's upper edge with the margin (and
+    the interval over an adjustable breaker), U's lower edge with no energy withstood at or above
+    its instantaneous release. Over the currents from the pair's selectivity limit Is to the
+    window's top, wherever the pair is not selective, it spans the times from U's lower edge up
+    to D's upper edge (in the usual layout, the intersection of the two bands). So it begins at
+    Is, and a pair selective over its whole window has none.
 
     Parameters
     ----------
+    study : Study
+    levels : FaultLevels
+        For the window's top when ``pair`` is given as two ids.
     pair : PairResult or (upstream id, downstream id)
-        A result of :func:`analyse` (its band bases are used), or two circuit ids.
+        A result of :func:`analyse` (its band bases, margin, interval and tested limit are
+        used), or two circuit ids (the downstream circuit's margin, interval and tested limit).
     basis : str, optional
         Overrides the bases (as in :func:`analyse`).
 
     Returns
     -------
     shapely geometry
-        In (log10 I [A], log10 t [s]) space; empty when the bands do not overlap in the window.
+        In (log10 I [A], log10 t [s]) space, times clipped to [``TIME_FLOOR_S``,
+        ``TIME_CEILING_S``] as the bands are; empty when the pair is selective over its window.
+        With a tested limit the zone begins where both the tested limit and the curves say the
+        pair stops being selective.
+
+    Notes
+    -----
+    Computed lazily (only plots and the report ask for it): about a thousand currents, one
+    vectorised call per edge, one shapely polygon. Where the pair stops being selective with
+    both edges beyond the time range, the zone starts where they come into it.
+
+    References
+    ----------
+    IEC 60947-2:2016, Annex A (selectivity limit current Is; the zone above it is where the
+    upstream device may operate).
 
     Examples
     --------
@@ -657,22 +708,61 @@ def overlap(study: Study, levels: Any, pair: PairResult | tuple[str, str],
     >>> print(overlap(s, faults.compute(s), ("main", "sub")).area > 0)
     True
     """
+    from shapely.geometry import Polygon
+
     if isinstance(pair, PairResult):
         up_id, down_id = pair.upstream, pair.downstream
         up = band_for(study, up_id, basis or pair.upstream_basis)
         down = band_for(study, down_id, basis or pair.downstream_basis)
-        lo, hi = pair.window_a
+        hi = float(pair.window_a[1])
+        margin, interval, tested = pair.margin, pair.interval_s, pair.tested_limit_a
     else:
         up_id, down_id = pair
         up = band_for(study, up_id, basis)
         down = band_for(study, down_id, basis)
-        lo, hi = float(down.pickup_min_a), _window_top(levels, down_id)
+        hi = _window_top(levels, down_id)
+        margin, interval = _margin_interval(study, down_id)
+        tested = study.by_id[down_id].tested_limits_a.get(up_id)
+    lo = float(down.pickup_min_a)
     if not hi > lo:
-        from shapely.geometry import Polygon
-
         return Polygon()
-    zone = down.polygon(lo, hi).intersection(up.polygon(lo, hi))
-    return zone
+    sel = compare(up, down, (lo, hi), margin=margin, interval_s=interval,
+                  tested_limit_a=tested)
+    if sel.verdict == "total" or sel.curves_limit_a is None:
+        return Polygon()
+    start = max(sel.curves_limit_a, sel.limit_a if sel.limit_a is not None else 0.0)
+    if not hi > start:
+        return Polygon()
+    return _zone(up, down, start, hi, margin, interval)
+
+
+def _zone(up: Band, down: Band, start: float, hi: float, margin: float,
+          interval_s: float) -> BaseGeometry:
+    """The non-selective region between U's lower and D's upper edge over [start, hi] [A]."""
+    from shapely.geometry import MultiPolygon, Polygon
+    from shapely.validation import make_valid
+
+    i = _grid(down, up, start, hi)
+    # just above the limit, so that a step there gives the zone's vertical left side at Is
+    i = np.unique(np.concatenate([i, [start * (1 + 1e-9)]]))
+    i = i[(i >= start) & (i <= hi)]
+    t_down = _downstream_edge(down, up, i, margin, interval_s)
+    t_up = _upstream_edge(up, i)
+    bad = _not_selective(t_down, t_up)
+    lower = np.clip(t_up, TIME_FLOOR_S, TIME_CEILING_S)
+    upper = np.where(bad, np.maximum(np.clip(t_down, TIME_FLOOR_S, TIME_CEILING_S), lower),
+                     lower)
+    x = np.log10(i)
+    ring = np.concatenate([np.column_stack([x, np.log10(upper)]),
+                           np.column_stack([x[::-1], np.log10(lower[::-1])])])
+    shape = make_valid(Polygon(ring))
+    # selective stretches have no height: make_valid turns them into lines, which are dropped
+    parts = [g for g in getattr(shape, "geoms", [shape])
+             if g.geom_type in ("Polygon", "MultiPolygon") and not g.is_empty]
+    polygons = [q for g in parts for q in getattr(g, "geoms", [g])]
+    if not polygons:
+        return Polygon()
+    return polygons[0] if len(polygons) == 1 else MultiPolygon(polygons)
 
 
 # ---------------------------------------------------------------------------------------------

@@ -1,7 +1,8 @@
 """Properties of the overlap engine over the standard device series (hypothesis, bounded).
 
 The series are the standards' rating series (IEC 60898-1 MCB ratings, IEC 60269 gG ratings, as
-the families list them); the trees and fault levels are invented.
+the families list them) and the breakers' setting grids (curves/breaker.py); the trees and fault
+levels are invented.
 """
 
 from __future__ import annotations
@@ -14,6 +15,18 @@ from hypothesis import strategies as st
 from coordination import engine, faults
 from coordination.devices import band_for
 from coordination.model import Cable, Circuit, Study, Supply
+from curves.breaker import (
+    BREAKER_RATINGS_A,
+    ELECTRONIC_II_X,
+    ELECTRONIC_IR_FRACTIONS,
+    II_X,
+    ISD_X,
+    TM_IR_FRACTIONS,
+    TR_S,
+    TSD_S,
+    electronic_band,
+    thermal_magnetic_band,
+)
 from curves.fuse import GG_RATINGS_A, gg_band
 from curves.mcb import MCB_RATINGS_A, mcb_band
 
@@ -101,6 +114,77 @@ def test_tested_limit_overrides(up_rating, d_rating, d_kind, tested, top, basis)
     else:
         assert r.verdict in ("partial", "none")
         assert r.limit_a == tested
+
+
+# ---------------------------------------------------------------------------------------------
+# adjustable breakers upstream: settings drawn from the grids real units offer (curves/breaker.py)
+BREAKER_SERIES = tuple(r for r in BREAKER_RATINGS_A if r <= 1250)
+
+
+@st.composite
+def breaker_settings(draw, kind: str) -> dict:
+    """Settings of one trip unit, on the module grids (Isd at or below Ii, as units allow)."""
+    if kind == "tm":
+        return {"Ir_x": draw(st.sampled_from(TM_IR_FRACTIONS)), "Ii_x": draw(st.sampled_from(II_X))}
+    ir_x = draw(st.sampled_from(ELECTRONIC_IR_FRACTIONS))
+    out = {"Ir_x": ir_x, "tr_s": draw(st.sampled_from(TR_S))}
+    ii_x = draw(st.sampled_from((*ELECTRONIC_II_X, "off")))
+    out["Ii_x"] = ii_x
+    if draw(st.booleans()):
+        allowed = [x for x in ISD_X if ii_x == "off" or x * ir_x <= ii_x]
+        if allowed:
+            out["Isd_x"] = draw(st.sampled_from(allowed))
+            out["tsd_s"] = draw(st.sampled_from(TSD_S))
+    return out
+
+
+def breaker(kind: str, rating: float, settings_: dict, basis: str):
+    if kind == "tm":
+        return thermal_magnetic_band(In_a=rating, basis=basis, **settings_)
+    return electronic_band(In_a=rating, basis=basis, **settings_)
+
+
+def downstream_band(draw, kind: str, at_most_a: float, basis: str):
+    """A gG fuse-link or an MCB of a rating not above ``at_most_a``."""
+    series = GG_SERIES if kind == "gG" else MCB_SERIES
+    rating = draw(st.sampled_from([r for r in series if r <= at_most_a]), label="downstream")
+    return band(kind, rating, basis)
+
+
+# common practice: the same trip-unit settings on a larger frame (every pickup scaled up with In)
+# never make a breaker less selective over a given downstream device
+@settings(max_examples=40, deadline=None)
+@given(up_kind=st.sampled_from(("tm", "electronic")), down_kind=st.sampled_from(("gG", "B", "C")),
+       data=st.data(), top=TOPS_A, basis=st.sampled_from(BASES))
+def test_raising_upstream_breaker_never_lowers_is(up_kind, down_kind, data, top, basis):
+    u1, u2 = sorted(data.draw(st.lists(st.sampled_from(BREAKER_SERIES), min_size=2, max_size=2,
+                                       unique=True), label="upstreams"))
+    chosen = data.draw(breaker_settings(up_kind), label="settings")
+    down = downstream_band(data.draw, down_kind, u1, basis)
+    window = (down.pickup_min_a, max(top, down.pickup_min_a * 2))
+    small = engine.compare(breaker(up_kind, u1, chosen, basis), down, window)
+    large = engine.compare(breaker(up_kind, u2, chosen, basis), down, window)
+    assert effective_limit(large) >= effective_limit(small) * (1 - 1e-9)
+
+
+# DESIGN.md (IEC 60947-2 tolerances): the envelope band of a breaker is the widest a compliant
+# unit with those settings may have, so over the same downstream device it is never more
+# selective than the typical band
+@settings(max_examples=40, deadline=None)
+@given(up_kind=st.sampled_from(("tm", "electronic")), down_kind=st.sampled_from(("gG", "B", "C")),
+       data=st.data(), top=TOPS_A)
+def test_envelope_breaker_never_more_selective_than_typical(up_kind, down_kind, data, top):
+    u_rating = data.draw(st.sampled_from(BREAKER_SERIES), label="upstream")
+    chosen = data.draw(breaker_settings(up_kind), label="settings")
+    series = GG_SERIES if down_kind == "gG" else MCB_SERIES
+    d_rating = data.draw(st.sampled_from([r for r in series if r <= u_rating]), label="down")
+    d_env, d_typ = band(down_kind, d_rating, "envelope"), band(down_kind, d_rating, "typical")
+    u_env = breaker(up_kind, u_rating, chosen, "envelope")
+    u_typ = breaker(up_kind, u_rating, chosen, "typical")
+    window = (d_env.pickup_min_a, max(top, d_typ.pickup_max_a * 2))
+    env = engine.compare(u_env, d_env, window)
+    typ = engine.compare(u_typ, d_typ, window)
+    assert effective_limit(env) <= effective_limit(typ) * (1 + 1e-9)
 
 
 # ---------------------------------------------------------------------------------------------

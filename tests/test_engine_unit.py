@@ -1,7 +1,9 @@
 """Unit tests of the overlap engine on invented bands with closed-form crossings.
 
-The bands here are invented power laws (not any device); each expected limit is the closed-form
-solution of the invented edges, worked in the test, not read from the code.
+Most bands here are invented power laws (not any device); each expected limit is the closed-form
+solution of the invented edges, worked in the test, not read from the code. The tests of the
+crossover zone and of the command line also use the standard families on invented installations,
+checking that the zone and the exit code agree with the engine's own verdicts.
 """
 
 from __future__ import annotations
@@ -13,6 +15,7 @@ import numpy as np
 import pytest
 
 from coordination import engine
+from coordination.devices import band_for
 from coordination.model import Circuit, Study, Supply
 from curves.band import ENERGY_REGION_S, TIME_FLOOR_S, Band
 from curves.errors import InputError
@@ -117,7 +120,7 @@ def test_window_low_end_already_not_selective():
     down = power_band("lo-down", k_lo=1e3, k_hi=1e4, pickup_min=200.0, pickup_max=250.0)
     r = engine.compare(UP, down, (200.0, 10_000.0))
     assert r.verdict == "none"
-    assert r.limit_a == pytest.approx(200.0)
+    assert r.limit_a == pytest.approx(200.0, rel=1e-12)
 
 
 def test_both_never_operate_is_selective():
@@ -349,3 +352,222 @@ def test_total_is_decided_where_the_edges_come_closest(k_down, add_s, k_up, deci
     assert r.verdict == "total"
     assert r.decided_by == decided
     assert r.time_s == pytest.approx(k_up / 15_000.0**2, rel=1e-6)
+
+
+# ---------------------------------------------------------------------------------------------
+# a limit set by the upstream's instantaneous release is decided by its current pickup
+# D: t = 5e4/I^2 + 1e-3 s, at 5,000 A 3 ms (below ENERGY_REGION_S); DOWN at 5,000 A: 30 ms
+FAST_DOWN = power_band("fast-down", k_lo=1e4, k_hi=5e4, pickup_min=21.0, pickup_max=26.0,
+                       add_s=1e-3)
+
+
+@pytest.mark.parametrize(("down", "t_down_s"), [
+    (DOWN, 5e5 / 5000.0**2 + 0.01),  # 30 ms: at or above ENERGY_REGION_S
+    (FAST_DOWN, 5e4 / 5000.0**2 + 1e-3),  # 3 ms: below it
+])
+def test_instantaneous_limit_is_time_current_whatever_the_downstream_time(down, t_down_s):
+    # DESIGN.md: above an upstream instantaneous release no energy is withstood, so the limit is
+    # its pickup (5,000 A), where U's edge 4e6/I^2 = 0.16 s is still above D's: the release's
+    # current pickup decides, not a comparison of energies
+    up = power_band("inst-5k", k_lo=4e6, k_hi=1e7, pickup_min=105.0, pickup_max=130.0,
+                    instantaneous_a=5000.0)
+    assert float(down.t_max(5000.0)) == pytest.approx(t_down_s, rel=1e-12)
+    assert float(down.t_max(5000.0)) < 4e6 / 5000.0**2
+    r = engine.compare(up, down, (21.0, 50_000.0))
+    assert r.verdict == "partial"
+    assert r.limit_a == pytest.approx(5000.0, rel=1e-9)
+    assert "instantaneous" in r.note
+    assert r.decided_by == "time-current"
+
+
+def test_office_example_plant_pairs_are_labelled_alike():
+    # the invented office example: a C63 and a C32 on the plant board, both limited by the
+    # moulded-case breaker's magnetic release; the C32 has cleared in under 10 ms there, the C63
+    # not, and both rows must still say the same thing
+    from pathlib import Path
+
+    from coordination import faults, study
+
+    s = study.load(Path(__file__).resolve().parents[1] / "examples" / "office-building.toml")
+    levels = faults.compute(s)
+    analysis = engine.analyse(s, levels)
+    rows = {p.downstream: p for p in analysis.pairs
+            if p.upstream == "sm-plant" and p.downstream in ("p-chiller", "p-ahu-1")}
+    assert set(rows) == {"p-chiller", "p-ahu-1"}
+    limits = {p.limit_a for p in rows.values()}
+    assert len(limits) == 1
+    times = {cid: float(band_for(s, cid).t_max(p.limit_a * (1 - 1e-9)))
+             for cid, p in rows.items()}
+    assert times["p-ahu-1"] < ENERGY_REGION_S <= times["p-chiller"]
+    for p in rows.values():
+        assert "instantaneous" in p.note
+        assert p.decided_by == "time-current"
+
+
+# ---------------------------------------------------------------------------------------------
+# overlap(): the zone starts at Is as compare() finds it
+def zone_left_a(zone) -> float:
+    """The smallest current of a zone [A]."""
+    return 10.0 ** zone.bounds[0]
+
+
+@pytest.mark.parametrize(("study_kwargs", "up_kwargs", "expected"), [
+    # closed form with margin 2: 2 (5e5/I^2 + 0.01) = 4e6/I^2  ->  I = sqrt(3e6 / 0.02)
+    ({"margin": 2.0}, {}, math.sqrt(3e6 / 0.02)),
+    # an instantaneous release at 2,500 A ends selectivity below the edges' own crossing
+    ({}, {"instantaneous_a": 2500.0}, 2500.0),
+])
+def test_overlap_starts_at_the_limit_on_invented_bands(monkeypatch, study_kwargs, up_kwargs,
+                                                       expected):
+    bands = {**BANDS, "B": power_band("B-zone", k_lo=4e6, k_hi=1e7, pickup_min=105.0,
+                                      pickup_max=130.0, **up_kwargs)}
+    monkeypatch.setattr(engine, "band_for",
+                        lambda study, cid, basis=None: bands[study.by_id[cid].device])
+    base = tree_study()
+    s = Study(base.title, base.supply, base.circuits, **study_kwargs)
+    lv = levels_for(s, {"top": 16_000.0, "mid": 12_000.0, "leaf": 30_000.0, "leaf2": 10_000.0})
+    leaf_mid = engine.analyse(s, lv).for_circuit("leaf")[0]
+    assert leaf_mid.limit_a == pytest.approx(expected, rel=1e-9)
+    for pair in (leaf_mid, ("mid", "leaf")):
+        zone = engine.overlap(s, lv, pair)
+        assert zone.area > 0
+        assert zone_left_a(zone) == pytest.approx(expected, rel=1e-6)
+        assert zone.bounds[2] <= math.log10(30_000.0) + 1e-12
+
+
+# Invented plant: breakers, fuses and MCBs under study-wide margin 1.2 and interval 0.1 s
+SETTINGS_STUDY = Study("invented plant room", Supply(pfc_a=16_000.0), (
+    Circuit("inc", "supply", {"family": "electronic", "In_a": 400, "Ir_x": 1.0, "tr_s": 2,
+                              "Isd_x": 10, "tsd_s": 0.1, "Ii_x": "off"}),
+    Circuit("tm", "inc", {"family": "tm", "In_a": 100, "Ir_x": 1.0, "Ii_x": 10}),
+    Circuit("pump", "tm", "gG63"),
+    Circuit("el", "inc", {"family": "electronic", "In_a": 250, "Ir_x": 0.8, "tr_s": 4,
+                          "Isd_x": 6, "tsd_s": 0.1, "Ii_x": "off"}),
+    Circuit("fan", "el", "gG63"),
+    Circuit("mcb", "inc", "C63"),
+    Circuit("light", "mcb", "B16"),
+    Circuit("fuse", "inc", "gG100"),
+    Circuit("socket", "fuse", "gG40"),
+), margin=1.2, interval_s=0.1)
+
+
+@pytest.fixture(scope="module")
+def settings_analysis():
+    ids = [c.id for c in SETTINGS_STUDY.circuits]
+    lv = levels_for(SETTINGS_STUDY, dict.fromkeys(ids, 10_000.0))
+    return lv, engine.analyse(SETTINGS_STUDY, lv)
+
+
+def pair_of(analysis, upstream: str, downstream: str):
+    return next(p for p in analysis.pairs if (p.upstream, p.downstream) == (upstream, downstream))
+
+
+def test_settings_study_has_the_cases(settings_analysis):
+    _, a = settings_analysis
+    # margin 1.2 and 0.1 s over the thermal-magnetic breaker move Is into its thermal region,
+    # well below its magnetic pickup (0.9 x 10 x 100 A on the typical basis)
+    tm = pair_of(a, "tm", "pump")
+    plain = engine.compare(band_for(SETTINGS_STUDY, "tm"),
+                           band_for(SETTINGS_STUDY, "pump"), tm.window_a)
+    assert tm.verdict == "partial" and plain.verdict == "partial"
+    assert tm.limit_a < 0.5 * plain.limit_a
+    # over the electronic unit the interval turns a total pair into a partial one
+    el = pair_of(a, "el", "fan")
+    assert el.verdict == "partial"
+    assert engine.compare(band_for(SETTINGS_STUDY, "el"),
+                          band_for(SETTINGS_STUDY, "fan"), el.window_a).verdict == "total"
+    # IEC 60898-1, instantaneous bands: B16 under C63 ends at 5 x 63 A (no interval over MCBs)
+    mcb = pair_of(a, "mcb", "light")
+    assert mcb.verdict == "partial"
+    assert mcb.limit_a == pytest.approx(5 * 63, rel=1e-6)
+    # IEC 60269-1 / common practice: gG 1.6:1 and more is selective
+    assert pair_of(a, "fuse", "socket").verdict == "total"
+
+
+@pytest.mark.parametrize("basis", [None, "envelope"])
+def test_overlap_zone_agrees_with_compare_for_every_pair(settings_analysis, basis):
+    lv, a = settings_analysis
+    if basis is not None:
+        a = engine.analyse(SETTINGS_STUDY, lv, basis=basis)
+    assert {p.verdict for p in a.pairs} >= {"total", "partial"}
+    for p in a.pairs:
+        zone = engine.overlap(SETTINGS_STUDY, lv, p, basis)
+        by_ids = engine.overlap(SETTINGS_STUDY, lv, (p.upstream, p.downstream), basis)
+        for z in (zone, by_ids):
+            if p.verdict == "total":
+                assert z.is_empty, (p.upstream, p.downstream)
+            else:
+                assert z.area > 0, (p.upstream, p.downstream)
+                assert zone_left_a(z) == pytest.approx(p.limit_a, rel=1e-6), (
+                    p.upstream, p.downstream)
+                assert z.bounds[2] <= math.log10(p.window_a[1]) + 1e-12
+
+
+# ---------------------------------------------------------------------------------------------
+# `coordination check`: a selectivity shortfall alone exits 1, with the caution
+TWO_EQUAL_FUSES = """[study]
+title = "Invented workshop: two equal fuse-links in series"
+
+[supply]
+u0_v = 230
+phases = 3
+earthing = "TN-C-S"
+pfc_a = 10000
+ze_ohm = 0.2
+
+[[circuit]]
+id = "feeder"
+from = "supply"
+device = "gG63"
+board = "workshop board"
+load_a = 40
+[circuit.cable]
+length_m = 10
+csa_mm2 = 25
+cpc_mm2 = 16
+insulation = "xlpe"
+iz_a = 110
+
+[[circuit]]
+id = "press"
+from = "feeder"
+device = "gG63"
+load_a = 40
+[circuit.cable]
+length_m = 10
+csa_mm2 = 25
+cpc_mm2 = 16
+insulation = "xlpe"
+iz_a = 110
+"""
+
+
+def test_check_exits_1_on_a_selectivity_shortfall_alone(tmp_path):
+    import json
+
+    from typer.testing import CliRunner
+
+    import coordination
+    from coordination import checks, faults, study
+    from coordination.cli import app
+
+    s = study.loads(TWO_EQUAL_FUSES)
+    levels = faults.compute(s)
+    # every protection check passes: only selectivity falls short
+    results = checks.run(s, levels)
+    assert results and all(r.ok for r in results)
+    # common practice (IEC 60269 I2t criterion): two equal gG fuse-links are not selective
+    assert not engine.analyse(s, levels).ok
+    path = tmp_path / "workshop.toml"
+    path.write_text(TWO_EQUAL_FUSES, encoding="utf-8")
+    runner = CliRunner()
+    out = runner.invoke(app, ["check", str(path)])
+    assert out.exit_code == 1, out.output
+    assert coordination.CAUTION in out.output
+    assert "Traceback" not in out.output
+    js = runner.invoke(app, ["check", str(path), "--json"])
+    assert js.exit_code == 1
+    data = json.loads(js.output)
+    assert data["ok"] is False
+    assert all(c["ok"] for c in data["checks"])
+    assert [p["verdict"] for p in data["pairs"]] == ["none"]
