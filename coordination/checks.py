@@ -50,8 +50,8 @@ CHECK_NAMES = ("disconnection", "overload", "fault-energy", "breaking-capacity")
 ADIABATIC_LIMIT_S = 5.0
 
 #: Final circuits within the scope of Table 41.1 carry at most this current [A]
-#: (IEC 60364-4-41:2005, 411.3.2.2; larger final circuits take the 5 s / 1 s of 411.3.2.4 /
-#: 411.3.2.4 for TT). BS 7671 raises it to 63 A for socket-outlet circuits (from memory).
+#: (IEC 60364-4-41:2005, 411.3.2.2; larger final circuits take the 5 s / 1 s of 411.3.2.3 (TN)
+#: / 411.3.2.4 (TT)). BS 7671 raises it to 63 A for socket-outlet circuits (from memory).
 FINAL_CIRCUIT_SCOPE_A = 32.0
 
 #: IEC 60364-4-41:2005 Table 41.1, maximum disconnection times of final circuits, a.c. [s]:
@@ -390,6 +390,84 @@ def k_factor(material: str, insulation: str, csa_mm2: float) -> float:
     return small if csa_mm2 <= 300.0 else large
 
 
+@dataclass(frozen=True)
+class ConductorSizes:
+    """Cross-sections and adiabatic factors of a cable's conductors.
+
+    Attributes
+    ----------
+    line_mm2 : float
+        Line conductor cross-section, all parallel conductors of one phase together [mm2].
+    k_line : float
+        k of the line conductors [A s^0.5 / mm2].
+    cpc_mm2 : float
+        Protective conductor cross-section, all parallel protective conductors together [mm2].
+    k_cpc : float
+        k of the protective conductor, from its own material and size [A s^0.5 / mm2].
+    cpc_each_mm2 : float
+        Cross-section of one protective conductor [mm2].
+    """
+
+    line_mm2: float
+    k_line: float
+    cpc_mm2: float
+    k_cpc: float
+    cpc_each_mm2: float
+
+
+def conductor_sizes(cable: Any) -> ConductorSizes:
+    """The cross-sections and k factors the adiabatic rule reads for a cable.
+
+    The line conductors count ``csa_mm2 x parallel``; the protective conductor
+    ``cpc_mm2 x cpc_parallel`` (``cpc_mm2`` defaults to ``csa_mm2``, ``cpc_parallel`` to
+    ``parallel``). Each k comes from the conductor's own material (``cpc_material`` for the
+    protective conductor, by default the cable's), the cable's insulation and the size of one
+    conductor (PVC changes above 300 mm2). The protective conductor is taken as a core of the
+    cable (Table A.54.3); a separate one has a higher k, so this is on the safe side.
+
+    Parameters
+    ----------
+    cable : coordination.model.Cable
+        The circuit's cable.
+
+    Returns
+    -------
+    ConductorSizes
+        Sizes [mm2] and k [A s^0.5 / mm2].
+
+    Raises
+    ------
+    InputError
+        For a material or insulation without a k (:func:`k_factor`).
+
+    References
+    ----------
+    IEC 60364-4-43:2008 Table 43A (k of line conductors); IEC 60364-5-54:2011 Table A.54.3
+    (k of a protective conductor that is a core of a multicore cable), Table A.54.2 (one
+    that is not; not used here).
+
+    Examples
+    --------
+    >>> from coordination.model import Cable
+    >>> sizes = conductor_sizes(Cable(length_m=20, csa_mm2=2.5, cpc_mm2=1.5))
+    >>> print(sizes.cpc_mm2, sizes.k_cpc)
+    1.5 115.0
+    """
+    parallel = max(int(getattr(cable, "parallel", None) or 1), 1)
+    csa = float(cable.csa_mm2)
+    cpc_each = float(cable.cpc_mm2 if cable.cpc_mm2 is not None else csa)
+    cpc_parallel = max(int(getattr(cable, "cpc_parallel", None) or parallel), 1)
+    material = cable.material
+    cpc_material = getattr(cable, "cpc_material", None) or material
+    return ConductorSizes(
+        line_mm2=csa * parallel,
+        k_line=k_factor(material, cable.insulation, csa),
+        cpc_mm2=cpc_each * cpc_parallel,
+        k_cpc=k_factor(cpc_material, cable.insulation, cpc_each),
+        cpc_each_mm2=cpc_each,
+    )
+
+
 def overload_conditions(ib_a: float | None, in_a: float, iz_a: float | None,
                         i2_a: float) -> tuple[tuple[str, float, float], ...]:
     """The overload conditions that the given data allow, as (name, value [A], limit [A]).
@@ -474,7 +552,8 @@ def _get(node: Any, name: str, default: float | None = None) -> float | None:
 
 
 #: Fault currents of a node [A] at which the checks read its device's edges.
-_NODE_CURRENTS = ("ief_min_a", "ik_max_a", "ik3_max_a", "ik1_max_a", "ik_min_end_a")
+_NODE_CURRENTS = ("ief_min_a", "ik_max_a", "ik3_max_a", "ik1_max_a", "ik_min_end_a",
+                  "ief_max_board_a")
 
 
 class _Edges:
@@ -527,22 +606,55 @@ class _Edges:
         return float(band.i2t_let_through(i)) if pair is None else pair[1]
 
 
+def _never(band: Band, i: float) -> str:
+    """Words for a current the band's upper edge never reaches: it is never cleared."""
+    pickup = float(band.pickup_max_a)
+    where = (f"below its pickup, {_a(pickup)}" if math.isfinite(pickup) and i < pickup
+             else "below its pickup")
+    return f"{_a(i)} is never cleared by {band.name} ({where})"
+
+
+def _takes(band: Band, i: float, t: float) -> str:
+    """``"160 A may take 12 s"``, or the words for never."""
+    return f"{_a(i)} may take {_s(t)}" if math.isfinite(t) else _never(band, i)
+
+
+def _disconnection_limit(study: Study, cid: str, band: Band) -> tuple[float, str, str, bool]:
+    """Required time [s], the circuit's class in words, its source, and whether it is final."""
+    kind = EARTHING_KIND.get(str(study.supply.earthing).upper(), "TN")
+    final = study.is_final(cid)
+    in_scope = final and _in_a(band) <= FINAL_CIRCUIT_SCOPE_A
+    limit = disconnection_time_s(study.supply.u0_v, study.supply.earthing, in_scope)
+    if in_scope:
+        return limit, f"final circuit, {kind}", TABLE_41_1_SOURCE, final
+    what = (f"final circuit above {FINAL_CIRCUIT_SCOPE_A:g} A, {kind}" if final
+            else f"distribution circuit, {kind}")
+    return limit, what, f"IEC 60364-4-41 411.3.2.{3 if kind == 'TN' else 4}", final
+
+
+def _carried_a(study: Study, cid: str, band: Band) -> float:
+    """The current the circuit's device must carry: Ib where given, else In [A]."""
+    ib = study.by_id[cid].load_a
+    return float(ib) if ib else _in_a(band)
+
+
+def _rcd_needed(study: Study, cid: str, band: Band, node: Any, edges: _Edges) -> bool:
+    """TT and the earth fault too small for any overcurrent device able to carry the load:
+    the disconnection check fails and asks for an RCD."""
+    if EARTHING_KIND.get(str(study.supply.earthing).upper(), "TN") != "TT":
+        return False
+    ief = _get(node, "ief_min_a", 0.0) or 0.0
+    limit = _disconnection_limit(study, cid, band)[0]
+    carry = _carried_a(study, cid, band)
+    return edges.t_max(band, ief) > limit and ief < FASTEST_OVERCURRENT_MULTIPLE * carry
+
+
 # -------------------------------------------------------------------------------------------
 # the four checks of one circuit
 def _disconnection(study: Study, cid: str, band: Band, node: Any, edges: _Edges) -> CheckResult:
     supply = study.supply
     kind = EARTHING_KIND.get(str(supply.earthing).upper(), "TN")
-    in_a = _in_a(band)
-    final = study.is_final(cid)
-    in_scope = final and in_a <= FINAL_CIRCUIT_SCOPE_A
-    limit = disconnection_time_s(supply.u0_v, supply.earthing, in_scope)
-    if in_scope:
-        what, source = f"final circuit, {kind}", TABLE_41_1_SOURCE
-    else:
-        clause = f"IEC 60364-4-41 411.3.2.{3 if kind == 'TN' else 4}"
-        what = (f"final circuit above {FINAL_CIRCUIT_SCOPE_A:g} A, {kind}" if final
-                else f"distribution circuit, {kind}")
-        source = clause
+    limit, what, source, final = _disconnection_limit(study, cid, band)
     ief = _get(node, "ief_min_a", 0.0) or 0.0
     zs = _get(node, "zs_ohm", math.nan)
     zs = math.nan if zs is None else zs
@@ -553,13 +665,12 @@ def _disconnection(study: Study, cid: str, band: Band, node: Any, edges: _Edges)
     details = {"current_a": ief, "zs_ohm": zs, "zs_max_ohm": zs_max, "ia_a": ia,
                "final": final, "circuit_class": what, "source": source}
     zs_text = f"Zs {_ohm(zs)}" if math.isfinite(zs) else "Zs"
-    times = f"{_a(ief)} may take {_s(t)}, limit {_s(limit)} ({what})"
+    times = f"{_takes(band, ief, t)}, limit {_s(limit)} ({what})"
     if ok:
         reason = (f"{zs_text} within {_ohm(zs_max)} for {band.name}: {_a(ief)} cleared within "
                   f"{_s(t)}, limit {_s(limit)} ({what})")
     else:
-        ib = study.by_id[cid].load_a
-        carry = float(ib) if ib else in_a
+        carry = _carried_a(study, cid, band)
         head = f"{zs_text} exceeds {_ohm(zs_max)} for {band.name}"
         if kind == "TT" and ief < FASTEST_OVERCURRENT_MULTIPLE * carry:
             reason = (f"{head}: {times}; too high for any overcurrent device carrying "
@@ -569,6 +680,49 @@ def _disconnection(study: Study, cid: str, band: Band, node: Any, edges: _Edges)
             reason = (f"{head}: {times}; shorten the run, enlarge the conductors, choose a "
                       "faster device or use an RCD")
     return CheckResult(cid, "disconnection", ok, t, limit, "s", reason, band.basis, details)
+
+
+def _series(band: Band) -> tuple[float, ...] | None:
+    """The standard ratings of the band's family, where it has a fixed series."""
+    if band.family == "mcb":
+        from curves.mcb import MCB_RATINGS_A
+        return tuple(float(r) for r in MCB_RATINGS_A)
+    if band.family == "gG":
+        from curves.fuse import GG_RATINGS_A
+        return tuple(float(r) for r in GG_RATINGS_A)
+    return None
+
+
+def _next_device(band: Band, ib_a: float) -> tuple[str, float, float, bool] | None:
+    """The smallest device of the band's family that carries ``ib_a``: (name, In [A], I2 [A],
+    exact). ``exact`` is False where I2 is scaled from the present device (adjustable breakers,
+    datasheet devices: a rating or setting of at least Ib); None where the series ends below Ib.
+    """
+    series = _series(band)
+    if series is None:
+        ratio = float(band.pickup_max_a) / _in_a(band)
+        in_new = math.ceil(ib_a * 10.0 - 1e-9) / 10.0
+        return f"a rating or setting of at least {in_new:g} A", in_new, ratio * in_new, False
+    fits = [r for r in series if r >= ib_a]
+    if not fits:
+        return None
+    rating = fits[0]
+    if band.family == "mcb":
+        from curves.mcb import mcb_band
+        st = band.settings
+        new = mcb_band(str(st.get("type", band.name[0])), rating, basis=band.basis,
+                       energy_class=int(st.get("energy_class", 3)),
+                       icn_a=float(st.get("icn_a", 6000.0)))
+    else:
+        from curves.fuse import gg_band
+        new = gg_band(rating, basis=band.basis)
+    return new.name, float(new.rating_a), float(new.pickup_max_a), True
+
+
+def _iz_needed_a(in_a: float, i2_a: float) -> float:
+    """Least Iz with In <= Iz and I2 <= 1.45 Iz, rounded up to 0.1 A (never too small) [A]."""
+    need = max(in_a, i2_a / 1.45)
+    return math.ceil(need * 10.0 - 1e-9) / 10.0
 
 
 def _overload(study: Study, cid: str, band: Band) -> CheckResult | None:
@@ -590,14 +744,41 @@ def _overload(study: Study, cid: str, band: Band) -> CheckResult | None:
     else:
         failing = [f"{n.replace(' <= ', ' > ')} ({_a(v)} > {_a(lim)})"
                    for n, v, lim in terms if v > lim]
-        fixes = []
-        if any(n == "Ib <= In" and v > lim for n, v, lim in terms):
-            fixes.append("a larger device (and cable)")
-        if iz is not None and any(n != "Ib <= In" and v > lim for n, v, lim in terms):
-            need = max(in_a, i2 / 1.45)
-            need = math.ceil(need * 10.0 - 1e-9) / 10.0  # round up to 0.1 A: never too small
-            fixes.append(f"a cable with Iz >= {need:g} A or a smaller device")
-        reason = f"{band.name} (I2 {_a(i2)}): {'; '.join(failing)}: choose {' or '.join(fixes)}"
+        if ib is not None and float(ib) > in_a:
+            # the device cannot carry the load: only a larger one helps, with the cable it needs
+            nxt = _next_device(band, float(ib))
+            if nxt is None:
+                fix = (f"no {band.family} rating carries Ib {_a(float(ib))}: choose another "
+                       "family")
+            else:
+                new_name, new_in, new_i2, exact = nxt
+                need = _iz_needed_a(new_in, new_i2)
+                details.update({"next_device": new_name, "next_in_a": new_in,
+                                "next_i2_a": new_i2, "next_iz_needed_a": need})
+                i2_text = f"I2 {_a(new_i2)}" if exact else f"I2 about {_a(new_i2)}"
+                needs = (f"it needs Iz >= {need:g} A (In <= Iz, {i2_text} <= 1.45 Iz)")
+                if iz is None:
+                    cable = "; check the cable's Iz"
+                elif float(iz) >= need:
+                    cable = f"; the cable's Iz {_a(float(iz))} is enough"
+                else:
+                    cable = f", so also a cable with Iz >= {need:g} A (now {_a(float(iz))})"
+                fix = f"{new_name}, which carries Ib {_a(float(ib))}: {needs}{cable}"
+            reason = f"{band.name} (I2 {_a(i2)}): {'; '.join(failing)}: choose {fix}"
+        else:
+            need = _iz_needed_a(in_a, i2)
+            fixes = [f"a cable with Iz >= {need:g} A"]
+            series = _series(band)
+            if series is None:
+                can_shrink = ib is None or float(ib) < in_a
+            else:
+                smaller = [r for r in series if r < in_a]
+                can_shrink = bool(smaller) and (ib is None or max(smaller) >= float(ib))
+            if can_shrink:
+                fixes.append("a smaller device" + ("" if ib is None else " that still carries "
+                                                   f"Ib {_a(float(ib))}"))
+            reason = (f"{band.name} (I2 {_a(i2)}): {'; '.join(failing)}: choose "
+                      f"{' or '.join(fixes)}")
     return CheckResult(cid, "overload", ok, value, limit, "A", reason, band.basis, details)
 
 
@@ -607,13 +788,8 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
     cable = circuit.cable
     if cable is None:
         return None
-    parallel = max(int(cable.parallel or 1), 1)
-    s_line = float(cable.csa_mm2) * parallel
-    k_line = k_factor(cable.material, cable.insulation, float(cable.csa_mm2))
-    cpc_each = float(cable.cpc_mm2 if cable.cpc_mm2 is not None else cable.csa_mm2)
-    cpc_parallel = max(int(getattr(cable, "cpc_parallel", None) or parallel), 1)
-    s_cpc = cpc_each * cpc_parallel
-    k_cpc = k_factor(cable.cpc_material or cable.material, cable.insulation, cpc_each)
+    sizes = conductor_sizes(cable)
+    s_line, k_line, s_cpc, k_cpc = sizes.line_mm2, sizes.k_line, sizes.cpc_mm2, sizes.k_cpc
 
     # (what, conductor, current [A], installed S [mm2], k)
     ik_max = _get(node, "ik_max_a")
@@ -629,8 +805,13 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
         cases.append(("minimum fault at the far end", "line", ik_min, s_line, k_line))
     ief = _get(node, "ief_min_a")
     if ief is not None and ief > 0:
-        cases.append(("minimum earth fault", "protective", ief, s_cpc, k_cpc))
+        cases.append(("minimum earth fault at the far end", "protective", ief, s_cpc, k_cpc))
+    ief_max = _get(node, "ief_max_board_a")
+    if ief_max is not None and ief_max > 0 and math.isfinite(ief_max):
+        # a current-limiting device lets the most energy through at the largest earth fault
+        cases.append(("maximum earth fault at the board", "protective", ief_max, s_cpc, k_cpc))
 
+    rcd = _rcd_needed(study, cid, band, node, edges)
     rows = []
     problems = []
     for what, conductor, i, s, k in cases:
@@ -642,21 +823,39 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
         if t > ADIABATIC_LIMIT_S:
             if conductor == "line" and overload_protected:
                 continue  # IEC 60364-4-43 435.1: overload protection also protects the conductor
-            problems.append(f"{band.name} may take {_s(t)} at the {what} ({_a(i)}): beyond "
-                            f"{ADIABATIC_LIMIT_S:g} s the adiabatic rule does not hold; choose a "
-                            "faster or smaller device")
-            rows.append((math.inf, need, s, what, conductor, i, energy, k))
+            at = f"the {what} ({_a(i)})"
+            if conductor == "protective" and rcd:
+                problems.append(
+                    f"{at} must be cleared by an RCD (too small for any overcurrent device, see "
+                    f"disconnection): the protective conductor's adiabatic check then depends "
+                    f"on the RCD's clearing time and is not decided by {band.name}")
+            elif math.isfinite(t):
+                problems.append(f"{band.name} may take {_s(t)} at {at}: beyond "
+                                f"{ADIABATIC_LIMIT_S:g} s the adiabatic rule does not hold; "
+                                "choose a faster or smaller device")
+            else:
+                problems.append(f"{_never(band, i)} at the {what}: the adiabatic rule needs "
+                                f"clearing within {ADIABATIC_LIMIT_S:g} s; choose a faster or "
+                                "smaller device")
+            rows.append((math.inf, need, s, what, conductor, i, energy, k, t))
             continue
-        rows.append((need / s, need, s, what, conductor, i, energy, k))
+        rows.append((need / s, need, s, what, conductor, i, energy, k, t))
     if not rows:
         return None
     worst = max(rows, key=lambda r: r[0])
-    _, need, s, what, conductor, i, energy, k = worst
+    _, need, s, what, conductor, i, energy, k, _t = worst
     ok = not problems and all(r[1] <= r[2] for r in rows)
+    checked = tuple({"case": r[3], "conductor": r[4], "current_a": _finite(r[5]),
+                     "t_max_s": _finite(r[8]), "i2t_a2s": _finite(r[6]), "k": r[7],
+                     "need_mm2": _finite(r[1]), "have_mm2": r[2]} for r in rows)
     details = {"current_a": i, "i2t_a2s": energy, "k": k, "conductor": conductor,
+               "governing_case": what, "cases": checked,
                "line_mm2": s_line, "cpc_mm2": s_cpc, "k_line": k_line, "k_cpc": k_cpc,
                "source": K_TABLE_SOURCE,
-               "assumption": "protective conductor taken as a core of the same cable "
+               "assumption": f"governed by the {what}; protective conductor checked at the "
+                             "minimum earth fault at the far end and the maximum earth fault "
+                             "at the board (a current-limiting device lets through the most "
+                             "energy at the largest fault), taken as a core of the same cable "
                              "(Table A.54.3); a separate cpc has a higher k"}
     if problems:
         reason = problems[0]
@@ -665,10 +864,12 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
                   f"I2t {energy:.3g} A2s, k {k:g}): needs {_mm2(need)}")
     else:
         part = "protective conductor" if conductor == "protective" else "line conductors"
-        reason = (f"{part} {_mm2(s)} too small for the {what} ({_a(i)}): {band.name} lets "
-                  f"through {energy:.3g} A2s, needing {_mm2(need)} at k {k:g}; enlarge the "
-                  f"{'cpc' if conductor == 'protective' else 'conductors'} or choose a device "
-                  "that lets through less energy")
+        reason = (f"{part} {_mm2(s)} too small for the {what} ({_a(i)}): {band.name} may "
+                  f"let through up to {energy:.3g} A2s (the most its standard allows), needing "
+                  f"{_mm2(need)} at k {k:g}; enlarge the "
+                  f"{'cpc' if conductor == 'protective' else 'conductors'}, choose a device "
+                  "that lets through less energy, or show from the maker's let-through data "
+                  f"that it stays within k2S2 = {(k * s) ** 2:.3g} A2s")
     return CheckResult(cid, "fault-energy", ok, need, s, "mm2", reason, band.basis, details)
 
 

@@ -14,6 +14,19 @@ Conventions (also carried in :attr:`FaultLevels.convention` and printed with eve
   ``Ief = c_min U0 / Zs`` (with no reactance this is BS 7671's ``Zs = Ze + R1 + R2``).
   Short circuit: line-neutral, or line-line (``c_min sqrt(3) U0 / |2 Z_phase|``) beyond a
   three-phase cable that has no neutral.
+* **Maximum earth fault** at a circuit's board (``ief_max_board_a``): a line-to-protective-
+  conductor fault of negligible impedance there, ``c_max``, conductors at 20 degC:
+  ``Ief_max = c_max U0 / |Ze + sum of (R1 + R2) + j (X1 + X2)|`` along the path to the board,
+  Ze split by the supply's X/R and added as a complex impedance, like the line-neutral maximum.
+  Where Ze is not given the source's earth loop is unknown, and its line-neutral loop for
+  maximum currents (the one that gives ``ik1_max_a`` at the origin, with K_T) is taken instead,
+  as a conservative bound (where neutral and protective conductor are one PEN conductor the two
+  loops are the same; a separate protective conductor is no better: common practice). A circuit
+  without a cable adds nothing (the largest current). Never below ``ief_min_board_a``. This is
+  the fault at which a current-limiting device (MCB, fuse in its energy region) lets the most
+  energy into the protective conductor. A given Ze is taken as the installation's real one;
+  where it is only a declared maximum the real earth fault may be larger (up to the line-
+  neutral value ``ik1_max_a`` in a TN-C-S supply).
 * **Source.** ``pfc_a`` is the line-neutral value of a single-phase supply and the three-phase
   symmetrical value of a three-phase one. A three-phase supply's line-neutral loop is
   ``pfc_ln_a``'s when given; else it is bounded: it lies between the phase impedance (the
@@ -205,6 +218,7 @@ class Source:
     ze_given: bool
     k_t: float | None
     description: str
+    z_earth_max: complex = 0j  # the source's earth loop for maximum earth faults
 
 
 def source_impedances(supply: Supply) -> Source:
@@ -274,10 +288,17 @@ def source_impedances(supply: Supply) -> Source:
                 f"{ze:g} ohm{three}; the real fault level may be higher (give pfc_a)")
     ze_given = supply.ze_ohm is not None
     ze_ohm = float(supply.ze_ohm) if ze_given else abs(z_loop_min)  # type: ignore[arg-type]
+    # the earth loop for maximum earth faults: Ze where given (split by the supply's X/R, as
+    # the line-neutral maximum splits its source); else the source's line-neutral loop for
+    # maximum currents, a conservative bound
+    z_earth_max = split_impedance(ze_ohm, supply.x_r) if ze_given else z_loop_max
     text += "; Ze " + ("given" if ze_given else "= the source's line-neutral loop")
+    text += ("; maximum earth fault through Ze (X/R " + f"{supply.x_r:g})" if ze_given else
+             "; maximum earth fault through the source's line-neutral loop for maximum currents "
+             "(Ze not given: a conservative bound)")
     return Source(z_phase_max=z_ph_max, z_phase_min=z_ph_min, z_loop_max=z_loop_max,
                   z_loop_min=z_loop_min, ze_ohm=ze_ohm, ze_given=ze_given, k_t=k_t,
-                  description=text)
+                  description=text, z_earth_max=z_earth_max)
 
 
 def path_sums(own: np.ndarray, parent: np.ndarray) -> np.ndarray:
@@ -319,9 +340,11 @@ def path_sums(own: np.ndarray, parent: np.ndarray) -> np.ndarray:
 class NodeFaults:
     """Fault levels of one circuit [A, ohm].
 
-    ``ik3_max_a``, ``ik1_max_a`` and ``ik_max_a`` are at the circuit's ORIGIN (the board its
-    device sits on); ``ik_max_a`` is the window's end (three-phase value for a three-phase
-    circuit, line-neutral for a single-phase one). ``ief_min_a``, ``zs_ohm``, ``ik_min_end_a``
+    ``ik3_max_a``, ``ik1_max_a``, ``ik_max_a`` and ``ief_max_board_a`` are at the circuit's
+    ORIGIN (the board its device sits on); ``ik_max_a`` is the window's end (three-phase value
+    for a three-phase circuit, line-neutral for a single-phase one); ``ief_max_board_a`` is the
+    largest earth fault there (line to protective conductor, c_max, 20 degC; never below
+    ``ief_min_board_a``). ``ief_min_a``, ``zs_ohm``, ``ik_min_end_a``
     are at its FAR END; ``ik_min_end_kind`` says "line-neutral" or "line-line" (a three-phase
     cable without neutral). ``None`` where a value does not exist (no three-phase value under
     a single-phase supply, no line-neutral value beyond a cable without neutral).
@@ -344,6 +367,7 @@ class NodeFaults:
     ief_min_board_a: float
     r1_r2_ohm: float  # this circuit's own cable, R1 + R2 at maximum operating temperature
     z_ln_end_ohm: float | None  # line-neutral loop at the far end, hot conductors, c_min case
+    ief_max_board_a: float  # maximum earth fault at the circuit's origin (its board)
 
     def to_json(self) -> dict[str, Any]:
         return asdict(self)
@@ -400,22 +424,28 @@ def convention_text(supply: Supply) -> str:
         f"conductors at maximum operating temperature (PVC 70 degC, XLPE 90 degC), c_min = "
         f"{supply.c_min:g}; Zs = Ze + |sum of (R1 + R2) + j(X1 + X2)| along the path, "
         "Ief = c_min U0 / Zs; Ik min end is line-neutral (line-line beyond a cable without "
-        "neutral). IEC 60909-0 style, simplified for low voltage."
+        "neutral). Maximum earth fault at each circuit's board: line to protective conductor, "
+        f"c_max = {supply.c_max:g}, conductors at 20 degC, through "
+        + ("Ze" if supply.ze_ohm is not None else
+           "the source's line-neutral loop (Ze not given: a conservative bound)")
+        + ", never below the minimum there. IEC 60909-0 style, simplified for low voltage."
     )
 
 
 # -- computation --------------------------------------------------------------------------------
 @lru_cache(maxsize=4096)
-def _own(cable: Cable | None) -> tuple[complex, complex, complex, complex, complex, float]:
-    """One cable's contributions: z3_20, zln_20, z3_hot, zln_hot, zpe_hot, R1+R2 hot."""
+def _own(cable: Cable | None) -> tuple[complex, complex, complex, complex, complex, complex,
+                                       float]:
+    """One cable's contributions: z3_20, zln_20, z3_hot, zln_hot, zpe_hot, zpe_20, R1+R2 hot."""
     if cable is None:
-        return 0j, 0j, 0j, 0j, 0j, 0.0
+        return 0j, 0j, 0j, 0j, 0j, 0j, 0.0
     run = cables.run_impedances(cable)
     return (complex(run.r_line_20, run.x_line),
             complex(run.r_line_20 + run.r_neutral_20, run.x_line + run.x_neutral),
             complex(run.r_line_hot, run.x_line),
             complex(run.r_line_hot + run.r_neutral_hot, run.x_line + run.x_neutral),
             complex(run.r1_r2_hot, run.x_line + run.x_cpc),
+            complex(run.r_line_20 + run.r_cpc_20, run.x_line + run.x_cpc),
             run.r1_r2_hot)
 
 
@@ -456,7 +486,7 @@ def compute(study: Study) -> FaultLevels:
     n = len(circuits)
     index = {c.id: i for i, c in enumerate(circuits)}
     parent = np.array([index.get(c.parent, n) for c in circuits] + [n], dtype=np.intp)
-    own = np.zeros((5, n + 1), dtype=complex)
+    own = np.zeros((6, n + 1), dtype=complex)
     r1r2 = np.zeros(n)
     for i, c in enumerate(circuits):
         *z, rr = _own(c.cable)
@@ -479,6 +509,7 @@ def compute(study: Study) -> FaultLevels:
         iln_min = loop_current_a(z_ln_end, u0, c_min)
         zs_end = earth_loop_ohm(src.ze_ohm, np.abs(at_end[4]))
         zs_board = earth_loop_ohm(src.ze_ohm, np.abs(at_board[4]))
+        ief_max_board = loop_current_a(src.z_earth_max + at_board[5], u0, c_max)
     has_ln = np.isfinite(iln_min)
     ik_min_end = np.where(has_ln, iln_min, ill_min)
     phases = np.array([c.phases for c in circuits])
@@ -486,6 +517,7 @@ def compute(study: Study) -> FaultLevels:
     ik_max_end = np.where(phases == 3, ik3_end, ik1_end)
     ief_end = loop_current_a(zs_end, u0, c_min)
     ief_board = loop_current_a(zs_board, u0, c_min)
+    ief_max_board = np.maximum(ief_max_board, ief_board)
 
     columns: dict[str, list[Any]] = {
         "circuit": [c.id for c in circuits],
@@ -505,6 +537,7 @@ def compute(study: Study) -> FaultLevels:
         "ief_min_board_a": ief_board.tolist(),
         "r1_r2_ohm": r1r2.tolist(),
         "z_ln_end_ohm": _values(z_ln_end),
+        "ief_max_board_a": ief_max_board.tolist(),
     }
     names = list(columns)
     nodes = tuple(NodeFaults(**dict(zip(names, row, strict=True)))

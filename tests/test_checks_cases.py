@@ -37,6 +37,7 @@ class Node:
     ief_min_a: float
     zs_ohm: float
     ik_min_end_a: float
+    ief_max_board_a: float | None = None
 
 
 @dataclass(frozen=True)
@@ -45,11 +46,12 @@ class Levels:
 
 
 def node(cid: str = "c1", *, zs_ohm: float = 1.0, ik1_a: float = 3000.0, ik3_a: float = 3000.0,
-         ik_min_end_a: float | None = None, ief_min_a: float | None = None) -> Node:
+         ik_min_end_a: float | None = None, ief_min_a: float | None = None,
+         ief_max_board_a: float | None = None) -> Node:
     """Fault levels by hand: Ief = Cmin * U0 / Zs (BS 7671 Appendix 3, Cmin 0.95)."""
     ief = C_MIN * U0 / zs_ohm if ief_min_a is None else ief_min_a
     end = ief if ik_min_end_a is None else ik_min_end_a
-    return Node(cid, ik3_a, ik1_a, ik1_a, ief, zs_ohm, end)
+    return Node(cid, ik3_a, ik1_a, ik1_a, ief, zs_ohm, end, ief_max_board_a)
 
 
 def one_circuit(device: str | dict = "B32", *, earthing: str = "TN-C-S", phases: int = 1,
@@ -121,12 +123,55 @@ def test_tt_loop_too_high_asks_for_an_rcd() -> None:
     assert "RCD is needed" in r.reason
 
 
+# Same TT case (IEC 60364-4-41 411.5; common practice: below 5 Ib no overcurrent device can
+# disconnect): the protective conductor's adiabatic check (IEC 60364-5-54 543.1.2) then rests on
+# the RCD's clearing, so the fault-energy reason says that and asks for no other overcurrent
+# device. The earth fault at the board (1.05 x 230 / 21 = 11.5 A, c_max) reads the same way.
+@pytest.mark.parametrize("ief_max_board_a", [None, 1.05 * 230.0 / 21.0])
+def test_tt_fault_energy_defers_to_the_rcd(ief_max_board_a: float | None) -> None:
+    cable = Cable(length_m=10, csa_mm2=6, cpc_mm2=2.5)
+    n = node(zs_ohm=21.0, ik_min_end_a=600.0, ief_max_board_a=ief_max_board_a)
+    results = run_one(one_circuit(earthing="TT", cable=cable), n)
+    assert "RCD is needed" in only(results, "disconnection").reason
+    r = only(results, "fault-energy")
+    assert not r.ok
+    assert "must be cleared by an RCD" in r.reason
+    assert "not decided by B32" in r.reason
+    assert "faster or smaller device" not in r.reason
+
+
+# In TN (IEC 60364-4-41 411.4) the same slow earth fault is the overcurrent device's to clear,
+# so there the reason still asks for a faster device (IEC 60364-5-54 543.1.2, 5 s).
+def test_tn_fault_energy_asks_for_a_faster_device() -> None:
+    cable = Cable(length_m=10, csa_mm2=6, cpc_mm2=2.5)
+    r = only(run_one(one_circuit(cable=cable), node(zs_ohm=3.64, ik_min_end_a=600.0)),
+             "fault-energy")
+    assert "faster or smaller device" in r.reason
+    assert "RCD" not in r.reason
+
+
 # IEC 60898-1: below 1.13 In an MCB need never trip; a 30 A earth fault on a B32 is never cleared.
 def test_disconnection_never_below_pickup() -> None:
     r = only(run_one(one_circuit(), node(zs_ohm=7.0, ief_min_a=30.0)), "disconnection")
     assert not r.ok
     assert math.isinf(r.value)
     assert r.to_json()["value"] is None
+    # the reason says so in words (IEC 60898-1: I2 = 1.45 x 32 = 46.4 A), never "may take never"
+    assert "30 A is never cleared by B32 (below its pickup, 46.4 A)" in r.reason
+    assert "may take never" not in r.reason
+
+
+# IEC 60898-1 (no trip guaranteed below 1.45 In = 46.4 A for a B32) and IEC 60364-5-54 543.1.2
+# (the adiabatic rule needs clearing within 5 s): a 30 A earth fault is never cleared; the
+# fault-energy reason says so in words.
+def test_fault_energy_never_cleared_is_said_in_words() -> None:
+    cable = Cable(length_m=10, csa_mm2=6, cpc_mm2=2.5)
+    n = node(zs_ohm=7.0, ief_min_a=30.0, ik_min_end_a=600.0)
+    r = only(run_one(one_circuit(cable=cable), n), "fault-energy")
+    assert not r.ok
+    assert "30 A is never cleared by B32 (below its pickup, 46.4 A)" in r.reason
+    assert "may take never" not in r.reason
+    json.dumps(r.to_json(), allow_nan=False)
 
 
 # -- overload ---------------------------------------------------------------------------------
@@ -155,6 +200,57 @@ def test_overload_fails_when_ib_exceeds_in() -> None:
     r = only(run_one(one_circuit(load_a=40.0), node()), "overload")
     assert not r.ok
     assert r.value == pytest.approx(40.0, rel=1e-9)
+
+
+# IEC 60364-4-43 433.1 with IEC 60898-1 (I2 = 1.45 In; ratings 32, 40 A: common practice):
+# Ib 38 A > In 32 A and In 32 A > Iz 30 A both fail. A smaller device cannot carry Ib; the next
+# rating that does is B40, which needs Iz >= max(40, 1.45 x 40 / 1.45) = 40 A, so the cable too.
+def test_overload_with_ib_above_in_suggests_the_next_device_and_its_iz() -> None:
+    cable = Cable(length_m=10, csa_mm2=4, cpc_mm2=1.5, iz_a=30.0)
+    r = only(run_one(one_circuit(load_a=38.0, cable=cable), node()), "overload")
+    assert not r.ok
+    assert "Ib > In" in r.reason and "In > Iz" in r.reason
+    assert "smaller device" not in r.reason
+    assert "choose B40" in r.reason
+    assert "Iz >= 40 A" in r.reason
+    assert r.details["next_device"] == "B40"
+    assert r.details["next_iz_needed_a"] == pytest.approx(40.0, rel=1e-12)
+
+
+# IEC 60364-4-43 433.1 with IEC 60269-1 (gG In >= 16 A: I2 = 1.6 In, from memory) and the gG
+# ratings 32, 40 A (IEC 60269 series): Ib 35 A on a gG32 fails; gG40 carries it and needs
+# I2 64 A <= 1.45 Iz, Iz >= 44.14 A, rounded up to 44.2 A; the cable's Iz 50 A is enough.
+def test_overload_next_gg_fuse_and_the_iz_it_needs() -> None:
+    cable = Cable(length_m=10, csa_mm2=10, cpc_mm2=4, iz_a=50.0)
+    r = only(run_one(one_circuit("gG32", load_a=35.0, cable=cable), node()), "overload")
+    assert not r.ok
+    assert "choose gG40" in r.reason
+    assert "Iz >= 44.2 A" in r.reason
+    assert "is enough" in r.reason
+
+
+# IEC 60364-4-43 433.1 with IEC 60947-2 (I2 = 1.30 Ir): an adjustable breaker set to Ir 200 A
+# under Ib 210 A needs a rating or setting of at least 210 A, and then Iz >= max(210,
+# 1.30 x 210 / 1.45 = 188.3) = 210 A.
+def test_overload_adjustable_breaker_below_ib_suggests_a_setting() -> None:
+    device = {"family": "tm", "In_a": 250, "Ir_x": 0.8, "Ii_x": 10, "icu_a": 36000}
+    cable = Cable(length_m=30, csa_mm2=95, cpc_mm2=50, iz_a=180.0)
+    s = one_circuit(device, phases=3, load_a=210.0, cable=cable, final=False)
+    r = only(run_one(s, node(zs_ohm=0.05)), "overload")
+    assert not r.ok
+    assert "a rating or setting of at least 210 A" in r.reason
+    assert "Iz >= 210 A" in r.reason
+    assert "smaller device" not in r.reason
+
+
+# IEC 60364-4-43 433.1: with Ib 20 A <= In 32 A but In > Iz 30 A, a smaller device that still
+# carries Ib (B25) is a remedy beside a larger cable (Iz >= 32 A).
+def test_overload_in_above_iz_offers_a_smaller_device_that_carries_ib() -> None:
+    cable = Cable(length_m=10, csa_mm2=4, cpc_mm2=1.5, iz_a=30.0)
+    r = only(run_one(one_circuit(load_a=20.0, cable=cable), node()), "overload")
+    assert not r.ok
+    assert "Iz >= 32 A" in r.reason
+    assert "a smaller device that still carries Ib 20 A" in r.reason
 
 
 # IEC 60364-4-43 433.1 with IEC 60269-1 (gG, In >= 16 A: conventional fusing current 1.6 In,
@@ -230,6 +326,45 @@ def test_fault_energy_minimum_line_fault_with_overload_protection(iz_a: float | 
     r = only(run_one(one_circuit(cable=cable), node(zs_ohm=1.0, ik_min_end_a=60.0)),
              "fault-energy")
     assert r.ok is ok
+
+
+# EN 60898-1 Annex ZA class 3, type B, 16 < In <= 32 A (REFERENCE.md: 45 000 A2s at 6 kA, from
+# memory) and IEC 60364-5-54 543.1.2 / Table A.54.3 (k 115): an earth fault of 6 kA at the board
+# needs sqrt(45 000) / 115 = 1.845 mm2 of protective conductor, so 1.5 mm2 fails, although the
+# 218 A at the far end (Zs 1.0 ohm) needs only sqrt(18 000) / 115 = 1.167 mm2; 2.5 mm2 passes.
+@pytest.mark.parametrize(("cpc_mm2", "ok"), [(1.5, False), (2.5, True)])
+def test_fault_energy_protective_conductor_at_the_largest_earth_fault(cpc_mm2: float,
+                                                                      ok: bool) -> None:
+    cable = Cable(length_m=10, csa_mm2=4, cpc_mm2=cpc_mm2)
+    n = node(zs_ohm=1.0, ik1_a=1000.0, ik3_a=1000.0, ik_min_end_a=600.0,
+             ief_max_board_a=6000.0)
+    r = only(run_one(one_circuit(cable=cable), n), "fault-energy")
+    assert r.ok is ok
+    assert r.details["governing_case"] == "maximum earth fault at the board"
+    assert r.value == pytest.approx(math.sqrt(45_000.0) / 115.0, rel=1e-6)
+    assert r.limit == pytest.approx(cpc_mm2, rel=1e-12)
+
+
+# IEC 60364-4-43 Table 43A and IEC 60364-5-54 Table A.54.3 (REFERENCE.md, confirmed): copper
+# XLPE 143, aluminium XLPE 94, copper PVC 115 (103 above 300 mm2). Sizes by hand: two 240 mm2
+# per phase = 480 mm2; a 120 mm2 aluminium cpc in each cable = 240 mm2, or 120 mm2 when the
+# study says one cpc (cpc_parallel = 1).
+@pytest.mark.parametrize(
+    ("cable", "expected"),
+    [
+        (Cable(length_m=50, csa_mm2=240, cpc_mm2=120, cpc_material="aluminium",
+               insulation="xlpe", parallel=2), (480.0, 143.0, 240.0, 94.0, 120.0)),
+        (Cable(length_m=50, csa_mm2=240, cpc_mm2=120, cpc_material="aluminium",
+               insulation="xlpe", parallel=2, cpc_parallel=1), (480.0, 143.0, 120.0, 94.0, 120.0)),
+        (Cable(length_m=20, csa_mm2=400, cpc_mm2=185, parallel=1), (400.0, 103.0, 185.0, 115.0,
+                                                                    185.0)),
+        (Cable(length_m=20, csa_mm2=2.5), (2.5, 115.0, 2.5, 115.0, 2.5)),
+    ],
+)
+def test_conductor_sizes(cable: Cable, expected: tuple[float, ...]) -> None:
+    got = checks.conductor_sizes(cable)
+    assert (got.line_mm2, got.k_line, got.cpc_mm2, got.k_cpc, got.cpc_each_mm2) == pytest.approx(
+        expected, rel=1e-12)
 
 
 def test_fault_energy_left_out_without_a_cable() -> None:

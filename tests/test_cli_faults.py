@@ -95,6 +95,9 @@ def test_json_matches_the_api(study_file: Path) -> None:
         assert node["ik_max_a"] == pytest.approx(want.ik_max_a, rel=1e-12)
         assert node["zs_ohm"] == pytest.approx(want.zs_ohm, rel=1e-12)
         assert node["ief_min_a"] == pytest.approx(want.ief_min_a, rel=1e-12)
+        # the largest earth fault at the circuit's board, beside the smallest there
+        assert node["ief_max_board_a"] == pytest.approx(want.ief_max_board_a, rel=1e-12)
+        assert node["ief_min_board_a"] <= node["ief_max_board_a"]
     assert "line-neutral" in data["convention"]
     assert data["origin"]["ik3_max_a"] == pytest.approx(16000, rel=1e-12)
     # a three-phase circuit's window ends at its board's three-phase value, a single-phase
@@ -103,6 +106,9 @@ def test_json_matches_the_api(study_file: Path) -> None:
     assert by_id["ovens"]["ik_max_a"] == pytest.approx(by_id["ovens"]["ik3_max_a"], rel=1e-12)
     assert by_id["sockets"]["ik_max_a"] == pytest.approx(by_id["sockets"]["ik1_max_a"],
                                                          rel=1e-12)
+    # IEC 60909-0 Table 1 (c_max 1.05) and Ohm's law, by hand: the largest earth fault at the
+    # origin flows through the given Ze: 1.05 x 230 / 0.35 = 690 A
+    assert by_id["incomer"]["ief_max_board_a"] == pytest.approx(690.0, rel=1e-9)
 
 
 def test_json_has_null_for_values_that_do_not_exist(tmp_path: Path) -> None:

@@ -1,5 +1,6 @@
 """Properties of fault levels on random invented trees: the fault level never rises going away
-from the supply, Zs never falls, minimum currents never exceed maximum ones."""
+from the supply, Zs never falls, minimum currents never exceed maximum ones (common practice:
+adding impedance in series never raises a fault current; IEC 60909-0 c_min < c_max)."""
 
 from __future__ import annotations
 
@@ -130,3 +131,25 @@ def test_zs_never_falls_and_minimum_below_maximum(doc: dict[str, Any]) -> None:
             assert node.ik_min_end_a <= node.ik1_max_end_a * SLACK
         else:
             assert node.ik_min_end_a <= node.ik3_max_end_a * SLACK
+
+
+@settings(max_examples=50, deadline=None)
+@given(trees())
+def test_maximum_earth_fault_never_rises_and_bounds_the_minimum(doc: dict[str, Any]) -> None:
+    s = from_dict(doc)
+    levels = faults.compute(s)
+    by = levels.by_circuit
+    origin = [by[c.id].ief_max_board_a for c in s.circuits if c.parent == "supply"]
+    for c in s.circuits:
+        node = by[c.id]
+        # the largest earth fault at a board is never below the smallest there
+        assert node.ief_min_board_a <= node.ief_max_board_a * SLACK
+        # and the minimum at the far end is below both
+        assert node.ief_min_a <= node.ief_max_board_a * SLACK
+        if c.parent == "supply":
+            # every circuit fed from the supply sits on the same board: the origin
+            assert node.ief_max_board_a == origin[0]
+            continue
+        up = by[c.parent]
+        # from board to board it never rises
+        assert _le(node.ief_max_board_a, up.ief_max_board_a)

@@ -97,7 +97,9 @@ def test_three_phase_at_end_of_a_cable_by_hand() -> None:
 
 
 # BS 7671 practice (REFERENCE.md): Zs = Ze + (R1 + R2) x L x 1.20 for 70 degC PVC, with
-# R1 + R2 per metre from IEC 60228 at 20 degC. Cases worked by hand:
+# R1 + R2 per metre from IEC 60228 at 20 degC (REFERENCE.md for 1.5 mm2 and above; 1.0 mm2 =
+# 18.1 ohm/km is IEC 60228:2004 Table 2 as reproduced in public restatements, not in
+# REFERENCE.md: curves/data/iec60228_resistance.csv marks it confirmed-public). By hand:
 #   2.5/1.5 mm2, 30 m, Ze 0.35: (7.41 + 12.1) = 19.51 mohm/m x 30 = 0.5853 x 1.20 = 0.70236;
 #       Zs = 1.0524 ohm
 #   4/1.5 mm2, 25 m, Ze 0.80:   (4.61 + 12.1) = 16.71 mohm/m x 25 = 0.41775 x 1.20 = 0.5013;
@@ -221,3 +223,45 @@ def test_from_ze_only() -> None:
     assert levels.origin_ik1_a == pytest.approx(690.0, rel=1e-9)
     assert levels.by_circuit["a"].ief_min_a == pytest.approx(624.29, rel=1e-4)
     assert levels.origin_ik3_a is None
+
+
+# Maximum earth fault at a board, hand calculation (IEC 60909-0 Table 1 c_max 1.05; Ohm's law;
+# IEC 60228 Table 2 at 20 degC; reactance 0.08 mohm/m per conductor, common practice): single-
+# phase supply, Ze 0.35 ohm with X/R 1: 0.24749 + j0.24749 ohm. At the origin: 1.05 x 230 /
+# 0.35 = 690 A. Sub-main 16/6 mm2 copper, 20 m: R1 + R2 = (1.15 + 3.08) x 0.020 = 0.0846 ohm,
+# X1 + X2 = 2 x 0.08 x 20 = 3.2 mohm. Loop 0.33209 + j0.25069, |Z| = 0.41608 ohm: the board
+# below it sees 1.05 x 230 / 0.41608 = 580.41 A. The minimum there (hot, Cmin, Ze added
+# arithmetically: 0.35 + |0.0846 x 1.1965 + j0.0032| = 0.45127 ohm, 0.95 x 230 / 0.45127 =
+# 484.2 A) stays below it.
+def test_maximum_earth_fault_at_a_board_by_hand() -> None:
+    s = study({"pfc_a": 16000, "ze_ohm": 0.35, "phases": 1, "x_r": 1.0},
+              [circuit("sub", phases=1, length_m=20, csa_mm2=16, cpc_mm2=6),
+               circuit("final", "sub", phases=1, device="B16")])
+    levels = faults.compute(s)
+    assert levels.by_circuit["sub"].ief_max_board_a == pytest.approx(690.0, rel=1e-9)
+    final = levels.by_circuit["final"]
+    assert final.ief_max_board_a == pytest.approx(580.41, rel=1e-4)
+    assert final.ief_min_board_a == pytest.approx(484.2, rel=1e-3)
+    assert levels.to_json()["nodes"][1]["ief_max_board_a"] == pytest.approx(580.41, rel=1e-4)
+
+
+# Convention, no Ze given (transformer, IEC 60909-0 clause 6.3 with K_T): the source's earth loop
+# is unknown, so its line-neutral loop for maximum currents is taken as a conservative bound;
+# at the origin the maximum earth fault then equals the line-neutral maximum, 26 222 A (hand
+# value of test_transformer_three_phase_current_with_and_without_kt), and the convention says so.
+def test_maximum_earth_fault_without_ze_is_bounded_by_the_line_neutral_value() -> None:
+    s = study({"u0_v": U0_400, "transformer": {"rating_kva": 1000, "impedance_pct": 6.0,
+                                               "x_r": 6.0}}, [circuit("incomer")])
+    levels = faults.compute(s)
+    assert levels.by_circuit["incomer"].ief_max_board_a == pytest.approx(26222, rel=1e-4)
+    assert "conservative bound" in levels.convention
+
+
+# Convention: never below the minimum earth fault at the same board. A single-phase supply given
+# by Ze 0.8 ohm (TN-S) and X/R 0: 1.05 x 230 / 0.8 = 301.9 A >= 0.95 x 230 / 0.8 = 273.1 A.
+def test_maximum_earth_fault_from_ze_only_by_hand() -> None:
+    s = study({"ze_ohm": 0.8, "phases": 1, "x_r": 0.0, "earthing": "TN-S"},
+              [circuit("a", phases=1, device="B6")])
+    node = faults.compute(s).by_circuit["a"]
+    assert node.ief_max_board_a == pytest.approx(301.875, rel=1e-9)
+    assert node.ief_min_board_a == pytest.approx(273.125, rel=1e-9)
