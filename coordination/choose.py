@@ -23,6 +23,16 @@ million electronic settings in a fraction of a second). Survivors are confirmed 
 by the same engine and checks that ``coordination check`` runs, so the answer is what the check
 would say.
 
+When nothing fits, each remedy is checked before it is offered, by searching again with it
+assumed: a larger cable (Iz relaxed to what the smallest otherwise passing candidate needs, then
+confirmed with that Iz), a tested limit (only for pairs whose bands meet where the device below
+operates within 0.1 s, the region a makers' test decides), a partial requirement, a downstream
+MCB with a lower let-through (never where the limit is the candidate's own instantaneous
+release), another family, a larger device above, a higher breaking capacity, earth faults or
+fault energy dealt with by other means. A remedy is offered only with the device that then meets
+every requirement; otherwise the choice says that it alone would not be enough and what stays
+binding (:attr:`Choice.insufficient`).
+
 References
 ----------
 IEC 60364-4-43:2008, 433.1 (Ib <= In <= Iz, I2 <= 1.45 Iz); IEC 60364-4-41:2005, 411.3.2 and
@@ -118,8 +128,10 @@ class Choice:
     name : str or None
         The chosen band's name (``"gG125"``).
     suggestions : tuple of str
-        When nothing fits: what would help (a larger cable, a downstream device with a lower
-        let-through, a tested combination, a different family).
+        When nothing fits: what would help, each on its own (a larger cable, a downstream
+        device with a lower let-through, a tested limit, a partial requirement, another
+        family...). Each was checked by searching again with it assumed, and names the device
+        that then meets every requirement.
     searched : int
         Candidates looked at (screened or confirmed).
     previous : str
@@ -127,6 +139,9 @@ class Choice:
     setting_bindings : mapping
         Adjustable breakers: for each setting, what rules out its next lower value on the unit's
         grid with the other settings as chosen (key: the setting's key, e.g. ``"tsd_s"``).
+    insufficient : tuple of str
+        When nothing fits: remedies that were tried and would not be enough on their own, each
+        with what stays binding.
     """
 
     circuit: str
@@ -142,6 +157,7 @@ class Choice:
     searched: int = 0
     previous: str = ""
     setting_bindings: Mapping[str, str] = field(default_factory=dict)
+    insufficient: tuple[str, ...] = ()
 
     def to_json(self) -> dict[str, Any]:
         """The contract's keys: circuit, device, rating_a, settings, binding, reason, found."""
@@ -158,6 +174,7 @@ class Choice:
             "binding": self.binding,
             "reason": self.reason,
             "suggestions": list(self.suggestions),
+            "not_enough": list(self.insufficient),
             "candidates_searched": self.searched,
             "previous_device": self.previous,
             "setting_bindings": dict(self.setting_bindings),
@@ -173,6 +190,9 @@ class Failure:
     other: str | None = None  # the other circuit of a selectivity pair
     device: str = ""  # the candidate's name
     need_a: float | None = None  # for cable stages: the Iz that would do [A]
+    limit_a: float | None = None  # for selectivity stages: the limit reached (None: none) [A]
+    required_a: float | None = None  # for selectivity stages: the current required [A]
+    instantaneous: bool = False  # selectivity limited by the upstream instantaneous release
 
 
 @dataclass(frozen=True)
@@ -534,6 +554,7 @@ class _Pair:
     margin: float
     interval_s: float
     tested_limit_a: float | None
+    twins: tuple[str, ...] = ()  # other circuits below with exactly the same pair
 
 
 @dataclass
@@ -555,6 +576,13 @@ class _Problem:
     above_adjustable: np.ndarray  # (n_above,) bool
     below_names: dict[str, str] = field(default_factory=dict)
     searched: int = 0
+    skip_above: frozenset[str] = frozenset()
+    relaxed: frozenset[str] = frozenset()  # requirements set aside to test a remedy (STAGES)
+    # fault-energy cases a candidate failed: (current [A], largest I2t the conductor takes
+    # [A2s]); they belong to the circuit, so the screen applies them to every later setting
+    energy_limits: list[tuple[float, float]] = field(default_factory=list)
+    explain_budget: int = 1 << 30  # settings grids whose failure is explained when none passes
+    testable_below: bool = False  # pairs below that only a test could decide count as met
 
 
 def _pair_settings(study: Study, downstream_id: str) -> tuple[float, float, float | None]:
@@ -612,7 +640,7 @@ def _problem(study: Study, levels: Any, circuit_id: str, family: str | None,
     iz = circuit.cable.iz_a if circuit.cable is not None else None
 
     below: list[_Pair] = []
-    seen: set = set()
+    seen: dict[tuple, int] = {}
     for d in study.descendants(circuit_id):
         band = band_for(study, d)
         margin, interval, selective_to = _pair_settings(study, d)
@@ -622,8 +650,10 @@ def _problem(study: Study, levels: Any, circuit_id: str, family: str | None,
         tested = study.by_id[d].tested_limits_a.get(circuit_id)
         key = (band.key, window, required, margin, interval, tested)
         if key in seen:
+            first = below[seen[key]]
+            below[seen[key]] = dataclasses.replace(first, twins=(*first.twins, d))
             continue
-        seen.add(key)
+        seen[key] = len(below)
         below.append(_Pair(d, band, window, required, margin, interval,
                            float(tested) if tested is not None else None))
 
@@ -659,7 +689,8 @@ def _problem(study: Study, levels: Any, circuit_id: str, family: str | None,
                        float(circuit.load_a) if circuit.load_a is not None else None,
                        float(iz) if iz is not None else None, ik_board, ik_break, below,
                        above, grid, need, above_tmin, above_adj,
-                       below_names={p.other: p.band.name for p in below})
+                       below_names={p.other: p.band.name for p in below},
+                       skip_above=skip_above)
     return problem, current
 
 
@@ -674,7 +705,8 @@ def _cheap_failure(problem: _Problem, cand: Candidate, band: Band) -> Failure | 
             "tm", "electronic")
         return Failure("load", f"load: Ib {ib:g} A > {'Ir' if adjustable else 'In'} "
                                f"{setting:g} A")
-    if iz is not None:  # I2 of the worst compliant device, as coordination.checks takes it
+    if iz is not None and "overload" not in problem.relaxed:
+        # I2 of the worst compliant device, as coordination.checks takes it
         i2 = float(device_band(cand.spec, "envelope").pickup_max_a)
         if setting > iz * (1 + 1e-9):
             return Failure("overload", f"cable: In {setting:g} A > Iz {iz:g} A (Ib <= In <= Iz)",
@@ -684,7 +716,8 @@ def _cheap_failure(problem: _Problem, cand: Candidate, band: Band) -> Failure | 
                            need_a=i2 / 1.45)
     circuit = problem.study.by_id[problem.circuit_id]
     capacity = circuit.breaking_capacity_a or band.breaking_capacity_a
-    if capacity is not None and capacity < problem.ik_break_a * (1 - 1e-9):
+    if capacity is not None and capacity < problem.ik_break_a * (1 - 1e-9) \
+            and "breaking-capacity" not in problem.relaxed:
         return Failure("breaking-capacity",
                        f"breaking capacity {capacity / 1000:.3g} kA < "
                        f"{problem.ik_break_a / 1000:.3g} kA at the board")
@@ -767,7 +800,7 @@ def exact_failure(problem: _Problem, cand: Candidate) -> Failure | None:
 
 
 def _exact_failure(problem: _Problem, cand: Candidate) -> Failure | None:
-    from coordination import checks, engine
+    from coordination import checks
 
     problem.searched += 1
     band = device_band(cand.spec, problem.basis)
@@ -778,6 +811,8 @@ def _exact_failure(problem: _Problem, cand: Candidate) -> Failure | None:
     study = substitute(problem.study, problem.circuit_id, cand.spec)
     results = checks.check_device(study, problem.levels, problem.circuit_id, envelope)
     for stage in ("overload", "breaking-capacity", "disconnection", "fault-energy"):
+        if stage in problem.relaxed:
+            continue
         for r in results:
             if r.check == stage and not r.ok:
                 need = None
@@ -785,27 +820,70 @@ def _exact_failure(problem: _Problem, cand: Candidate) -> Failure | None:
                     i2, in_a = r.details.get("i2_a"), r.details.get("in_a")
                     if i2 is not None and in_a is not None:
                         need = max(float(in_a), float(i2) / 1.45)
+                if stage == "fault-energy":
+                    _learn_energy_limits(problem, r.details)
                 return Failure(stage, f"{stage}: {r.reason}", need_a=need)
     for r in results:  # any further check a later version adds
-        if not r.ok:
+        if not r.ok and r.check not in problem.relaxed and r.check not in STAGES:
             return Failure(r.check, f"{r.check}: {r.reason}")
     same = freeze(cand.spec) == freeze(problem.study.by_id[problem.circuit_id].device)
     for p in problem.below:
-        sel = engine.compare(band, p.band, p.window_a, margin=p.margin, interval_s=p.interval_s,
-                             tested_limit_a=p.tested_limit_a if same else None)
+        sel = _pair_below(band, p, same)
         if not _pair_ok(sel, p.required_a):
-            return Failure("selectivity-below",
-                           f"selectivity with {p.other!r} ({p.band.name}) up to "
-                           f"{p.required_a / 1000:.3g} kA: {_limit_text(sel)}", other=p.other)
+            if problem.testable_below and _testable(sel, p.band):
+                continue  # a remedy's search: a tested limit is assumed for this pair
+            return _selectivity_failure("selectivity-below", p, sel, band)
     for p in problem.above:
-        window = (float(band.pickup_min_a), p.window_a[1])
-        sel = engine.compare(p.band, band, window, margin=p.margin, interval_s=p.interval_s,
-                             tested_limit_a=p.tested_limit_a if same else None)
+        sel = _pair_above(band, p, same)
         if not _pair_ok(sel, p.required_a):
-            return Failure("selectivity-above",
-                           f"selectivity under {p.other!r} ({p.band.name}) up to "
-                           f"{p.required_a / 1000:.3g} kA: {_limit_text(sel)}", other=p.other)
+            return _selectivity_failure("selectivity-above", p, sel, p.band)
     return None
+
+
+def _learn_energy_limits(problem: _Problem, details: Mapping[str, Any]) -> None:
+    """Keep the fault-energy cases a candidate failed (within the adiabatic time, where the
+    criterion is I2t <= k2 S2 whatever the device) for the screen of later settings."""
+    from coordination.checks import ADIABATIC_LIMIT_S
+
+    for case in details.get("cases", ()) or ():
+        try:
+            current, t, k, have = (float(case[key]) for key in
+                                   ("current_a", "t_max_s", "k", "have_mm2"))
+            need = float(case["need_mm2"])
+        except (KeyError, TypeError, ValueError):
+            continue
+        if current > 0 and t <= ADIABATIC_LIMIT_S and need > have:
+            limit = (current, (k * have) ** 2)
+            if limit not in problem.energy_limits:
+                problem.energy_limits.append(limit)
+
+
+def _pair_below(band: Band, p: _Pair, same: bool) -> Any:
+    """The engine's result for the candidate over one device below."""
+    from coordination import engine
+
+    return engine.compare(band, p.band, p.window_a, margin=p.margin, interval_s=p.interval_s,
+                          tested_limit_a=p.tested_limit_a if same else None)
+
+
+def _pair_above(band: Band, p: _Pair, same: bool) -> Any:
+    """The engine's result for the candidate under one device above."""
+    from coordination import engine
+
+    window = (float(band.pickup_min_a), p.window_a[1])
+    return engine.compare(p.band, band, window, margin=p.margin, interval_s=p.interval_s,
+                          tested_limit_a=p.tested_limit_a if same else None)
+
+
+def _selectivity_failure(stage: str, p: _Pair, sel: Any, upstream: Band) -> Failure:
+    word = "with" if stage == "selectivity-below" else "under"
+    limit = None if sel.verdict == "none" or sel.limit_a is None else float(sel.limit_a)
+    inst = upstream.instantaneous_a
+    instantaneous = (sel.decided_by != "tested" and inst is not None and limit is not None
+                     and limit <= float(inst) * (1 + 1e-8))
+    return Failure(stage, f"selectivity {word} {p.other!r} ({p.band.name}) up to "
+                          f"{p.required_a / 1000:.3g} kA: {_limit_text(sel)}", other=p.other,
+                   limit_a=limit, required_a=p.required_a, instantaneous=instantaneous)
 
 
 def substitute(study: Study, circuit_id: str, spec: str | Mapping[str, Any]) -> Study:
@@ -884,9 +962,24 @@ def screen_grid(problem: _Problem, grid: SettingsGrid) -> np.ndarray:
                 adjustable = bool(problem.above_adjustable[k])
                 lt, st, inst = (_need_of(part[..., inside], p.margin, p.interval_s, adjustable)
                                 <= t_up for part in upper)
+                # only the currents where some setting may fail matter (exactly the same test)
+                keep = ~(lt.all(axis=(0, 1)) | st.all(axis=(0, 1)) | inst.all(axis=0))
+                lt, st, inst = lt[..., keep], st[..., keep], inst[..., keep]
                 clear = (st[:, :, None, None, :] | lt[:, None, :, None, :]
                          | inst[None, None, None, :, :])
                 ok &= clear.all(axis=-1)
+    if problem.energy_limits and "fault-energy" not in problem.relaxed:
+        # fault-energy cases already failed by a candidate: I2t = I^2 t_max (no current
+        # limiting in these units) against k2 S2, only where t_max is within the adiabatic time
+        from coordination.checks import ADIABATIC_LIMIT_S
+
+        at = np.array([c for c, _ in problem.energy_limits])
+        most = np.array([e for _, e in problem.energy_limits])
+        t_env = _combine(electronic_parts(at, grid, "envelope")[1])
+        bad = (t_env <= ADIABATIC_LIMIT_S) & (at * at * t_env > most * (1 + 1e-6))
+        ok &= ~bad.any(axis=-1)
+    if "disconnection" in problem.relaxed:
+        return ok
     study = problem.study
     node = problem.levels.by_circuit[problem.circuit_id]
     ief = float(getattr(node, "ief_min_a", 0.0) or 0.0)
@@ -980,6 +1073,9 @@ def _search_grid(problem: _Problem, grid: SettingsGrid,
             return cand, device_band(cand.spec, problem.basis), binding
         if n < MAX_RECORDED:
             failures.append((cand, failure))
+    if problem.explain_budget <= 0:  # enough grids explained (a remedy's search)
+        return None, None, (last, None)
+    problem.explain_budget -= 1
     for cand in (first, last):  # why the least and the most capable settings fail
         failure = exact_failure(problem, cand)
         if failure is not None:
@@ -998,73 +1094,467 @@ def _binding(problem: _Problem, group: list[Candidate], index: int,
     return failure if failure is not None else exact_failure(problem, cand)
 
 
-def _explain(problem: _Problem, failures: list[tuple[Candidate, Failure]],
-             family: str) -> tuple[str, tuple[str, ...]]:
-    """Why nothing fits, and what would."""
-    ib, iz = problem.ib_a, problem.iz_a
-    failures = [(c, f if f.device else dataclasses.replace(
-        f, device=device_band(c.spec, problem.basis).name)) for c, f in failures]
-    stages = [f.stage for _, f in failures]
-    suggestions: list[str] = []
+#: Runs of like failures named in a remedy that would not be enough.
+REMEDY_SEGMENTS = 2
+#: Settings grids of another family whose failure is explained (each costs two exact checks).
+REMEDY_EXPLAINED_GRIDS = 8
+
+#: What a family is called in a remedy.
+FAMILY_WORDS = {"B": "a type B MCB", "C": "a type C MCB", "D": "a type D MCB",
+                "gG": "a gG fuse-link", "tm": "a thermal-magnetic breaker",
+                "electronic": "an electronic breaker with a short-time delay"}
+
+
+def _ceil_sig(x: float, digits: int = 4) -> float:
+    """``x`` rounded up to ``digits`` significant figures (a stated need is never short)."""
+    if not x > 0 or not math.isfinite(x):
+        return x
+    exponent = math.floor(math.log10(x)) - digits + 1
+    return round(math.ceil(x / 10.0**exponent * (1 - 1e-12)) * 10.0**exponent, max(0, -exponent))
+
+
+def _named(problem: _Problem, failures: Iterable[tuple[Candidate, Failure]]) -> list[Failure]:
+    """The failures past the load stage, each with its candidate's name."""
+    return [f if f.device else dataclasses.replace(f, device=device_band(c.spec,
+                                                                         problem.basis).name)
+            for c, f in failures if f.stage != "load"]
+
+
+def _runs(failures: list[Failure]) -> list[list[Failure]]:
+    """Runs of candidates (in lowness order) that fail the same way."""
+    runs: list[list[Failure]] = []
+    for f in failures:
+        if runs and runs[-1][0].stage == f.stage and runs[-1][0].other == f.other:
+            runs[-1].append(f)
+        else:
+            runs.append([f])
+    return runs
+
+
+def _run_text(run: list[Failure], still: bool = False) -> str:
+    """``"gG250 to gG400 fail selectivity with ... (gG400, the closest)"``."""
+    who = run[0].device if len(run) == 1 else f"{run[0].device} to {run[-1].device}"
+    verb = ("still " if still else "") + ("fails" if len(run) == 1 else "fail")
+    best = run[0]
+    if run[0].stage.startswith("selectivity"):
+        best = max(run, key=lambda f: f.limit_a or 0.0)
+    text = f"{who} {verb} {best.text}"
+    if len(run) > 1 and best is not run[0] and best.limit_a is not None:
+        text += f" ({best.device}, the closest)"
+    if best.instantaneous:
+        text += (", set by its instantaneous release" if best.stage == "selectivity-below"
+                 else f", set by the instantaneous release of {best.other!r}")
+    return text
+
+
+def _summary(problem: _Problem, failures: Iterable[tuple[Candidate, Failure]], *,
+             limit: int = MAX_SEGMENTS, still: bool = False) -> str:
+    """Why the candidates of a search fail, run by run (for adjustable breakers, whose
+    settings are searched grid by grid, by kind of failure, each with its closest setting)."""
+    named = _named(problem, failures)
+    if not named:
+        return f"every {problem.family} candidate is below the design current"
+    if problem.family in ("tm", "electronic"):
+        kinds: dict[tuple[str, str | None], list[Failure]] = {}
+        for f in named:
+            kinds.setdefault((f.stage, f.other), []).append(f)
+        parts = []
+        for run in list(kinds.values())[:limit]:
+            best = max(run, key=lambda f: f.limit_a or 0.0)
+            example = "" if best.device in best.text else f" (e.g. {best.device})"
+            parts.append(f"{best.text}{example}" + (
+                ", set by its instantaneous release" if best.instantaneous
+                and best.stage == "selectivity-below" else ""))
+        left = len(kinds) - limit
+        more = f"; and {left} more kind{'s' if left > 1 else ''} of failure" if left > 0 else ""
+        return "settings fail " + "; or ".join(parts) + more
+    runs = _runs(named)
+    more = f"; and {len(runs) - limit} more" if len(runs) > limit else ""
+    return "; ".join(_run_text(run, still) for run in runs[:limit]) + more
+
+
+def _first(group: Any) -> Candidate | None:
+    """The least capable candidate of a group."""
+    if isinstance(group, SettingsGrid):
+        valid = np.argwhere(group.valid())
+        return group.candidate(valid[0]) if valid.size else None
+    return group[0] if group else None
+
+
+def _groups_where(problem: _Problem, groups: list[Any], stages: set[str | None]) -> list[Any]:
+    """The groups whose least capable candidate's cheap failure (None: none) is in ``stages``
+    (Ib, In, Iz, I2 and the breaking capacity are the same across a group)."""
+    out = []
+    for group in groups:
+        cand = _first(group)
+        if cand is None:
+            continue
+        failure = _cheap_failure(problem, cand, device_band(cand.spec, problem.basis))
+        if (failure.stage if failure is not None else None) in stages:
+            out.append(group)
+    return out
+
+
+def _search_variant(problem: _Problem, variant: _Problem, groups: list[Any]) -> tuple[
+        Candidate | None, Band | None, list[tuple[Candidate, Failure]]]:
+    """The search of a remedy: the same search on a changed problem."""
+    variant.searched = 0
+    winner, band, _, failures = _search(variant, groups)
+    problem.searched += variant.searched
+    return winner, band, failures
+
+
+def _rebuilt(problem: _Problem, study: Study, family: str | None = None) -> tuple[
+        _Problem, Band]:
+    """The same circuit's problem in a changed study (or for another family)."""
+    return _problem(study, problem.levels, problem.circuit_id,
+                    family if family is not None else problem.family, problem.skip_above)
+
+
+def _with_circuits(study: Study, changes: Mapping[str, Mapping[str, Any]]) -> Study:
+    """A copy of the study with some circuits' fields replaced."""
+    circuits = tuple(dataclasses.replace(c, **changes[c.id]) if c.id in changes else c
+                     for c in study.circuits)
+    return dataclasses.replace(study, circuits=circuits)
+
+
+def _iz_needed(cand: Candidate) -> float:
+    """Iz that In <= Iz and I2 <= 1.45 Iz need [A] (I2 of the worst compliant device)."""
+    i2 = float(device_band(cand.spec, "envelope").pickup_max_a)
+    return max(cand.setting_a, i2 / 1.45)
+
+
+def _remedy_cable(problem: _Problem, groups: list[Any]) -> tuple[bool, str] | None:
+    """A larger cable: Iz relaxed to what the smallest otherwise passing candidate needs."""
+    iz = problem.iz_a
+    if iz is None:
+        return None
+    tried = _groups_where(problem, groups, {"overload"})
+    if not tried:
+        return None
+    variant = dataclasses.replace(problem, relaxed=problem.relaxed | {"overload"})
+    winner, band, failures = _search_variant(problem, variant, tried)
+    if winner is None or band is None:
+        return False, ("a larger cable alone would not be enough: " + _summary(
+            problem, failures, limit=REMEDY_SEGMENTS, still=True))
+    need = _iz_needed(winner)
+    for _ in range(3):  # confirm with the cable's Iz raised to the need, as `check` would see it
+        need = _ceil_sig(need)
+        cable = dataclasses.replace(problem.study.by_id[problem.circuit_id].cable, iz_a=need)
+        study = _with_circuits(problem.study, {problem.circuit_id: {"cable": cable}})
+        failure = exact_failure(_rebuilt(problem, study)[0], winner)
+        if failure is None:
+            return True, (f"a larger cable: Iz of at least {need:g} A (now {iz:g} A); then "
+                          f"{band.name} would do")
+        if failure.stage != "overload" or failure.need_a is None or failure.need_a <= need:
+            break
+        need = failure.need_a
+    return False, f"a larger cable alone would not be enough: {failure.device} still fails " \
+                  f"{failure.text}"
+
+
+def _remedy_relaxed(problem: _Problem, groups: list[Any], stage: str,
+                    label: str, then: str) -> tuple[bool, str] | None:
+    """A requirement met by other means (``label``): the smallest candidate that then passes."""
+    tried = _groups_where(problem, groups, {None, stage})
+    if not tried:
+        return None
+    variant = dataclasses.replace(problem, relaxed=problem.relaxed | {stage})
+    winner, band, failures = _search_variant(problem, variant, tried)
+    if winner is None or band is None:
+        return False, f"{label} alone would not be enough: " + _summary(
+            problem, failures, limit=REMEDY_SEGMENTS, still=True)
+    return True, f"{label}; then {band.name} would do{then}"
+
+
+#: Pairs named one by one in a remedy (the rest are counted).
+REMEDY_PAIRS = 4
+
+#: Where the downstream device operates within this time at the limit current [s], the bands
+#: bound it only as "within 0.1 s" (IEC 60898-1 instantaneous region, the short-circuit
+#: regions of IEC 60947-2), and a tested limit from the makers (IEC 60947-2 Annex A) can show
+#: more; a crossing at longer times is one of time-current curves, which a test does not move.
+TESTABLE_S = 0.1
+
+
+def _pairs_text(items: Sequence[tuple[_Pair, Any]], what: str) -> str:
+    parts = []
+    for p, sel in items[:REMEDY_PAIRS]:
+        alike = f" and {len(p.twins)} alike" if p.twins else ""
+        parts.append(f"{p.other!r} ({p.band.name}{alike}) to {p.required_a / 1000:.3g} kA "
+                     f"({what} {_limit_text(sel).replace('selective only to ', '')})")
+    more = len(items) - REMEDY_PAIRS
+    return ", ".join(parts) + (f" and {more} more device{'s' if more > 1 else ''}"
+                               if more > 0 else "")
+
+
+def _ids_text(items: Sequence[tuple[_Pair, Any]]) -> str:
+    ids = [d for p, _ in items for d in (p.other, *p.twins)]
+    more = len(ids) - REMEDY_PAIRS
+    return ", ".join(repr(d) for d in ids[:REMEDY_PAIRS]) + (
+        f" and {more} more circuit{'s' if more > 1 else ''}" if more > 0 else "")
+
+
+def _testable(sel: Any, down: Band) -> bool:
+    """A selectivity limit that a tested limit could raise (see :data:`TESTABLE_S`)."""
+    if sel.verdict != "partial" or sel.limit_a is None:
+        return False
+    t = float(np.asarray(down.t_max(float(sel.limit_a) * (1 - 1e-9))))
+    return t <= TESTABLE_S * (1 + 1e-9)
+
+
+def _remedies_below(problem: _Problem, groups: list[Any],
+                    current: Band) -> list[tuple[bool, str]]:
+    """Remedies for selectivity with the devices below: a tested limit, a partial requirement,
+    a downstream device with a lower let-through; each checked by the search."""
+    tried = _groups_where(problem, groups, {None})
+    variant = dataclasses.replace(problem, below=[], need=np.full_like(problem.need, -np.inf))
+    winner, band, failures = _search_variant(problem, variant, tried)
+    if winner is None or band is None:
+        return [(False, "a tested limit or a partial requirement below alone would not be "
+                        "enough: without any selectivity requirement below, " +
+                 _summary(problem, failures, limit=REMEDY_SEGMENTS, still=True))]
+    same = freeze(winner.spec) == freeze(problem.study.by_id[problem.circuit_id].device)
+    failing = [(p, sel) for p in problem.below
+               if not _pair_ok(sel := _pair_below(band, p, same), p.required_a)]
+    if not failing:
+        return []
+    out = [_remedy_tested(problem, tried)]
+    out.append(_remedy_partial(problem, winner, band, failing))
+    lower = _remedy_let_through(problem, groups, band, failing)
+    if lower is not None:
+        out.append(lower)
+    return out
+
+
+def _remedy_tested(problem: _Problem, tried: list[Any]) -> tuple[bool, str]:
+    """Tested limits: the smallest candidate whose failing pairs below all fail where only a
+    test can tell (:data:`TESTABLE_S`), confirmed with those limits given."""
+    variant = dataclasses.replace(problem, testable_below=True,
+                                  need=np.full_like(problem.need, -np.inf))
+    winner, band, failures = _search_variant(problem, variant, tried)
+    if winner is None or band is None:
+        return False, ("a tested limit alone would not be enough: where the bands cross in "
+                       "time-current (not short-circuit) regions a test does not help: " +
+                       _summary(problem, failures, limit=REMEDY_SEGMENTS, still=True))
+    cid = problem.circuit_id
+    same = freeze(winner.spec) == freeze(problem.study.by_id[cid].device)
+    failing = [(p, sel) for p in problem.below
+               if not _pair_ok(sel := _pair_below(band, p, same), p.required_a)]
+    study = substitute(problem.study, cid, winner.spec)
+    changes = {}
+    for p, _ in failing:
+        tested = float(math.ceil(p.required_a))
+        for d in (p.other, *p.twins):
+            limits = {**study.by_id[d].tested_limits_a, cid: tested}
+            changes[d] = {"tested_limits_a": limits}
+    failure = exact_failure(_rebuilt(problem, _with_circuits(study, changes))[0], winner)
+    if failure is not None:  # not expected: the search above set aside exactly these pairs
+        return False, (f"a tested limit alone would not be enough: {band.name} still fails "
+                       f"{failure.text}")
+    return True, (f"a tested limit from the makers' tables: {band.name} would do if tested "
+                  f"selective over {_pairs_text(failing, 'the bands give')}; give "
+                  f"tested_limits_a = {{{cid!r} = ...}} on {_ids_text(failing)}")
+
+
+def _remedy_partial(problem: _Problem, winner: Candidate, band: Band,
+                    failing: list[tuple[_Pair, Any]]) -> tuple[bool, str]:
+    """Partial requirements set at the limits the smallest otherwise passing candidate
+    reaches."""
+    none = [p for p, sel in failing if sel.verdict == "none" or sel.limit_a is None]
+    if none:
+        names = ", ".join(f"{p.other!r} ({p.band.name})" for p in none[:REMEDY_PAIRS]) + (
+            f" and {len(none) - REMEDY_PAIRS} more" if len(none) > REMEDY_PAIRS else "")
+        return False, (f"a partial requirement alone would not be enough: {band.name}, the "
+                       f"smallest that meets every other requirement, is not selective with "
+                       f"{names} even in overload")
+    changes = {d: {"selective_to_a": float(math.floor(sel.limit_a))}
+               for p, sel in failing for d in (p.other, *p.twins)}
+    study = _with_circuits(problem.study, changes)
+    failure = exact_failure(_rebuilt(problem, study)[0], winner)
+    if failure is not None:
+        return False, (f"a partial requirement alone would not be enough: {band.name} still "
+                       f"fails {failure.text}")
+    parts = ", ".join(f"{math.floor(sel.limit_a):g} on {p.other!r}"
+                      f"{' and alike' if p.twins else ''}" for p, sel in failing[:REMEDY_PAIRS])
+    more = len(failing) - REMEDY_PAIRS
+    parts += f" and on {more} more device{'s' if more > 1 else ''}" if more > 0 else ""
+    return True, (f"a partial requirement, if total selectivity is not needed: "
+                  f"{band.name} would do with selective_to_a = {parts}")
+
+
+def _lower_let_through(problem: _Problem, p: _Pair) -> tuple[str | Mapping[str, Any], Band] | None:
+    """An MCB of the same rating (another type, energy class 3) that clears the pair's top
+    current faster (a lower let-through) and fails none of its own circuit's checks that the
+    present device passes."""
+    from coordination import checks
+
+    if p.band.family != "mcb":
+        return None
+    top = np.array([p.required_a])
+    now = float(p.band.t_max(top)[0])
+    icn = float(p.band.settings.get("icn_a", MCB_DEFAULT_ICN_A))
+    circuits = (p.other, *p.twins)
+
+    def passed(spec: Any) -> list[set[str]]:
+        envelope = device_band(spec, "envelope")
+        return [{r.check for r in checks.check_device(substitute(problem.study, d, spec),
+                                                      problem.levels, d, envelope) if r.ok}
+                for d in circuits]
+
+    before: list[set[str]] | None = None
+    best: tuple[float, str | Mapping[str, Any], Band] | None = None
+    for curve in ("B", "C", "D"):
+        spec = _mcb_spec(curve, float(p.band.rating_a), MCB_DEFAULT_CLASS, icn)
+        alt = device_band(spec, p.band.basis)
+        t = float(alt.t_max(top)[0])
+        if alt.key == p.band.key or not t < now * (1 - 1e-3):
+            continue
+        if before is None:
+            before = [{r.check for r in checks.check_device(problem.study, problem.levels, d,
+                                                            device_band(problem.study.by_id[
+                                                                d].device, "envelope"))
+                       if r.ok} for d in circuits]
+        ok = all(old <= new for old, new in zip(before, passed(spec), strict=True))
+        if ok and (best is None or t < best[0]):
+            best = (t, spec, alt)
+    return None if best is None else (best[1], best[2])
+
+
+def _remedy_let_through(problem: _Problem, groups: list[Any], band: Band,
+                        failing: list[tuple[_Pair, Any]]) -> tuple[bool, str] | None:
+    """Downstream devices with a lower let-through, only where the limit is not the
+    candidate's own instantaneous release (which no downstream device can lift)."""
+    if band.instantaneous_a is not None and any(
+            sel.limit_a is not None and sel.limit_a <= band.instantaneous_a * (1 + 1e-8)
+            for _, sel in failing):
+        return None
+    swaps = {}
+    for p, _ in failing:
+        alt = _lower_let_through(problem, p)
+        if alt is not None:
+            swaps[p] = alt
+    if not swaps:
+        return None
+    study = problem.study
+    for p, (spec, _) in swaps.items():
+        for d in (p.other, *p.twins):
+            study = substitute(study, d, spec)
+    variant = _rebuilt(problem, study)[0]
+    winner, found, failures = _search_variant(problem, variant,
+                                              _groups_where(problem, groups, {None}))
+    items = list(swaps.items())
+    what = ", ".join(f"{alt.name} (class {MCB_DEFAULT_CLASS}) for {p.other!r}"
+                     f"{' and alike' if p.twins else ''} instead of {p.band.name}"
+                     for p, (_, alt) in items[:REMEDY_PAIRS])
+    if len(items) > REMEDY_PAIRS:
+        what += f" and {len(items) - REMEDY_PAIRS} more"
+    if winner is None or found is None:
+        return False, (f"a downstream device with a lower let-through alone would not be "
+                       f"enough: with {what}, " + _summary(problem, failures,
+                                                          limit=REMEDY_SEGMENTS, still=True))
+    return True, f"a downstream device with a lower let-through: {what}; then {found.name} " \
+                 f"would do"
+
+
+def _remedy_family(problem: _Problem, family: str, current: Band) -> tuple[bool, str]:
+    """Another family, searched as a whole."""
+    variant, _ = _rebuilt(problem, problem.study, family)
+    variant.explain_budget = REMEDY_EXPLAINED_GRIDS
+    stated = problem.study.by_id[problem.circuit_id].breaking_capacity_a is not None
+    groups = candidate_groups(family, current, 0.0 if stated else variant.ik_break_a)
+    winner, band, failures = _search_variant(problem, variant, groups)
+    label = f"{FAMILY_WORDS[family]} (--family {family})"
+    if winner is None or band is None:
+        return False, f"{label} would not be enough: " + _summary(
+            variant, failures, limit=REMEDY_SEGMENTS)
+    return True, f"{label}: {band.name} would do"
+
+
+def _remedy_above(problem: _Problem, groups: list[Any]) -> tuple[bool, str] | None:
+    """A larger device above: the smallest candidate that passes with the devices above set
+    aside, then the nearest failing one chosen over it."""
+    tried = _groups_where(problem, groups, {None})
+    variant = dataclasses.replace(problem, above=[], above_tmin=problem.above_tmin[:0],
+                                  above_adjustable=problem.above_adjustable[:0])
+    winner, band, failures = _search_variant(problem, variant, tried)
+    if winner is None or band is None:
+        return False, ("a larger device above alone would not be enough: without selectivity "
+                       "above, " + _summary(problem, failures, limit=REMEDY_SEGMENTS,
+                                            still=True))
+    same = freeze(winner.spec) == freeze(problem.study.by_id[problem.circuit_id].device)
+    failing = [p.other for p in problem.above
+               if not _pair_ok(_pair_above(band, p, same), p.required_a)]
+    if not failing:
+        return None
+    nearest, later = failing[0], frozenset(failing[1:]) | problem.skip_above
+    study = substitute(problem.study, problem.circuit_id, winner.spec)
+    upper, up_current = _problem(study, problem.levels, nearest, None, later)
+    stated = study.by_id[nearest].breaking_capacity_a is not None
+    up_groups = candidate_groups(upper.family, up_current, 0.0 if stated else upper.ik_break_a)
+    up_winner, up_band, up_failures = _search_variant(problem, upper, up_groups)
+    if up_winner is None or up_band is None:
+        return False, (f"a larger device above alone would not be enough: over {band.name}, "
+                       f"no {upper.family} device for {nearest!r} fits: " +
+                       _summary(upper, up_failures, limit=REMEDY_SEGMENTS))
+    rest = " (and the devices above it chosen after it)" if len(failing) > 1 else ""
+    return True, (f"a larger device above: {up_band.name} for {nearest!r}{rest}, with "
+                  f"{band.name} here (choose them together with --board)")
+
+
+def _explain(problem: _Problem, failures: list[tuple[Candidate, Failure]], groups: list[Any],
+             current: Band) -> tuple[str, tuple[str, ...], tuple[str, ...]]:
+    """Why nothing fits; the remedies that, each on its own, make a candidate pass (each one
+    checked by searching again with it assumed); and those that would not be enough, with what
+    stays binding."""
+    ib, iz, family = problem.ib_a, problem.iz_a, problem.family
+    helps: list[str] = []
+    short: list[str] = []
+
+    def add(result: tuple[bool, str] | None) -> None:
+        if result is not None:
+            (helps if result[0] else short).append(result[1])
+
     if ib is not None and iz is not None and ib > iz:
         reason = (f"no device can meet Ib <= In <= Iz: the design current Ib {ib:g} A exceeds "
                   f"the cable's Iz {iz:g} A")
-        suggestions.append(f"a larger cable (Iz of at least {ib:g} A, and enough for the "
-                           f"chosen device's I2 <= 1.45 Iz)")
-        return reason, tuple(suggestions)
-    past_load = [(c, f) for c, f in failures if f.stage != "load"]
+        add(_remedy_cable(problem, groups))
+        return reason, tuple(helps), tuple(short)
+    past_load = _named(problem, failures)
     if not past_load:
         reason = (f"every {family} candidate is below the design current Ib {ib:g} A"
                   if ib is not None else f"no {family} candidate could be built")
-        suggestions.append("a different family with larger ratings (--family tm or "
-                           "electronic), or the load split over parallel circuits")
-        return reason, tuple(suggestions)
-    segments: list[list[Failure]] = []  # runs of candidates that fail the same way, in order
-    for _, f in past_load:
-        if segments and segments[-1][0].stage == f.stage and segments[-1][0].other == f.other:
-            segments[-1].append(f)
-        else:
-            segments.append([f])
-    parts = []
-    for run in segments[:MAX_SEGMENTS]:
-        who = run[0].device if len(run) == 1 else f"{run[0].device} to {run[-1].device}"
-        parts.append(f"{who} fail{'s' if len(run) == 1 else ''} {run[0].text}")
-    more = f"; and {len(segments) - MAX_SEGMENTS} more" if len(segments) > MAX_SEGMENTS else ""
-    reason = f"no {family} candidate meets every requirement: " + "; ".join(parts) + more
+        for other in ("tm", "electronic"):
+            if other != family:
+                add(_remedy_family(problem, other, current))
+        return reason, tuple(helps), tuple(short)
+    stages = {f.stage for f in past_load}
+    reason = f"no {family} candidate meets every requirement: " + _summary(problem, failures)
     if "overload" in stages:
-        need = min((f.need_a for _, f in past_load if f.need_a is not None), default=None)
-        if need is not None and iz is not None:
-            suggestions.append(f"a larger cable: Iz of at least {need:.4g} A (now {iz:g} A)")
+        add(_remedy_cable(problem, groups))
     if "breaking-capacity" in stages:
-        suggestions.append(f"a device with a breaking capacity of at least "
-                           f"{problem.ik_break_a / 1000:.3g} kA, or a tested back-up "
-                           f"combination with the device above")
+        add(_remedy_relaxed(problem, groups, "breaking-capacity",
+                            f"a breaking capacity of at least {problem.ik_break_a / 1000:.3g} kA "
+                            f"(a device so rated, or a tested back-up combination with the "
+                            f"device above)", ""))
     if "disconnection" in stages:
-        suggestions.append("a lower earth-fault loop impedance (a larger cable or protective "
-                           "conductor, a shorter run) or an RCD")
+        add(_remedy_relaxed(problem, groups, "disconnection",
+                            "earth faults disconnected in time by other means (a lower loop "
+                            "impedance: a larger protective conductor or a shorter run; or an "
+                            "RCD)", ""))
     if "fault-energy" in stages:
-        suggestions.append("a larger cable, or a device with a lower let-through I2t")
-    below = [f.other for _, f in past_load if f.stage == "selectivity-below" and f.other]
-    if below:
-        names = ", ".join(f"{d!r} ({problem.below_names.get(d, '?')})"
-                          for d in dict.fromkeys(below))
-        suggestions.append(f"a downstream device with a lower let-through under it (energy "
-                           f"class 3, a lower rating or another type) for {names}")
-        suggestions.append(f"a tested combination: give tested_limits_a = "
-                           f"{{{problem.circuit_id!r} = ...}} on {names} from the "
-                           f"manufacturers' tables")
-        if family not in ("electronic",):
-            suggestions.append("a different family: an electronic breaker with a short-time "
-                               "delay (--family electronic)")
-        if any(problem.study.by_id[d].selective_to_a is None for d in below):
-            suggestions.append("a partial requirement (selective_to_a on the circuits below) "
-                               "if total selectivity is not needed")
-    above = [f.other for _, f in past_load if f.stage == "selectivity-above" and f.other]
-    if above:
-        suggestions.append("a larger device above (" + ", ".join(
-            repr(a) for a in dict.fromkeys(above)) + "): choose it first, or the whole board "
-            "with --board")
-    return reason, tuple(suggestions)
+        add(_remedy_relaxed(problem, groups, "fault-energy",
+                            "conductors that withstand the fault energy (a larger cross-section "
+                            "of the cable or its protective conductor)", ""))
+    if "selectivity-below" in stages:
+        for result in _remedies_below(problem, groups, current):
+            add(result)
+        for other in ("gG", "electronic"):
+            if other != family:
+                add(_remedy_family(problem, other, current))
+    if "selectivity-above" in stages:
+        add(_remedy_above(problem, groups))
+    return reason, tuple(helps), tuple(short)
 
 
 def _setting_bindings(problem: _Problem, winner: Candidate) -> dict[str, str]:
@@ -1165,9 +1655,10 @@ def choose(study: Study, circuit_id: str, *, family: str | None = None,
     previous = spec_text(study.by_id[circuit_id].device)
     winner, band, binding, failures = _search(problem, groups)
     if winner is None or band is None:
-        reason, suggestions = _explain(problem, failures, problem.family)
+        reason, suggestions, insufficient = _explain(problem, failures, groups, current)
         return Choice(circuit_id, False, None, None, MappingProxyType({}), None, reason,
-                      problem.family, None, suggestions, problem.searched, previous)
+                      problem.family, None, suggestions, problem.searched, previous,
+                      insufficient=insufficient)
     if binding is None:
         reason = f"{band.name} is the smallest {problem.family} candidate and meets every " \
                  f"requirement"
@@ -1293,5 +1784,6 @@ def format_results(results: Iterable[Choice]) -> str:
             lines = [f"circuit {r.circuit!r}: nothing in family {r.family} fits",
                      f"  {r.reason}"]
             lines += [f"  would help: {s}" for s in r.suggestions]
+            lines += [f"  ruled out: {s}" for s in r.insufficient]
         blocks.append("\n".join(line for line in lines if line))
     return "\n\n".join(blocks) + "\n"
