@@ -1,31 +1,44 @@
 """Time-current plots: a circuit's device and every device above it, on log-log axes.
 
-Each device is a translucent band between its edges (``t_min`` below, ``t_max`` above); the
+Each device is a translucent band between its edges (``t_min`` below, ``t_max`` above), labelled
+on the plot with its circuit id (device and settings are in the key below the axes); the
 crossover zones the engine found between a pair are hatched and marked with their selectivity
-limit Is; vertical markers show the maximum fault at the circuit's board, the minimum earth fault
-at its far end and its design current Ib; two falling lines show the adiabatic withstand
-``t = k^2 S^2 / I^2`` of the circuit's line conductor and protective conductor.
+limit Is, and a zone too small to see is also boxed and tied to the current axis by a hatched
+strip; vertical markers show the maximum fault at the circuit's board, the minimum earth fault at
+its far end and its design current Ib; two falling lines show the adiabatic withstand
+``t = k^2 S^2 / I^2`` of the circuit's line conductors and protective conductors (all of them in
+parallel, each with the k of its own material and size, as the protection checks take them).
+
+Greyscale print: the band colours differ in lightness as well as hue, each band's edges have
+their own dash pattern, and the key shows each band as its fill with its edge pattern.
+
+Labels are placed where they cover nothing that matters: each candidate place is scored against
+the axes' frame, the labels already placed, the crossover zones, the other bands and the lines,
+and the best one is taken (Is marks first, then the bands' labels).
 
 matplotlib is imported only here (and in the report), never by the command-line entry point.
 Figures are built with :class:`matplotlib.figure.Figure` directly, on the non-interactive Agg
 canvas: no window, no pyplot state, safe in a server and in a notebook.
 
 Every artist that stands for something carries a ``gid`` so that tests and callers can find it:
-``band:<id>``, ``edge:<id>``, ``zone:<upstream>><downstream>``, ``limit:<upstream>><downstream>``,
-``marker:max-fault``, ``marker:min-earth-fault``, ``marker:load``, ``withstand:line``,
-``withstand:cpc``.
+``band:<id>``, ``edge:<id>``, ``tag:<id>`` (the band's label), ``zone:<upstream>><downstream>``,
+``zone-mark:<upstream>><downstream>`` (a small zone's box and strip),
+``limit:<upstream>><downstream>``, ``marker:max-fault``, ``marker:min-earth-fault``,
+``marker:load``, ``withstand:line``, ``withstand:cpc``.
 """
 
 from __future__ import annotations
 
+import functools
 import math
 import os
 from collections.abc import Sequence
+from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from coordination.checks import k_factor
+from coordination import checks
 from coordination.devices import band_for
 from coordination.io import atomic_path
 from coordination.model import Cable, Study
@@ -37,11 +50,12 @@ if TYPE_CHECKING:  # pragma: no cover
     from matplotlib.axes import Axes
     from matplotlib.figure import Figure
 
-#: Band colours, downstream device first. Chosen for distinct lightness (so that a greyscale print
-#: still tells them apart) and paired with distinct edge dash patterns.
-PALETTE = ("#1d4e89", "#e09f3e", "#2a7f62", "#9e2a2b", "#7b6d8d", "#c9b458", "#335c67")
+#: Band colours, downstream device first: our own, chosen so that their CIE lightness L* differs
+#: by about 8 between any two (18 to 66, none near white) and neighbours in the list differ most,
+#: so a greyscale print still tells them apart; each is paired with its own edge dash pattern.
+PALETTE = ("#1a3d71", "#d0731e", "#2a6f46", "#421d4b", "#9262b9", "#155862", "#afa333")
 DASHES: tuple[Any, ...] = ("-", "--", "-.", ":", (0, (6, 2, 1, 2)), (0, (1, 1)), (0, (8, 3)))
-BAND_ALPHA = 0.22
+BAND_ALPHA = 0.24
 ZONE_FACE = "#f2c14e"
 ZONE_EDGE = "#7a0f12"
 #: One hatch per crossover zone on a plot, so the legend tells them apart in greyscale.
@@ -51,8 +65,18 @@ MARKER_STYLE = {
     "min-earth-fault": {"color": "#444444", "linestyle": (0, (4, 2)), "linewidth": 1.3},
     "load": {"color": "#777777", "linestyle": (0, (1, 2)), "linewidth": 1.4},
 }
-#: Where the Is marks go, in points from the limit (alternating sides).
-LIMIT_OFFSETS = ((-12, -26), (14, 22), (-12, -46), (14, 42))
+#: Where an Is mark may go, in points from its limit, in order of preference.
+LIMIT_OFFSETS = ((-12, -24), (14, 22), (-12, 24), (14, -24), (-16, -44), (18, 42), (-16, 44),
+                 (18, -44), (-30, 0), (30, 0), (-22, -66), (24, 64))
+#: Times where a band's label may go [s], in order of preference: long times, near the pickup.
+TAG_TIMES_S = (1000.0, 3000.0, 300.0, 100.0, 30.0, 10.0, 3.0)
+TAG_FONT_PT = 7.5
+LIMIT_FONT_PT = 7.0
+#: A crossover zone narrower or lower than this [pt] (about 8 pixels at 150 dpi) is also boxed
+#: and tied to the current axis by a hatched strip, so that it can be seen.
+MIN_ZONE_PT = 4.0
+#: The box around such a zone is at least this wide and high [pt].
+ZONE_MARK_PT = 7.0
 WITHSTAND_STYLE = {
     "line": {"color": "#5c3d2e", "linestyle": (0, (10, 3)), "linewidth": 1.2},
     "cpc": {"color": "#a0785a", "linestyle": (0, (3, 2, 3, 6)), "linewidth": 1.2},
@@ -155,16 +179,115 @@ def _zone_patch(polygons: Sequence[Any], gid: str, label: str | None, hatch: str
                      linewidth=0.9, alpha=0.75, gid=gid, label=label, zorder=4)
 
 
-def _tag_point(band: Band, grid: np.ndarray, target_s: float) -> tuple[float, float] | None:
-    """Where the band's upper edge passes a given time (for the device's inline label)."""
-    if grid.size == 0:
-        return None
-    t_hi = np.clip(band.t_max(grid), TIME_FLOOR_S, TIME_CEILING_S)
-    below = np.nonzero(t_hi <= target_s)[0]
+def _edge_crossing(currents: np.ndarray, times: np.ndarray, target_s: float) -> float | None:
+    """The current where a falling edge first comes down to a given time [A] (None: never)."""
+    below = np.nonzero(times <= target_s)[0]
     if below.size == 0:
         return None
     j = int(below[0])
-    return float(grid[j]), float(t_hi[j])
+    if j == 0 or not times[j - 1] > times[j]:
+        return float(currents[j])
+    # log-log interpolation between the two grid points around the crossing
+    x0, x1 = np.log10(currents[j - 1 : j + 1])
+    y0, y1 = np.log10(times[j - 1 : j + 1])
+    y = math.log10(target_s)
+    return float(10.0 ** (x0 + (x1 - x0) * (y - y0) / (y1 - y0)))
+
+
+# -- placing labels ----------------------------------------------------------------------------
+@functools.cache
+def _text_size_pt(text: str, size_pt: float) -> tuple[float, float]:
+    """Width and height of a one- or several-line text in the default face [pt]."""
+    from matplotlib.font_manager import FontProperties
+    from matplotlib.textpath import TextToPath
+
+    measure = TextToPath()
+    prop = FontProperties(size=size_pt)
+    lines = text.split("\n")
+    width = max(measure.get_text_width_height_descent(line, prop, ismath=False)[0]
+                for line in lines)
+    return float(width), 1.2 * size_pt * len(lines)
+
+
+@dataclass
+class _Layout:
+    """What a label must keep clear of, in points on the figure (shapely geometries).
+
+    ``texts`` are placed labels (never overlapped); ``zones`` the crossover zones and their
+    marks; ``bands`` each band's area by circuit; ``lines`` the markers and withstand lines;
+    ``edges`` the bands' edges.
+    """
+
+    frame: Any
+    texts: list[Any]
+    zones: list[Any]
+    bands: dict[str, Any]
+    lines: list[Any]
+    edges: list[Any]
+
+    def score(self, box: Any, own: str | None, weights: dict[str, float]) -> float:
+        if not self.frame.contains(box):
+            return 1e6
+        total = 1e4 * sum(box.intersects(t) for t in self.texts)
+        total += weights["zones"] * sum(box.intersects(z) for z in self.zones)
+        total += weights["bands"] * sum(box.intersects(b) for cid, b in self.bands.items()
+                                        if cid != own)
+        total += weights["lines"] * sum(box.intersects(ln) for ln in self.lines)
+        total += weights["edges"] * sum(box.intersects(e) for e in self.edges)
+        return float(total)
+
+
+#: What covering each kind of thing costs a candidate place (a placed label: always worst).
+#: Is marks must stay off zones and withstand lines; band labels off zones and other bands.
+LIMIT_WEIGHTS = {"zones": 300.0, "bands": 0.0, "lines": 80.0, "edges": 4.0}
+TAG_WEIGHTS = {"zones": 300.0, "bands": 120.0, "lines": 15.0, "edges": 0.0}
+
+
+def _points(ax: Axes, x: Any, y: Any) -> np.ndarray:
+    """Data coordinates to points on the figure (rows of x, y)."""
+    xy = np.column_stack([np.ravel(np.asarray(x, dtype=np.float64)),
+                          np.ravel(np.asarray(y, dtype=np.float64))])
+    return ax.transData.transform(xy) * (72.0 / ax.figure.dpi)
+
+
+def _data(ax: Axes, x_pt: Any, y_pt: Any) -> np.ndarray:
+    """Points on the figure to data coordinates (rows of x, y)."""
+    xy = np.column_stack([np.ravel(np.asarray(x_pt, dtype=np.float64)),
+                          np.ravel(np.asarray(y_pt, dtype=np.float64))])
+    return ax.transData.inverted().transform(xy * (ax.figure.dpi / 72.0))
+
+
+def _text_box(anchor: np.ndarray, offset: tuple[float, float], ha: str, text: str,
+              size_pt: float, pad_pt: float = 1.5) -> Any:
+    """The box [pt] of a text placed at ``anchor + offset`` with the given alignment, centred
+    vertically."""
+    from shapely.geometry import box
+
+    width, height = _text_size_pt(text, size_pt)
+    x = float(anchor[0]) + offset[0]
+    y = float(anchor[1]) + offset[1]
+    x0 = x if ha == "left" else x - width
+    return box(x0 - pad_pt, y - height / 2 - pad_pt, x0 + width + pad_pt, y + height / 2 + pad_pt)
+
+
+def _band_area(ax: Axes, grid: np.ndarray, t_lo: np.ndarray, t_hi: np.ndarray) -> Any:
+    """A band's area in points (shapely), for keeping labels off it."""
+    from shapely.geometry import Polygon
+
+    ring = np.concatenate([_points(ax, grid, t_hi), _points(ax, grid[::-1], t_lo[::-1])])
+    area = Polygon(ring)
+    return area if area.is_valid else area.buffer(0)
+
+
+def _best(candidates: Sequence[tuple[Any, Any]], layout: _Layout, own: str | None,
+          weights: dict[str, float]) -> tuple[Any, Any] | None:
+    """The candidate (box, placement) with the lowest score; earlier ones win ties."""
+    best = None
+    for rank, (box, placement) in enumerate(candidates):
+        score = layout.score(box, own, weights) + 0.5 * rank
+        if best is None or score < best[0]:
+            best = (score, box, placement)
+    return None if best is None else (best[1], best[2])
 
 
 def _minor_grid(x_lo: float, x_hi: float, y_lo: float, y_hi: float) -> Any:
@@ -208,7 +331,8 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
         Band basis (``"typical"`` or ``"envelope"``); ``None``: the basis the analysis was made
         with (``analysis.basis``), else each circuit's own.
     ax : matplotlib Axes, optional
-        Draw into these axes (the report does); by default a new figure is made.
+        Draw into these axes (the report does); by default a new figure is made. Place the axes
+        on their figure before calling: labels are laid out for their size.
     title : str, optional
         Axes title; by default the study title and the circuit.
 
@@ -220,19 +344,27 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
     References
     ----------
     IEC 60898-1, IEC 60269-2 and IEC 60947-2 (the bands); IEC 60364-4-43, 434.5.2 (adiabatic
-    withstand ``k^2 S^2 / I^2``); IEC 60909-0 (the fault levels marked).
+    withstand ``k^2 S^2 / I^2``, k from Table 43A and IEC 60364-5-54 Table A.54.3); IEC 60909-0
+    (the fault levels marked).
 
     Examples
     --------
-    >>> from coordination import study, faults, engine
-    >>> s = study.load("examples/small-shop.toml")  # doctest: +SKIP
-    >>> lv = faults.compute(s); an = engine.analyse(s, lv)  # doctest: +SKIP
-    >>> fig = plot_circuit(s, lv, an, "bakery-oven")  # doctest: +SKIP
-    >>> print(fig.axes[0].get_xscale())  # doctest: +SKIP
-    log
+    >>> from coordination import engine, faults, study
+    >>> from coordination.report import bundled_example
+    >>> text, where = bundled_example("small-shop.toml")
+    >>> s = study.loads(text, source=where)
+    >>> lv = faults.compute(s)
+    >>> fig = plot_circuit(s, lv, engine.analyse(s, lv), "bakery-oven")
+    >>> ax = fig.axes[0]
+    >>> print(ax.get_xscale(), len([c for c in ax.collections
+    ...                             if (c.get_gid() or "").startswith("band:")]))
+    log 2
     """
+    from matplotlib.colors import to_rgba
     from matplotlib.figure import Figure
+    from matplotlib.patches import Patch
     from matplotlib.ticker import FuncFormatter, LogLocator, NullLocator
+    from shapely.geometry import LineString, Polygon, box
 
     if basis is None:
         basis = getattr(analysis, "basis", None)
@@ -267,8 +399,17 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
     ax.set_yscale("log")
     ax.set_xlim(i_min, i_max)
     ax.set_ylim(TIME_FLOOR_S, TIME_CEILING_S)
+    frame = ax.get_position().bounds  # figure fraction: x, y, width, height
+    fig_w_pt, fig_h_pt = (float(v) * 72.0 for v in fig.get_size_inches())
+    layout = _Layout(
+        frame=box(frame[0] * fig_w_pt + 1, frame[1] * fig_h_pt + 1,
+                  (frame[0] + frame[2]) * fig_w_pt - 1, (frame[1] + frame[3]) * fig_h_pt - 1),
+        texts=[], zones=[], bands={}, lines=[], edges=[])
+    key_entries: list[tuple[Any, str]] = []  # legend: (handle, label)
 
     # -- bands, downstream first (drawn last so it sits on top); alike devices in a row once
+    tags: list[tuple[str, str, str, np.ndarray, np.ndarray, np.ndarray]] = []
+    band_keys: list[tuple[Any, str]] = []
     for k, (cid, last, count) in reversed(list(enumerate(drawn))):
         band = bands[cid]
         who = cid if count == 1 else f"{cid} to {last} ({count} alike)"
@@ -278,26 +419,25 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
         if grid.size == 0:
             continue
         t_lo, t_hi = band.edges(grid)
-        ax.fill_between(grid, t_lo, t_hi, facecolor=colour, alpha=BAND_ALPHA, linewidth=0, zorder=2,
-                        gid=f"band:{cid}",
-                        label=f"{who}: {band.name} ({band.basis})")
+        label = f"{who}: {band.name} ({band.basis})"
+        ax.fill_between(grid, t_lo, t_hi, facecolor=colour, alpha=BAND_ALPHA, linewidth=0,
+                        zorder=2, gid=f"band:{cid}", label=label)
         for edge in (t_lo, t_hi):
             ax.plot(grid, edge, color=colour, linestyle=dash, linewidth=1.3, zorder=3,
                     gid=f"edge:{cid}")
-        tag = _tag_point(band, grid, 10.0 ** (3.0 - 0.7 * k))
-        if tag is not None:
-            # to the left of the edge in the right third of the axis, so it stays inside
-            right = math.log10(tag[0] / i_min) > 0.66 * math.log10(i_max / i_min)
-            ax.annotate(f"{who}\n{band.name}", xy=tag, xytext=(-4 if right else 4, 2),
-                        textcoords="offset points", ha="right" if right else "left",
-                        fontsize=7, color=colour, zorder=6, gid=f"tag:{cid}",
-                        bbox={"boxstyle": "round,pad=0.15", "facecolor": "white",
-                              "edgecolor": "none", "alpha": 0.7})
+            layout.edges.append(LineString(_points(ax, grid, edge)))
+        layout.bands[cid] = _band_area(ax, grid, t_lo, t_hi)
+        # the key shows the band as it is drawn: its fill with its edges' colour and dashes
+        band_keys.append((Patch(facecolor=to_rgba(colour, BAND_ALPHA), edgecolor=colour,
+                                linestyle=dash, linewidth=1.3, gid=f"key:{cid}"), label))
+        tags.append((cid, cid if count == 1 else f"{cid} to {last}", colour, grid, t_lo, t_hi))
+    key_entries.extend(reversed(band_keys))  # downstream first, as the bands are numbered
+    tags.reverse()
 
     # -- crossover zones and their limits
     from coordination import engine
 
-    marks = 0
+    limits: list[tuple[str, float, float]] = []  # (pair name, Is [A], time at its mark [s])
     zones = 0
     shown = {cid for cid, _, _ in drawn}
     for pair in pairs_in_chain(analysis, chain):
@@ -308,11 +448,20 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
         limit = positive_or_none(pair.limit_a)
         if polys:
             where = f", Is {format_current(limit)}" if limit is not None else ""
-            ax.add_patch(_zone_patch(
-                polys, f"zone:{name}",
-                f"crossover, both may operate: {pair.upstream} over {pair.downstream}{where}",
-                ZONE_HATCHES[zones % len(ZONE_HATCHES)]))
+            hatch = ZONE_HATCHES[zones % len(ZONE_HATCHES)]
+            label = (f"crossover, both may operate: {pair.upstream} over {pair.downstream}"
+                     f"{where}")
+            patch = _zone_patch(polys, f"zone:{name}", label, hatch)
+            ax.add_patch(patch)
+            key_entries.append((patch, label))
             zones += 1
+            for poly in polys:
+                ring = 10.0 ** np.asarray(poly.exterior.coords, dtype=np.float64)
+                area = Polygon(_points(ax, ring[:, 0], ring[:, 1]))
+                layout.zones.append(area if area.is_valid else area.buffer(0))
+            mark = _small_zone_mark(ax, polys, f"zone-mark:{name}", hatch)
+            if mark is not None:
+                layout.zones.append(mark)
         if limit is not None:
             t_at = float(np.clip(bands[pair.downstream].t_max(limit), TIME_FLOOR_S,
                                  TIME_CEILING_S))
@@ -320,14 +469,7 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
                 xs = np.concatenate([np.asarray(p.exterior.coords)[:, 0] for p in polys])
                 ys = np.concatenate([np.asarray(p.exterior.coords)[:, 1] for p in polys])
                 t_at = float(10.0 ** ys[int(np.argmin(xs))])
-            # successive marks go to alternate sides and further out, so they do not collide
-            dx, dy = LIMIT_OFFSETS[marks % len(LIMIT_OFFSETS)]
-            marks += 1
-            ax.annotate(f"Is {format_current(limit)}",
-                        xy=(limit, t_at), xytext=(dx, dy), textcoords="offset points",
-                        ha="right" if dx < 0 else "left", fontsize=7, color=ZONE_EDGE, zorder=7,
-                        gid=f"limit:{name}",
-                        arrowprops={"arrowstyle": "->", "color": ZONE_EDGE, "linewidth": 0.8})
+            limits.append((name, limit, t_at))
 
     # -- vertical markers
     board = study.board_name(circuit_id)
@@ -341,27 +483,37 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
     for key, current, text in markers:
         if current is None:
             continue
-        ax.axvline(current, zorder=5, gid=f"marker:{key}",
-                   label=text.format(board=board, i=format_current(current)),
-                   **MARKER_STYLE[key])
+        label = text.format(board=board, i=format_current(current))
+        line = ax.axvline(current, zorder=5, gid=f"marker:{key}", label=label,
+                          **MARKER_STYLE[key])
+        key_entries.append((line, label))
+        layout.lines.append(LineString(_points(ax, [current, current],
+                                               [TIME_FLOOR_S, TIME_CEILING_S])))
 
-    # -- adiabatic withstand of the circuit's conductors
+    # -- adiabatic withstand of the circuit's conductors, as the protection checks take them
     cable: Cable | None = circuit.cable
     if cable is not None:
-        line_s = float(cable.csa_mm2) * int(cable.parallel or 1)
-        cpc_s = float(cable.cpc_mm2 or cable.csa_mm2)
-        cpc_material = cable.cpc_material or cable.material
-        for key, s_mm2, material, what in (
-            ("line", line_s, cable.material, "line conductor"),
-            ("cpc", cpc_s, cpc_material, "protective conductor"),
+        sizes = checks.conductor_sizes(cable)
+        line_count = max(int(cable.parallel or 1), 1)
+        cpc_count = max(round(sizes.cpc_mm2 / sizes.cpc_each_mm2), 1) if sizes.cpc_each_mm2 else 1
+        for key, s_mm2, k, count, what in (
+            ("line", sizes.line_mm2, sizes.k_line, line_count, "line conductor"),
+            ("cpc", sizes.cpc_mm2, sizes.k_cpc, cpc_count, "protective conductor"),
         ):
-            k = k_factor(material, cable.insulation, float(cable.csa_mm2))
             t_hi = min(ADIABATIC_LIMIT_S, TIME_CEILING_S)
             i_a = k * s_mm2 / math.sqrt(t_hi)
             i_b = k * s_mm2 / math.sqrt(TIME_FLOOR_S)
-            ax.plot([i_a, i_b], [t_hi, TIME_FLOOR_S], zorder=4, gid=f"withstand:{key}",
-                    label=f"{what} {s_mm2:g} mm\u00b2 withstand, k={k:g}: k\u00b2S\u00b2/I\u00b2",
-                    **WITHSTAND_STYLE[key])
+            size = (f"{count} x {s_mm2 / count:g} = {s_mm2:g} mm\u00b2" if count > 1
+                    else f"{s_mm2:g} mm\u00b2")
+            label = f"{what} {size} withstand, k={k:g}: k\u00b2S\u00b2/I\u00b2"
+            (line,) = ax.plot([i_a, i_b], [t_hi, TIME_FLOOR_S], zorder=4, gid=f"withstand:{key}",
+                              label=label, **WITHSTAND_STYLE[key])
+            key_entries.append((line, label))
+            layout.lines.append(LineString(_points(ax, [i_a, i_b], [t_hi, TIME_FLOOR_S])))
+
+    # -- labels: the Is marks first, then each band's circuit id, clear of each other
+    _place_limits(ax, layout, limits)
+    _place_tags(ax, layout, tags)
 
     # -- axes, ticks, legend
     # major ticks and grid at every decade; the minor grid (2 to 9 in each decade) is one line
@@ -379,13 +531,105 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
     ax.set_ylabel("time [s]", fontsize=9)
     ax.set_title(title or f"{study.title}\n{circuit_id} and the devices above it", fontsize=10,
                  y=1.01)  # a fixed position: no layout pass over the tick labels
-    ax.legend(loc="upper left", bbox_to_anchor=(0.0, -0.09), ncol=2, fontsize=6.5,
-              frameon=False, title="key", title_fontsize=7.5, alignment="left")
+    handles, labels = zip(*key_entries, strict=True) if key_entries else ((), ())
+    legend = ax.legend(list(handles), list(labels), loc="upper left",
+                       bbox_to_anchor=(0.0, -0.09), ncol=2, fontsize=6.5, frameon=False,
+                       title="key", title_fontsize=7.5, alignment="left", handlelength=3.2,
+                       handleheight=1.1)
+    # the legend draws copies of the handles, and a patch's copy keeps its dashes but not the
+    # name of its line style: set it again so that the key reports what it shows
+    for original, shown in zip(handles, legend.legend_handles, strict=True):
+        if (original.get_gid() or "").startswith("key:"):
+            shown.set_linestyle(original.get_linestyle())
+            shown.set_gid(original.get_gid())
     if standalone:
         from coordination import CAUTION
 
         fig.text(0.1, 0.015, CAUTION, fontsize=6.5, color="#444444")
     return fig
+
+
+def _small_zone_mark(ax: Axes, polygons: Sequence[Any], gid: str, hatch: str) -> Any | None:
+    """Box a crossover zone too small to see, and tie it to the current axis.
+
+    Returns the marked area in points (for the label layout), or None when the zone is large
+    enough to be seen as it is.
+    """
+    from matplotlib.patches import Rectangle
+    from shapely.geometry import box
+
+    x0, y0 = np.inf, np.inf
+    x1, y1 = -np.inf, -np.inf
+    for poly in polygons:
+        bx0, by0, bx1, by1 = poly.bounds
+        x0, y0, x1, y1 = min(x0, bx0), min(y0, by0), max(x1, bx1), max(y1, by1)
+    (px0, py0), (px1, py1) = _points(ax, 10.0 ** np.array([x0, x1]), 10.0 ** np.array([y0, y1]))
+    if px1 - px0 >= MIN_ZONE_PT and py1 - py0 >= MIN_ZONE_PT:
+        return None
+    cx, cy = (px0 + px1) / 2, (py0 + py1) / 2
+    half_w = max(px1 - px0, ZONE_MARK_PT) / 2 + 1.5
+    half_h = max(py1 - py0, ZONE_MARK_PT) / 2 + 1.5
+    (dx0, dy0), (dx1, dy1) = _data(ax, [cx - half_w, cx + half_w], [cy - half_h, cy + half_h])
+    floor = max(TIME_FLOOR_S, ax.get_ylim()[0])
+    # the strip: from the current axis up to the zone, across the zone's currents
+    ax.add_patch(Rectangle((dx0, floor), dx1 - dx0, max(dy0 - floor, 0.0), facecolor=ZONE_FACE,
+                           edgecolor=ZONE_EDGE, hatch=hatch, linewidth=0.6, alpha=0.45, zorder=4,
+                           gid=gid))
+    # the box around the zone itself
+    ax.add_patch(Rectangle((dx0, dy0), dx1 - dx0, dy1 - dy0, facecolor="none",
+                           edgecolor=ZONE_EDGE, linewidth=1.1, zorder=6, gid=gid))
+    bottom = _points(ax, [dx0], [floor])[0][1]
+    return box(cx - half_w, bottom, cx + half_w, cy + half_h)
+
+
+def _place_limits(ax: Axes, layout: _Layout, limits: Sequence[tuple[str, float, float]]) -> None:
+    """The Is marks, each where it covers no other label, zone or withstand line."""
+    from shapely.geometry import LineString
+
+    for name, limit, t_at in limits:
+        text = f"Is {format_current(limit)}"
+        anchor = _points(ax, [limit], [t_at])[0]
+        candidates = []
+        for dx, dy in LIMIT_OFFSETS:
+            ha = "right" if dx < 0 else "left"
+            candidates.append((_text_box(anchor, (dx, dy), ha, text, LIMIT_FONT_PT),
+                               (dx, dy, ha)))
+        box_pt, (dx, dy, ha) = _best(candidates, layout, None, LIMIT_WEIGHTS)
+        ax.annotate(text, xy=(limit, t_at), xytext=(dx, dy), textcoords="offset points",
+                    ha=ha, va="center", fontsize=LIMIT_FONT_PT, color=ZONE_EDGE, zorder=7,
+                    gid=f"limit:{name}",
+                    bbox={"boxstyle": "round,pad=0.2", "facecolor": "white",
+                          "edgecolor": "none", "alpha": 0.85},
+                    arrowprops={"arrowstyle": "->", "color": ZONE_EDGE, "linewidth": 0.8})
+        layout.texts.append(box_pt)
+        layout.lines.append(LineString([anchor, box_pt.centroid.coords[0]]))
+
+
+def _place_tags(ax: Axes, layout: _Layout,
+                tags: Sequence[tuple[str, str, str, np.ndarray, np.ndarray, np.ndarray]]) -> None:
+    """Each band's circuit id beside the band at a long time, near its pickup, where it covers
+    no Is mark, zone, other label or other band (the best place found)."""
+    for cid, text, colour, grid, t_lo, t_hi in tags:
+        candidates = []
+        for target in TAG_TIMES_S:
+            right = _edge_crossing(grid, t_hi, target)  # the band's right side at that time
+            left = _edge_crossing(grid, t_lo, target)  # and its left side
+            for current, dx, ha in ((right, 3.0, "left"), (left, -3.0, "right")):
+                if current is None:
+                    continue
+                anchor = _points(ax, [current], [target])[0]
+                candidates.append((_text_box(anchor, (dx, 0.0), ha, text, TAG_FONT_PT),
+                                   (current, target, dx, ha)))
+        found = _best(candidates, layout, cid, TAG_WEIGHTS)
+        if found is None:
+            continue
+        box_pt, (current, target, dx, ha) = found
+        ax.annotate(text, xy=(current, target), xytext=(dx, 0.0), textcoords="offset points",
+                    ha=ha, va="center", fontsize=TAG_FONT_PT, color=colour, zorder=6,
+                    gid=f"tag:{cid}",
+                    bbox={"boxstyle": "round,pad=0.15", "facecolor": "white",
+                          "edgecolor": "none", "alpha": 0.8})
+        layout.texts.append(box_pt)
 
 
 def save_figure(fig: Figure, path: str | os.PathLike) -> None:
@@ -395,8 +639,14 @@ def save_figure(fig: Figure, path: str | os.PathLike) -> None:
 
     Examples
     --------
+    >>> import tempfile
+    >>> from pathlib import Path
     >>> from matplotlib.figure import Figure
-    >>> save_figure(Figure(), "/tmp/empty.png")  # doctest: +SKIP
+    >>> with tempfile.TemporaryDirectory() as folder:
+    ...     target = Path(folder) / "empty.png"
+    ...     save_figure(Figure(figsize=(2, 1)), target)
+    ...     print(target.read_bytes()[1:4], target.stat().st_size > 0)
+    b'PNG' True
     """
     import matplotlib
 

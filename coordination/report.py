@@ -174,14 +174,18 @@ FIT_MAX = 26
 
 
 def _column_chars(spec: TableSpec) -> list[int]:
-    """Characters per column: each column's heading (and, for ``fit`` columns, its longest
-    cell) first, then the rest of the page width shared out by the relative widths."""
+    """Characters per column: each column's heading (for ``fit`` columns, its longest cell; for
+    ``wrap`` columns, its longest word, so that text wraps between words) first, then the rest
+    of the page width shared out by the relative widths."""
     usable_pt = (RIGHT - LEFT) * PAGE_SIZE_IN[0] * 72.0
     total_chars = int(usable_pt / (FONT_PT * MONO_EM)) - COLUMN_GAP * (len(spec.widths) - 1)
     least = [max(3, len(h)) for h in spec.headers]
     for j in spec.fit:
         longest = max((len(str(row[j])) for row in spec.rows), default=0)
         least[j] = max(least[j], min(longest, FIT_MAX))
+    for j in spec.wrap:
+        word = max((len(w) for row in spec.rows for w in str(row[j]).split()), default=0)
+        least[j] = max(least[j], min(word, FIT_MAX))
     spare = max(0, total_chars - sum(least))
     weight = sum(spec.widths)
     return [m + int(spare * w / weight) for m, w in zip(least, spec.widths, strict=True)]
@@ -523,7 +527,7 @@ def _fault_table(study: Study, levels: Any) -> TableSpec:
     return TableSpec(("circuit", "board", "ph", "Ik3 max kA", "Ik1 max kA", "window kA",
                       "Ik min end kA", "Ief min end kA", "Zs end \u03a9"),
                      (0.5, 1.0, 0.0, 0.2, 0.2, 0.2, 0.2, 0.2, 0.2), tuple(rows), "lllrrrrrr",
-                     wrap=(1,), fit=(0,))
+                     fit=(0, 1))
 
 
 BASIS_SHORT = {"typical": "typ", "envelope": "env", "datasheet": "data"}
@@ -978,10 +982,16 @@ def write_report(study: Study, path: str | os.PathLike, *, csv: bool = False,
 
     Examples
     --------
+    >>> import tempfile
+    >>> from pathlib import Path
+    >>> from pypdf import PdfReader
     >>> from coordination import study
-    >>> s = study.load("examples/small-shop.toml")  # doctest: +SKIP
-    >>> print(write_report(s, "/tmp/shop.pdf").pages > 5)  # doctest: +SKIP
-    True
+    >>> text, where = bundled_example("small-shop.toml")
+    >>> s = study.loads(text, source=where)
+    >>> with tempfile.TemporaryDirectory() as folder:
+    ...     summary = write_report(s, Path(folder) / "shop.pdf")
+    ...     print(summary.pages == len(PdfReader(summary.path).pages), summary.pages > 5)
+    True True
     """
     import matplotlib
     from matplotlib.backends.backend_pdf import PdfPages
@@ -1077,7 +1087,13 @@ def run_demo(output_dir: str | os.PathLike) -> int:
 
     Examples
     --------
-    >>> run_demo("coordination-demo")  # doctest: +SKIP
+    Skipped under doctest because the whole report takes a few seconds; ``tests/test_report.py``
+    runs it.
+
+    >>> import tempfile
+    >>> with tempfile.TemporaryDirectory() as folder:  # doctest: +SKIP
+    ...     print(run_demo(folder))
+    Demo: ...
     0
     """
     from coordination import checks, engine, faults, study

@@ -5,7 +5,9 @@ The installation below is invented.
 
 from __future__ import annotations
 
+import itertools
 import math
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -13,8 +15,17 @@ from typer.testing import CliRunner
 
 from coordination import engine, faults, study
 from coordination.cli import app
-from coordination.plot import plot_circuit, save_figure, withstand_time
+from coordination.plot import (
+    MIN_ZONE_PT,
+    PALETTE,
+    ZONE_MARK_PT,
+    plot_circuit,
+    save_figure,
+    withstand_time,
+)
 from curves.errors import InputError
+
+EXAMPLES = Path(__file__).resolve().parents[1] / "examples"
 
 STUDY = """
 [study]
@@ -189,6 +200,7 @@ def test_markers_sit_at_the_fault_levels_and_the_load(workshop):
     expected = {"marker:max-fault": node.ik_max_a, "marker:min-earth-fault": node.ief_min_a,
                 "marker:load": 10.0}
     for gid, current in expected.items():
+        assert math.isfinite(current), gid  # NaN markers would pass the comparison below
         (line,) = found[gid]
         # a vertical marker: the same current at both ends
         np.testing.assert_allclose(line.get_xdata(), [current, current], rtol=1e-12)
@@ -289,4 +301,182 @@ def test_the_caution_is_on_the_figure(workshop):
     fig = plot_circuit(s, levels, analysis, "final")
     # project rule: every verdict printout carries the caution
     assert any(t.get_text() == CAUTION for t in fig.texts)
-    assert math.isfinite(levels.by_circuit["final"].ik_max_a)
+
+
+# -- conductors in parallel: the withstand lines use the sizes the checks use -----------------
+TAILS = """
+[study]
+title = "Invented plant room tails"
+[supply]
+u0_v = 230
+phases = 3
+pfc_a = 30000
+ze_ohm = 0.05
+[[circuit]]
+id = "tails"
+from = "supply"
+device = "gG630"
+load_a = 500
+[circuit.cable]
+length_m = 8
+{cable}
+"""
+
+
+# IEC 60364-4-43 Table 43A and IEC 60364-5-54 Table A.54.3: k = 143 copper XLPE, 115 copper PVC
+# up to 300 mm2 and 103 above, 76 aluminium PVC; S is the sum over conductors in parallel
+@pytest.mark.parametrize(("cable", "line_s", "line_k", "cpc_s", "cpc_k"), [
+    ('csa_mm2 = 240\ncpc_mm2 = 240\nparallel = 3\ninsulation = "xlpe"', 720.0, 143.0,
+     720.0, 143.0),
+    ('csa_mm2 = 400\ncpc_mm2 = 185\nparallel = 2\ncpc_parallel = 1', 800.0, 103.0, 185.0, 115.0),
+    ('csa_mm2 = 95\ncpc_mm2 = 50\nmaterial = "aluminium"\ncpc_material = "copper"', 95.0, 76.0,
+     50.0, 115.0),
+])
+def test_withstand_lines_take_every_conductor_in_parallel(cable, line_s, line_k, cpc_s, cpc_k):
+    s = study.loads(TAILS.format(cable=cable))
+    levels = faults.compute(s)
+    found = artists(plot_circuit(s, levels, engine.analyse(s, levels), "tails").axes[0])
+    for gid, size, k in (("withstand:line", line_s, line_k), ("withstand:cpc", cpc_s, cpc_k)):
+        (line,) = found[gid]
+        x = np.asarray(line.get_xdata(), dtype=float)
+        y = np.asarray(line.get_ydata(), dtype=float)
+        current = math.sqrt(x[0] * x[-1])  # the middle of the line, log scale
+        t = 10 ** np.interp(math.log10(current), np.log10(x), np.log10(y))
+        # IEC 60364-4-43, 434.5.2: t = k^2 S^2 / I^2
+        assert t == pytest.approx((k * size / current) ** 2, rel=1e-9), gid
+        assert f"{size:g} mm\u00b2" in line.get_label()
+
+
+# -- labels ----------------------------------------------------------------------------------
+def text_box(text, renderer):
+    """The box of a label's text alone (an annotation's own extent includes its arrow)."""
+    from matplotlib.text import Text
+
+    return Text.get_window_extent(text, renderer)
+
+
+def drawn(fig):
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    canvas = FigureCanvasAgg(fig)
+    canvas.draw()
+    return canvas.get_renderer()
+
+
+def test_each_band_is_labelled_with_its_circuit_id_only(workshop):
+    s, levels, analysis = workshop
+    found = artists(plot_circuit(s, levels, analysis, "final").axes[0])
+    # our design: the device and its settings are in the key; the plot names the circuit
+    for cid in ("final", "sub", "main"):
+        (tag,) = found[f"tag:{cid}"]
+        assert tag.get_text() == cid
+
+
+@pytest.mark.parametrize(("example", "circuit", "basis"), [
+    ("office-building.toml", "1t-kettles", None),
+    ("office-building.toml", "1t-kettles", "envelope"),
+    ("office-building.toml", "p-chiller", None),
+    ("small-shop.toml", "bakery-oven", "envelope"),
+])
+def test_labels_and_is_marks_do_not_collide(example, circuit, basis):
+    from shapely.geometry import LineString, box
+
+    s = study.load(EXAMPLES / example)
+    levels = faults.compute(s)
+    fig = plot_circuit(s, levels, engine.analyse(s, levels, basis=basis), circuit)
+    renderer = drawn(fig)
+    ax = fig.axes[0]
+    found = artists(ax)
+    boxes = {}
+    for gid, items in found.items():
+        if gid.startswith(("tag:", "limit:")):
+            b = text_box(items[0], renderer)
+            boxes[gid] = box(b.x0, b.y0, b.x1, b.y1)
+    assert any(g.startswith("limit:") for g in boxes) and any(g.startswith("tag:") for g in boxes)
+    frame = ax.get_window_extent(renderer)
+    for gid, b in boxes.items():
+        # every label inside the axes, and no two labels on each other
+        assert frame.x0 <= b.bounds[0] and b.bounds[2] <= frame.x1, gid
+        assert frame.y0 <= b.bounds[1] and b.bounds[3] <= frame.y1, gid
+        for other, c in boxes.items():
+            if other < gid:
+                assert not b.intersects(c), (gid, other)
+    # the Is marks are clear of the withstand lines
+    for key in ("withstand:line", "withstand:cpc"):
+        (line,) = found[key]
+        path = LineString(ax.transData.transform(np.column_stack(
+            [line.get_xdata(), line.get_ydata()])))
+        for gid, b in boxes.items():
+            if gid.startswith("limit:"):
+                assert not b.intersects(path), (gid, key)
+
+
+# -- greyscale -------------------------------------------------------------------------------
+def lightness(colour):
+    """CIE 1976 L* of an sRGB colour (IEC 61966-2-1 transfer, D65 luminance weights)."""
+    from matplotlib.colors import to_rgb
+
+    linear = [c / 12.92 if c <= 0.04045 else ((c + 0.055) / 1.055) ** 2.4 for c in to_rgb(colour)]
+    y = 0.2126 * linear[0] + 0.7152 * linear[1] + 0.0722 * linear[2]
+    return 116 * y ** (1 / 3) - 16 if y > (6 / 29) ** 3 else y * (29 / 3) ** 3
+
+
+def test_palette_differs_in_lightness():
+    values = sorted(lightness(c) for c in PALETTE)
+    # our design: greyscale prints tell bands apart when their CIE L* differ by 6 or more, and
+    # an edge drawn at L* above 70 is hard to see on white paper (CIE 1976 L*)
+    assert min(b - a for a, b in itertools.pairwise(values)) >= 6.0
+    assert values[-1] <= 70.0
+
+
+def test_key_shows_each_band_with_its_edge_pattern(workshop):
+    from matplotlib.colors import to_rgb
+
+    s, levels, analysis = workshop
+    ax = plot_circuit(s, levels, analysis, "final").axes[0]
+    found = artists(ax)
+    legend = ax.get_legend()
+    entries = dict(zip([t.get_text() for t in legend.get_texts()], legend.legend_handles,
+                       strict=True))
+    styles = []
+    for cid in ("final", "sub", "main"):
+        (fill,) = found[f"band:{cid}"]
+        handle = entries[fill.get_label()]
+        edge = found[f"edge:{cid}"][0]
+        # common practice: a key entry looks like what it stands for, fill and edge
+        assert handle.get_facecolor()[3] > 0 and handle.get_linewidth() > 0
+        np.testing.assert_allclose(handle.get_edgecolor()[:3], to_rgb(edge.get_color()),
+                                   atol=1e-9)
+        styles.append(str(handle.get_linestyle()))
+    assert len(set(styles)) == 3
+
+
+# -- small crossover zones -------------------------------------------------------------------
+def test_a_crossover_zone_too_small_to_see_is_marked():
+    s = study.load(EXAMPLES / "small-shop.toml")
+    levels = faults.compute(s)
+    analysis = engine.analyse(s, levels)
+    result = pair(analysis, "main-fuse", "sockets-sales")
+    zone = engine.overlap(s, levels, result)
+    fig = plot_circuit(s, levels, analysis, "sockets-sales")
+    ax = fig.axes[0]
+    drawn(fig)
+    x0, y0, x1, y1 = zone.bounds
+    corners = ax.transData.transform([[10 ** x0, 10 ** y0], [10 ** x1, 10 ** y1]])
+    width_pt = (corners[1] - corners[0]) * 72.0 / fig.dpi
+    assert min(width_pt) < MIN_ZONE_PT  # the case: a zone a few pixels across
+    marks = artists(ax)["zone-mark:main-fuse>sockets-sales"]
+    for mark in marks:
+        extent = mark.get_window_extent()
+        # our design: the mark is wide enough to see and covers the zone's currents
+        assert extent.width * 72.0 / fig.dpi >= ZONE_MARK_PT
+        assert extent.x0 <= corners[0][0] and extent.x1 >= corners[1][0]
+    # one of them reaches down to the current axis
+    assert min(m.get_window_extent().y0 for m in marks) <= ax.get_window_extent().y0 + 1
+
+
+def test_a_large_crossover_zone_has_no_extra_mark(workshop):
+    s, levels, analysis = workshop
+    found = artists(plot_circuit(s, levels, analysis, "final").axes[0])
+    assert "zone:sub>final" in found
+    assert "zone-mark:sub>final" not in found
