@@ -155,9 +155,19 @@ class CheckResult:
             "reason": self.reason,
             "basis": self.basis,
         }
+        finite = math.isfinite
         for key, val in self.details.items():
-            numeric = isinstance(val, float | int) and not isinstance(val, bool)
-            out.setdefault(key, _finite(val) if numeric else val)
+            if key in out:
+                continue
+            cls = val.__class__
+            if cls is float:  # the common case first
+                out[key] = val if finite(val) else None
+            elif cls is str or cls is bool or val is None:
+                out[key] = val
+            elif isinstance(val, float | int) and not isinstance(val, bool):
+                out[key] = _finite(val)
+            else:
+                out[key] = val
         return out
 
 
@@ -466,6 +476,12 @@ def conductor_sizes(cable: Any) -> ConductorSizes:
         k_cpc=k_factor(cpc_material, cable.insulation, cpc_each),
         cpc_each_mm2=cpc_each,
     )
+
+
+@lru_cache(maxsize=4096)
+def _sizes(cable: Any) -> ConductorSizes:
+    """:func:`conductor_sizes`, once per distinct cable (a study repeats its cables)."""
+    return conductor_sizes(cable)
 
 
 def overload_conditions(ib_a: float | None, in_a: float, iz_a: float | None,
@@ -788,7 +804,7 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
     cable = circuit.cable
     if cable is None:
         return None
-    sizes = conductor_sizes(cable)
+    sizes = _sizes(cable)
     s_line, k_line, s_cpc, k_cpc = sizes.line_mm2, sizes.k_line, sizes.cpc_mm2, sizes.k_cpc
 
     # (what, conductor, current [A], installed S [mm2], k)
@@ -845,9 +861,12 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
     worst = max(rows, key=lambda r: r[0])
     _, need, s, what, conductor, i, energy, k, _t = worst
     ok = not problems and all(r[1] <= r[2] for r in rows)
-    checked = tuple({"case": r[3], "conductor": r[4], "current_a": _finite(r[5]),
-                     "t_max_s": _finite(r[8]), "i2t_a2s": _finite(r[6]), "k": r[7],
-                     "need_mm2": _finite(r[1]), "have_mm2": r[2]} for r in rows)
+    finite = math.isfinite
+    checked = tuple({"case": r[3], "conductor": r[4], "current_a": r[5] if finite(r[5]) else None,
+                     "t_max_s": r[8] if finite(r[8]) else None,
+                     "i2t_a2s": r[6] if finite(r[6]) else None, "k": r[7],
+                     "need_mm2": r[1] if finite(r[1]) else None, "have_mm2": r[2]}
+                    for r in rows)
     details = {"current_a": i, "i2t_a2s": energy, "k": k, "conductor": conductor,
                "governing_case": what, "cases": checked,
                "line_mm2": s_line, "cpc_mm2": s_cpc, "k_line": k_line, "k_cpc": k_cpc,
