@@ -309,6 +309,7 @@ def _first_crossing(up: Band, down: Band, lo: float, top: float, margin: float,
     return _refine(down, up, float(i[k - 1]), float(i[k]), margin, interval_s)
 
 
+@lru_cache(maxsize=65536)
 def _time_at(down: Band, up: Band, current_a: float, margin: float, interval_s: float) -> float:
     """Time where the edges meet, just below ``current_a`` [s] (the lower of the two edges)."""
     i = np.array([current_a * (1 - 1e-9)])
@@ -317,21 +318,59 @@ def _time_at(down: Band, up: Band, current_a: float, margin: float, interval_s: 
     return min(td, tu)
 
 
+@lru_cache(maxsize=65536)
+def _approach(up: Band, down: Band, lo: float, margin: float,
+              interval_s: float) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """The pair's edges from ``lo`` up to the search top, once per pair (its windows differ only
+    in their top): currents [A], D's edge with margin and interval [s], U's edge [s], and for
+    each point the index of the least ratio t_U / t_D at or below it (the first, as argmin)."""
+    i = _grid(down, up, lo, SEARCH_TOP_A)
+    td = _downstream_edge(down, up, i, margin, interval_s)
+    tu = _upstream_edge(up, i)
+    both = np.isfinite(td) & np.isfinite(tu) & (td > 0)
+    ratio = np.where(both, tu / np.where(both, td, 1.0), np.inf)
+    before = np.concatenate([[np.inf], np.minimum.accumulate(ratio)[:-1]])
+    new_least = ratio < before
+    new_least[0] = True
+    best = np.maximum.accumulate(np.where(new_least, np.arange(i.size), 0))
+    return i, td, tu, best
+
+
+def _scalar_ratio(td: float, tu: float) -> float:
+    """t_U / t_D where both edges exist, else ``inf``."""
+    ok = math.isfinite(td) and math.isfinite(tu) and td > 0
+    return tu / td if ok else math.inf
+
+
 def _closest_approach_time(up: Band, down: Band, lo: float, hi: float, margin: float,
                            interval_s: float) -> float | None:
     """U's time where the two edges come closest (least ratio t_U / t_D) in the window [s].
 
     For a pair selective over the whole window this is where selectivity is tightest, so it
-    says which test decided it: below ``ENERGY_REGION_S`` the energy test.
+    says which test decided it: below ``ENERGY_REGION_S`` the energy test. Read from the pair's
+    edges up to the search top (:func:`_approach`, computed once per pair), with the edges at
+    the window's top interpolated log-log between the grid points around it (exact on the
+    straight log-log runs most edges are made of) or, where an edge is missing there, evaluated.
     """
-    i = np.logspace(math.log10(lo), math.log10(hi), GRID_POINTS // 4)
-    td = _downstream_edge(down, up, i, margin, interval_s)
-    tu = _upstream_edge(up, i)
-    both = np.isfinite(td) & np.isfinite(tu) & (td > 0)
-    if not both.any():
-        return None
-    ratio = np.where(both, tu / np.where(both, td, 1.0), np.inf)
-    return float(tu[int(np.argmin(ratio))])
+    i, td, tu, best = _approach(up, down, lo, margin, interval_s)
+    n = int(np.searchsorted(i, hi, side="right"))
+    if 0 < n < i.size and min(td[n - 1], td[n], tu[n - 1], tu[n]) > 0 and np.isfinite(
+            (td[n - 1], td[n], tu[n - 1], tu[n])).all():
+        x0, x1 = math.log10(i[n - 1]), math.log10(i[n])
+        w = (math.log10(hi) - x0) / (x1 - x0) if x1 > x0 else 0.0
+        td_hi = 10.0 ** (math.log10(td[n - 1]) * (1 - w) + math.log10(td[n]) * w)
+        tu_hi = 10.0 ** (math.log10(tu[n - 1]) * (1 - w) + math.log10(tu[n]) * w)
+    else:
+        top = np.array([hi])
+        td_hi = float(_downstream_edge(down, up, top, margin, interval_s)[0])
+        tu_hi = float(_upstream_edge(up, top)[0])
+    r_hi = _scalar_ratio(td_hi, tu_hi)
+    if n > 0:
+        k = int(best[n - 1])
+        r_k = _scalar_ratio(float(td[k]), float(tu[k]))
+        if r_k <= r_hi:  # the first least, as an argmin over the points and then the top
+            return float(tu[k]) if math.isfinite(r_k) else None
+    return tu_hi if math.isfinite(r_hi) else None
 
 
 @lru_cache(maxsize=65536)

@@ -52,11 +52,15 @@ def building(risers: int = 10, boards_per_riser: int = 5, finals_per_board: int 
                           insulation="xlpe", board="main switchboard"))
     for r in range(risers):
         rid = f"riser-{r + 1}"
-        parts.append(_circuit(rid, "incomer", "gG315", length_m=30, csa_mm2=150, cpc_mm2=70,
+        # lengths differ from riser to riser and board to board, as in a real building, so
+        # that the boards differ in their fault levels (nothing is computed once for all)
+        parts.append(_circuit(rid, "incomer", "gG315", length_m=25 + (7 * r) % 30,
+                              csa_mm2=150, cpc_mm2=70,
                               insulation="xlpe", board=f"riser {r + 1}"))
         for b in range(boards_per_riser):
             bid = f"{rid}-db{b + 1}"
-            parts.append(_circuit(bid, rid, "gG100", length_m=15, csa_mm2=35, cpc_mm2=16,
+            parts.append(_circuit(bid, rid, "gG100", length_m=10 + (11 * r + 5 * b) % 23,
+                                  csa_mm2=35, cpc_mm2=16,
                                   insulation="xlpe", board=f"DB {r + 1}.{b + 1}"))
             for f in range(finals_per_board):
                 device, csa = _final(f)
