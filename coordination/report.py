@@ -496,8 +496,13 @@ def register_settings(settings: Any, capacity_a: float | None = None) -> str:
 def _cable_text(cable: Any) -> str:
     if cable is None:
         return "-"
-    par = f"{cable.parallel}x" if (cable.parallel or 1) > 1 else ""
+    parallel = cable.parallel or 1
+    par = f"{parallel}x" if parallel > 1 else ""
     cpc = f"/{cable.cpc_mm2:g}" if cable.cpc_mm2 else ""
+    cpc_parallel = getattr(cable, "cpc_parallel", None)
+    if cable.cpc_mm2 and cpc_parallel and cpc_parallel != parallel:  # e.g. one cpc for the set
+        cpc = f" + cpc {cpc_parallel}x{cable.cpc_mm2:g}" if cpc_parallel > 1 else (
+            f" + cpc {cable.cpc_mm2:g}")
     metal = {"copper": "cu", "aluminium": "al"}.get(cable.material, cable.material)
     return f"{par}{cable.csa_mm2:g}{cpc} {metal} {cable.insulation} {cable.length_m:g} m"
 
@@ -727,6 +732,11 @@ def _cover(study: Study, levels: Any, analysis: Any, results: Sequence[Any],
     return build
 
 
+def _sentence(text: str) -> str:
+    """``text`` with its first letter capitalised (the fault convention reads as a clause)."""
+    return text[:1].upper() + text[1:]
+
+
 def _table_pages(study: Study, heading: str, intro: Sequence[str],
                  spec: TableSpec) -> list[PageBuilder]:
     intro_in = (0.32 + 0.16 * sum(len(_wrap(t, 130)) for t in intro)) if intro else 0.3
@@ -918,7 +928,7 @@ def build_pages(study: Study, basis: str | None = None) -> tuple[list[PageBuilde
         "single-phase one), which is the top of its selectivity window. Minimum currents at the "
         "circuit's far end: Ik min (line-neutral), Ief min (earth fault) and the loop "
         "impedance Zs. Currents in kA, impedances in ohm (IEC 60909-0, simplified).",
-        str(getattr(levels, "convention", "")),
+        _sentence(str(getattr(levels, "convention", ""))),
     ], _fault_table(study, levels))
     pages += _table_pages(study, "Selectivity of every pair", [
         "Each circuit under each device above it. Verdict 'total': selective up to the maximum "

@@ -293,3 +293,17 @@ def test_demo_refuses_a_file_as_folder(tmp_path):
     result = runner.invoke(app, ["demo", "-o", str(target)])
     assert result.exit_code == 2
     assert target.read_text(encoding="utf-8") == "x"
+
+
+def test_cable_text_names_a_separate_protective_conductor():
+    # common practice: 3x240/240 is three cables each with its own cpc; a single cpc for a
+    # parallel set is written apart, as the checks count it (conductor_sizes)
+    from coordination.model import Cable
+    from coordination.report import _cable_text
+
+    assert _cable_text(Cable(length_m=5, csa_mm2=240, cpc_mm2=240, parallel=3)).startswith(
+        "3x240/240 ")
+    assert _cable_text(Cable(length_m=5, csa_mm2=240, cpc_mm2=120, parallel=3,
+                             cpc_parallel=1)).startswith("3x240 + cpc 120 ")
+    assert _cable_text(Cable(length_m=5, csa_mm2=240, cpc_mm2=120, parallel=3,
+                             cpc_parallel=2)).startswith("3x240 + cpc 2x120 ")
