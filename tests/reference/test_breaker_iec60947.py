@@ -434,6 +434,14 @@ def test_electronic_clearing_time_from_1_1_ii(s, basis, fractions):
     np.testing.assert_array_equal(band.t_max(i), BREAKER_CLEARING_S)
 
 
+def assert_never_left(a, b, i):
+    """Band ``b`` nowhere left of (faster than) band ``a`` at currents ``i``; where both edges
+    are held at the same clipped value the two may differ in the last bit."""
+    assert np.all(b.t_min(i) >= a.t_min(i) * (1 - ROUNDING))
+    assert np.all(b.t_max(i) >= a.t_max(i) * (1 - ROUNDING))
+    assert b.pickup_min_a > a.pickup_min_a
+
+
 # Common practice: a larger Ir never sits left of (faster than) a smaller one, other settings
 # equal.
 @settings(max_examples=50, deadline=None)
@@ -447,11 +455,7 @@ def test_larger_ir_never_sits_left(kind_settings, basis, fractions, data):
         assume(s["Isd_x"] * large <= s["Ii_x"])
     a = build(kind, {**s, "Ir_x": small}, basis)
     b = build(kind, {**s, "Ir_x": large}, basis)
-    i = grid(a, fractions)
-    # where both edges are held at the same clipped value the two may differ in the last bit
-    assert np.all(b.t_min(i) >= a.t_min(i) * (1 - ROUNDING))
-    assert np.all(b.t_max(i) >= a.t_max(i) * (1 - ROUNDING))
-    assert b.pickup_min_a > a.pickup_min_a
+    assert_never_left(a, b, grid(a, fractions))
 
 
 # Common practice: a larger rating In never sits left of (faster than) a smaller one with the
@@ -464,11 +468,7 @@ def test_larger_in_never_sits_left(kind_settings, basis, fractions, data):
                                              max_size=2, unique=True)))
     a = build(kind, {**s, "In_a": small}, basis)
     b = build(kind, {**s, "In_a": large}, basis)
-    i = grid(a, fractions)
-    # where both edges are held at the same value the two may differ in the last bit
-    assert np.all(b.t_min(i) >= a.t_min(i) * (1 - ROUNDING))
-    assert np.all(b.t_max(i) >= a.t_max(i) * (1 - ROUNDING))
-    assert b.pickup_min_a > a.pickup_min_a
+    assert_never_left(a, b, grid(a, fractions))
     assert b.pickup_max_a > a.pickup_max_a
     if a.instantaneous_a is not None:
         assert b.instantaneous_a > a.instantaneous_a
