@@ -620,12 +620,19 @@ def _supply_lines(study: Study, levels: Any) -> list[str]:
 def _basis_summary(study: Study, basis: str | None) -> str:
     from coordination.devices import band_for
 
-    counts: dict[str, int] = {}
+    ids: dict[str, list[str]] = {}
     for c in study.circuits:
-        b = band_for(study, c.id, basis).basis
-        counts[b] = counts.get(b, 0) + 1
-    parts = [f"{b} for {n} device{'s' if n != 1 else ''}" for b, n in counts.items()]
-    return "Selectivity basis: " + ", ".join(parts) + (
+        ids.setdefault(band_for(study, c.id, basis).basis, []).append(c.id)
+    ranked = sorted(ids.items(), key=lambda item: -len(item[1]))
+    if len(ranked) == 1:
+        parts = [f"{ranked[0][0]} for every device ({len(ranked[0][1])})"]
+    else:  # the most common basis by count, the others by name
+        parts = [f"{ranked[0][0]} for {len(ranked[0][1])} devices"]
+        for b, members in ranked[1:]:
+            shown = ", ".join(members[:8]) + (f" and {len(members) - 8} more"
+                                              if len(members) > 8 else "")
+            parts.append(f"{b} for {shown}")
+    return "Selectivity basis: " + "; ".join(parts) + (
         " (each device's basis is in the device register). Protection checks: envelope, the "
         "worst case a compliant device allows.")
 
@@ -710,7 +717,8 @@ def _cover(study: Study, levels: Any, analysis: Any, results: Sequence[Any],
                    (analysis.ok and not failed) else
                    "NOT every requirement is met: see the selectivity table and the checks.")
         y = block("Summary", [
-            f"{len(study.circuits)} circuits, {n_boards} boards with an incoming device.",
+            f"{len(study.circuits)} circuit{'s' if len(study.circuits) != 1 else ''}, "
+            f"{n_boards} board{'s' if n_boards != 1 else ''} with an incoming device.",
             f"{summary['pairs']} upstream/downstream pairs: {summary['total']} total, "
             f"{summary['partial']} partial, {summary['none']} none; "
             f"{summary['unmet']} below their required selectivity.",

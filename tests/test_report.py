@@ -307,3 +307,18 @@ def test_cable_text_names_a_separate_protective_conductor():
                              cpc_parallel=1)).startswith("3x240 + cpc 120 ")
     assert _cable_text(Cable(length_m=5, csa_mm2=240, cpc_mm2=120, parallel=3,
                              cpc_parallel=2)).startswith("3x240 + cpc 2x120 ")
+
+
+def test_cover_names_the_devices_on_another_basis():
+    # issue 7, the cover gives the basis of each device: the common one by count, others by name
+    from coordination import study
+    from coordination.report import _basis_summary
+
+    s = study.loads('[supply]\npfc_a = 6000\n'
+                    '[[circuit]]\nid = "main"\nfrom = "supply"\ndevice = "gG100"\n'
+                    '[[circuit]]\nid = "a"\nfrom = "main"\ndevice = "B16"\nbasis = "envelope"\n'
+                    '[[circuit]]\nid = "b"\nfrom = "main"\ndevice = "B16"\n')
+    text = _basis_summary(s, None)
+    assert "typical for 2 devices" in text
+    assert "envelope for a " in text
+    assert "typical for every device (3)" in _basis_summary(s, "typical")
