@@ -9,7 +9,7 @@ import math
 
 import numpy as np
 import pytest
-from hypothesis import given, settings
+from hypothesis import example, given, settings
 from hypothesis import strategies as st
 
 from curves.band import Band
@@ -20,6 +20,8 @@ from curves.mcb import MCB_INSTANTANEOUS, MCB_RATINGS_A, mcb_band
 BASES = ("typical", "envelope")
 #: IEC 60898-1 standard values of rated short-circuit capacity Icn [A] (REFERENCE.md, from memory).
 ICN_STANDARD_A = (1500.0, 3000.0, 4500.0, 6000.0, 10000.0, 15000.0, 20000.0, 25000.0)
+#: Relative floating-point rounding allowed where an edge is compared with itself.
+ROUNDING = 1e-12
 #: A dense current grid from 0.3 A to 300 kA (log-spaced).
 GRID_A = np.logspace(math.log10(0.3), math.log10(3e5), 6001)
 
@@ -47,10 +49,14 @@ def edges_on(band: Band, current: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
 # common practice: a protective device operates no later at a larger current
 @settings(max_examples=50, deadline=None)
 @given(band=any_band, current=currents)
+@example(band=mcb_band("B", 6, energy_class=2, basis="typical"), current=np.array([1.0, 3e3]))
 def test_edges_never_rise_with_current(band: Band, current: np.ndarray) -> None:
     merged = np.sort(np.concatenate([current, GRID_A]))
     for edge in edges_on(band, merged):
-        assert np.all(edge[:-1] >= edge[1:]), (band.name, band.basis, dict(band.settings))
+        # at a table point the held and the interpolated let-through may differ in the last
+        # bits (3e-15 relative was seen at 3 kA): rounding, not a rise
+        assert np.all(edge[1:] <= edge[:-1] * (1 + ROUNDING)), (band.name, band.basis,
+                                                                  dict(band.settings))
 
 
 # common practice: the no-operation edge never lies above the clearing edge
