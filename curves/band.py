@@ -141,13 +141,15 @@ class Band:
         object.__setattr__(self, "settings", MappingProxyType(dict(self.settings)))
         if not self.key:
             object.__setattr__(self, "key", (self.family, self.name, self.basis))
+        # bands key every cache of the engine and the checks: hash the key once
+        object.__setattr__(self, "_hash", hash(self.key))
 
     # Identity is the key: equal keys mean the same characteristic (used by caches).
     def __eq__(self, other: object) -> bool:
-        return isinstance(other, Band) and self.key == other.key
+        return self is other or (isinstance(other, Band) and self.key == other.key)
 
     def __hash__(self) -> int:
-        return hash(self.key)
+        return self._hash  # type: ignore[attr-defined]
 
     # -- edges ---------------------------------------------------------------------------------
     def t_min(self, current_a: Any) -> np.ndarray:
