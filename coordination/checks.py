@@ -722,17 +722,39 @@ def _next_device(band: Band, ib_a: float) -> tuple[str, float, float, bool] | No
     fits = [r for r in series if r >= ib_a]
     if not fits:
         return None
-    rating = fits[0]
+    new = _family_member(band, fits[0])
+    return new.name, float(new.rating_a), float(new.pickup_max_a), True
+
+
+def _family_member(band: Band, rating: float) -> Band:
+    """Another rating of an MCB's or a gG fuse-link's family, on the same basis and settings."""
     if band.family == "mcb":
         from curves.mcb import mcb_band
         st = band.settings
-        new = mcb_band(str(st.get("type", band.name[0])), rating, basis=band.basis,
-                       energy_class=int(st.get("energy_class", 3)),
-                       icn_a=float(st.get("icn_a", 6000.0)))
-    else:
-        from curves.fuse import gg_band
-        new = gg_band(rating, basis=band.basis)
-    return new.name, float(new.rating_a), float(new.pickup_max_a), True
+        return mcb_band(str(st.get("type", band.name[0])), rating, basis=band.basis,
+                        energy_class=int(st.get("energy_class", 3)),
+                        icn_a=float(st.get("icn_a", 6000.0)))
+    from curves.fuse import gg_band
+    return gg_band(rating, basis=band.basis)
+
+
+def _smaller_device(band: Band, ib_a: float | None, iz_a: float) -> str | None:
+    """A smaller device of the band's family that meets every overload condition with this
+    cable (the largest such rating), or a lower setting for adjustable devices; None if none."""
+    series = _series(band)
+    if series is None:  # adjustable: I2 scales with the setting
+        ratio = float(band.pickup_max_a) / _in_a(band)
+        highest = min(iz_a, 1.45 * iz_a / ratio)
+        if highest >= _in_a(band) or (ib_a is not None and ib_a > highest):
+            return None
+        return f"a lower setting, Ir <= {math.floor(highest * 10.0 + 1e-9) / 10.0:g} A"
+    for rating in sorted((r for r in series if r < _in_a(band)), reverse=True):
+        if ib_a is not None and rating < ib_a:
+            return None
+        member = _family_member(band, rating)
+        if overload_ok(ib_a, rating, iz_a, float(member.pickup_max_a)):
+            return member.name
+    return None
 
 
 def _iz_needed_a(in_a: float, i2_a: float) -> float:
@@ -781,18 +803,19 @@ def _overload(study: Study, cid: str, band: Band) -> CheckResult | None:
                     cable = f", so also a cable with Iz >= {need:g} A (now {_a(float(iz))})"
                 fix = f"{new_name}, which carries Ib {_a(float(ib))}: {needs}{cable}"
             reason = f"{band.name} (I2 {_a(i2)}): {'; '.join(failing)}: choose {fix}"
-        else:
+        else:  # the device carries the load; the cable is what it fails to protect
+            assert iz is not None  # only In <= Iz and I2 <= 1.45 Iz are left to fail
             need = _iz_needed_a(in_a, i2)
             fixes = [f"a cable with Iz >= {need:g} A"]
-            series = _series(band)
-            if series is None:
-                can_shrink = ib is None or float(ib) < in_a
+            if ib is not None and float(ib) > float(iz):
+                fixes[0] += (f" (Ib {_a(float(ib))} exceeds Iz {_a(float(iz))}: the cable is "
+                             "too small for the load, whatever the device)")
             else:
-                smaller = [r for r in series if r < in_a]
-                can_shrink = bool(smaller) and (ib is None or max(smaller) >= float(ib))
-            if can_shrink:
-                fixes.append("a smaller device" + ("" if ib is None else " that still carries "
-                                                   f"Ib {_a(float(ib))}"))
+                smaller = _smaller_device(band, None if ib is None else float(ib), float(iz))
+                if smaller is not None:
+                    carries = "" if ib is None else f"carries Ib {_a(float(ib))} and "
+                    fixes.append(f"{smaller}, which {carries}protects this cable")
+                    details["smaller_device"] = smaller
             reason = (f"{band.name} (I2 {_a(i2)}): {'; '.join(failing)}: choose "
                       f"{' or '.join(fixes)}")
     return CheckResult(cid, "overload", ok, value, limit, "A", reason, band.basis, details)
@@ -806,6 +829,9 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
         return None
     sizes = _sizes(cable)
     s_line, k_line, s_cpc, k_cpc = sizes.line_mm2, sizes.k_line, sizes.cpc_mm2, sizes.k_cpc
+    # a fault just past the board in one of several parallel cables is carried by that cable's
+    # own conductors; one at the far end is shared by all of them
+    one_line, one_cpc = float(cable.csa_mm2), sizes.cpc_each_mm2
 
     # (what, conductor, current [A], installed S [mm2], k)
     ik_max = _get(node, "ik_max_a")
@@ -815,17 +841,23 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
         i_max = max(x for x in (ik3, ik1, ik_max) if x is not None)
     else:
         i_max = ik1 if ik1 is not None else ik_max
-    cases = [("maximum fault at the board", "line", i_max, s_line, k_line)]
+    ief_max = _get(node, "ief_max_board_a")
+    if ief_max is not None and not (ief_max > 0 and math.isfinite(ief_max)):
+        ief_max = None
+    if ief_max is not None and (i_max is None or ief_max > i_max):
+        i_max = ief_max  # an earth fault flows in a line conductor too
+    cases = [("maximum fault at the board", "line", i_max, one_line, k_line)]
     ik_min = _get(node, "ik_min_end_a")
     if ik_min is not None and ik_min > 0:
         cases.append(("minimum fault at the far end", "line", ik_min, s_line, k_line))
     ief = _get(node, "ief_min_a")
     if ief is not None and ief > 0:
+        if ik_min is None or ief < ik_min:  # the smallest fault in the line conductors
+            cases.append(("minimum earth fault at the far end", "line", ief, s_line, k_line))
         cases.append(("minimum earth fault at the far end", "protective", ief, s_cpc, k_cpc))
-    ief_max = _get(node, "ief_max_board_a")
-    if ief_max is not None and ief_max > 0 and math.isfinite(ief_max):
+    if ief_max is not None:
         # a current-limiting device lets the most energy through at the largest earth fault
-        cases.append(("maximum earth fault at the board", "protective", ief_max, s_cpc, k_cpc))
+        cases.append(("maximum earth fault at the board", "protective", ief_max, one_cpc, k_cpc))
 
     rcd = _rcd_needed(study, cid, band, node, edges)
     rows = []
@@ -840,7 +872,7 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
             if conductor == "line" and overload_protected:
                 continue  # IEC 60364-4-43 435.1: overload protection also protects the conductor
             at = f"the {what} ({_a(i)})"
-            if conductor == "protective" and rcd:
+            if rcd and "earth fault" in what:
                 problems.append(
                     f"{at} must be cleared by an RCD (too small for any overcurrent device, see "
                     f"disconnection): the protective conductor's adiabatic check then depends "
@@ -903,6 +935,9 @@ def _breaking_capacity(study: Study, cid: str, band: Band, node: Any) -> CheckRe
         fault, kind = max(options) if options else (ik_max or 0.0, "maximum")
     else:
         fault, kind = (ik1, "line-neutral") if ik1 is not None else (ik_max or 0.0, "maximum")
+    ief_max = _get(node, "ief_max_board_a")
+    if ief_max is not None and math.isfinite(ief_max) and ief_max > fault:
+        fault, kind = ief_max, "earth"  # the device must break the largest fault it can see
     device = circuit.device
     stated = isinstance(device, Mapping) and any(k in device for k in CAPACITY_KEYS)
     if circuit.breaking_capacity_a is not None:

@@ -24,9 +24,10 @@ Conventions (also carried in :attr:`FaultLevels.convention` and printed with eve
   loops are the same; a separate protective conductor is no better: common practice). A circuit
   without a cable adds nothing (the largest current). Never below ``ief_min_board_a``. This is
   the fault at which a current-limiting device (MCB, fuse in its energy region) lets the most
-  energy into the protective conductor. A given Ze is taken as the installation's real one;
-  where it is only a declared maximum the real earth fault may be larger (up to the line-
-  neutral value ``ik1_max_a`` in a TN-C-S supply).
+  energy into the protective conductor. A declared Ze and a declared fault level are both
+  limits the real supply stays within, so in TN systems the smaller of Ze and the source's
+  line-neutral loop for maximum currents is taken (with a PEN conductor the two loops are one);
+  in TT the earth path is Ze's alone.
 * **Source.** ``pfc_a`` is the line-neutral value of a single-phase supply and the three-phase
   symmetrical value of a three-phase one. A three-phase supply's line-neutral loop is
   ``pfc_ln_a``'s when given; else it is bounded: it lies between the phase impedance (the
@@ -288,14 +289,24 @@ def source_impedances(supply: Supply) -> Source:
                 f"{ze:g} ohm{three}; the real fault level may be higher (give pfc_a)")
     ze_given = supply.ze_ohm is not None
     ze_ohm = float(supply.ze_ohm) if ze_given else abs(z_loop_min)  # type: ignore[arg-type]
-    # the earth loop for maximum earth faults: Ze where given (split by the supply's X/R, as
-    # the line-neutral maximum splits its source); else the source's line-neutral loop for
-    # maximum currents, a conservative bound
-    z_earth_max = split_impedance(ze_ohm, supply.x_r) if ze_given else z_loop_max
+    # the earth loop for maximum earth faults. A declared Ze and a declared fault level are
+    # both limits the real supply stays within, so the largest earth fault takes the smaller
+    # loop: in TN the source's line-neutral loop for maximum currents bounds it (with a PEN
+    # conductor the two loops are one), in TT the earth path is Ze's alone
+    xr_source = t.x_r if t is not None else supply.x_r
+    ze_loop = split_impedance(ze_ohm, xr_source) if ze_given else None
+    tt = str(supply.earthing).upper().startswith("TT")
+    if ze_loop is None:
+        z_earth_max, how = z_loop_max, ("the source's line-neutral loop for maximum currents "
+                                        "(Ze not given: a conservative bound)")
+    elif tt or abs(ze_loop) <= abs(z_loop_max):
+        z_earth_max, how = ze_loop, f"Ze (X/R {xr_source:g})"
+    else:
+        z_earth_max, how = z_loop_max, ("the source's line-neutral loop for maximum currents, "
+                                        "smaller than Ze (TN: the declared fault level bounds "
+                                        "the earth fault too)")
     text += "; Ze " + ("given" if ze_given else "= the source's line-neutral loop")
-    text += ("; maximum earth fault through Ze (X/R " + f"{supply.x_r:g})" if ze_given else
-             "; maximum earth fault through the source's line-neutral loop for maximum currents "
-             "(Ze not given: a conservative bound)")
+    text += "; maximum earth fault through " + how
     return Source(z_phase_max=z_ph_max, z_phase_min=z_ph_min, z_loop_max=z_loop_max,
                   z_loop_min=z_loop_min, ze_ohm=ze_ohm, ze_given=ze_given, k_t=k_t,
                   description=text, z_earth_max=z_earth_max)
@@ -426,7 +437,9 @@ def convention_text(supply: Supply) -> str:
         "Ief = c_min U0 / Zs; Ik min end is line-neutral (line-line beyond a cable without "
         "neutral). Maximum earth fault at each circuit's board: line to protective conductor, "
         f"c_max = {supply.c_max:g}, conductors at 20 degC, through "
-        + ("Ze" if supply.ze_ohm is not None else
+        + ("the smaller of Ze and the source's line-neutral loop (TN)"
+           if supply.ze_ohm is not None and not str(supply.earthing).upper().startswith("TT")
+           else "Ze" if supply.ze_ohm is not None else
            "the source's line-neutral loop (Ze not given: a conservative bound)")
         + ", never below the minimum there. IEC 60909-0 style, simplified for low voltage."
     )

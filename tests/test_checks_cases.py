@@ -243,14 +243,37 @@ def test_overload_adjustable_breaker_below_ib_suggests_a_setting() -> None:
     assert "smaller device" not in r.reason
 
 
-# IEC 60364-4-43 433.1: with Ib 20 A <= In 32 A but In > Iz 30 A, a smaller device that still
-# carries Ib (B25) is a remedy beside a larger cable (Iz >= 32 A).
+# IEC 60364-4-43 433.1 with IEC 60898-1 (I2 = 1.45 In): with Ib 20 A <= In 32 A but In > Iz
+# 30 A, B25 carries Ib and protects the cable (25 <= 30 A, 36.25 <= 43.5 A), a remedy beside a
+# larger cable (Iz >= 32 A). Hand-worked.
 def test_overload_in_above_iz_offers_a_smaller_device_that_carries_ib() -> None:
     cable = Cable(length_m=10, csa_mm2=4, cpc_mm2=1.5, iz_a=30.0)
     r = only(run_one(one_circuit(load_a=20.0, cable=cable), node()), "overload")
     assert not r.ok
     assert "Iz >= 32 A" in r.reason
-    assert "a smaller device that still carries Ib 20 A" in r.reason
+    assert "B25, which carries Ib 20 A and protects this cable" in r.reason
+    assert r.details["smaller_device"] == "B25"
+
+
+# IEC 60364-4-43 433.1 with IEC 60269-1 (gG, In >= 16 A: I2 = 1.6 In, from memory), hand-worked:
+# gG32 with Ib 20 A on Iz 22 A: gG25 has In 25 > 22 A and gG20 I2 32 A > 1.45 x 22 = 31.9 A,
+# so no smaller fuse-link protects this cable while carrying Ib: only a larger cable is offered.
+def test_overload_offers_no_smaller_device_that_would_fail_too() -> None:
+    cable = Cable(length_m=10, csa_mm2=4, cpc_mm2=1.5, iz_a=22.0)
+    r = only(run_one(one_circuit("gG32", load_a=20.0, cable=cable), node()), "overload")
+    assert not r.ok
+    assert "smaller" not in r.reason and "gG20" not in r.reason and "gG25" not in r.reason
+    assert "smaller_device" not in r.details
+
+
+# IEC 60364-4-43 433.1: Ib <= In <= Iz cannot hold when Ib 20 A exceeds Iz 15 A, whatever the
+# device: the reason says the cable is too small for the load (common practice).
+def test_overload_with_ib_above_iz_says_the_cable_is_too_small() -> None:
+    cable = Cable(length_m=10, csa_mm2=1.5, cpc_mm2=1.5, iz_a=15.0)
+    r = only(run_one(one_circuit(load_a=20.0, cable=cable), node()), "overload")
+    assert not r.ok
+    assert "too small for the load" in r.reason
+    assert "smaller_device" not in r.details
 
 
 # IEC 60364-4-43 433.1 with IEC 60269-1 (gG, In >= 16 A: conventional fusing current 1.6 In,
@@ -343,6 +366,47 @@ def test_fault_energy_protective_conductor_at_the_largest_earth_fault(cpc_mm2: f
     assert r.details["governing_case"] == "maximum earth fault at the board"
     assert r.value == pytest.approx(math.sqrt(45_000.0) / 115.0, rel=1e-6)
     assert r.limit == pytest.approx(cpc_mm2, rel=1e-12)
+
+
+# IEC 60364-4-43 434 (parallel conductors: a fault in one of them, from memory) with IEC
+# 60947-2 (a thermal-magnetic release has cleared by its 30 ms clearing time above its magnetic
+# pickup, common practice) and IEC 60364-5-54 Table A.54.3 (k 143, copper XLPE core), by hand: a
+# TM400 (Ii 10 In) on two parallel 120/25 mm2 cables, 26 kA earth fault just past the board: that
+# cable's own 25 mm2 cpc carries it, needing sqrt(26 000^2 x 0.03) / 143 = 31.49 mm2 > 25 mm2:
+# fails, although the two cpcs together (50 mm2) would pass.
+def test_board_end_fault_in_parallel_cables_takes_one_conductor() -> None:
+    device = {"family": "tm", "In_a": 400, "Ii_x": 10, "icu_a": 50000}
+    cable = Cable(length_m=40, csa_mm2=120, cpc_mm2=25, insulation="xlpe", parallel=2)
+    n = node(zs_ohm=0.035, ik1_a=20000.0, ik3_a=20000.0, ik_min_end_a=8000.0,
+             ief_max_board_a=26000.0)  # far end 0.95 x 230 / 0.035 = 6.2 kA: magnetic region
+    r = only(run_one(one_circuit(device, phases=3, cable=cable, final=False), n), "fault-energy")
+    assert not r.ok
+    assert r.details["governing_case"] == "maximum earth fault at the board"
+    assert r.limit == pytest.approx(25.0, rel=1e-12)
+    assert r.value == pytest.approx(math.sqrt(26_000.0**2 * 0.03) / 143.0, rel=1e-6)
+
+
+# IEC 60364-4-43 434.5.2 (every conductor that carries the fault, from memory) with the class-3
+# table above: an earth fault flows in a line conductor too, so the largest fault at the board
+# for the line conductors is the 6 kA earth fault where it exceeds the 3 kA short circuits:
+# sqrt(45 000) / 115 = 1.845 mm2 of line conductor. Hand-worked.
+def test_line_conductors_see_the_largest_earth_fault() -> None:
+    cable = Cable(length_m=10, csa_mm2=4, cpc_mm2=4)
+    n = node(zs_ohm=1.0, ik1_a=3000.0, ik3_a=3000.0, ief_max_board_a=6000.0)
+    r = only(run_one(one_circuit(cable=cable), n), "fault-energy")
+    line = [c for c in r.details["cases"] if c["case"] == "maximum fault at the board"]
+    assert line[0]["current_a"] == pytest.approx(6000.0, rel=1e-12)
+    assert line[0]["need_mm2"] == pytest.approx(math.sqrt(45_000.0) / 115.0, rel=1e-6)
+
+
+# IEC 60364-4-43 434.5.1: the device must break the largest fault where it is installed, an
+# earth fault included (common practice): a 6 kA B32 where the earth fault reaches 7 kA fails.
+def test_breaking_capacity_counts_the_largest_earth_fault() -> None:
+    n = node(zs_ohm=1.0, ik1_a=5000.0, ik3_a=5000.0, ief_max_board_a=7000.0)
+    r = only(run_one(one_circuit(), n), "breaking-capacity")
+    assert not r.ok
+    assert r.value == pytest.approx(7000.0, rel=1e-12)
+    assert r.details["fault"] == "earth"
 
 
 # IEC 60364-4-43 Table 43A and IEC 60364-5-54 Table A.54.3 (REFERENCE.md, confirmed): copper

@@ -106,9 +106,12 @@ def test_json_matches_the_api(study_file: Path) -> None:
     assert by_id["ovens"]["ik_max_a"] == pytest.approx(by_id["ovens"]["ik3_max_a"], rel=1e-12)
     assert by_id["sockets"]["ik_max_a"] == pytest.approx(by_id["sockets"]["ik1_max_a"],
                                                          rel=1e-12)
-    # IEC 60909-0 Table 1 (c_max 1.05) and Ohm's law, by hand: the largest earth fault at the
-    # origin flows through the given Ze: 1.05 x 230 / 0.35 = 690 A
-    assert by_id["incomer"]["ief_max_board_a"] == pytest.approx(690.0, rel=1e-9)
+    # IEC 60909-0 Table 1 (c_max 1.05) and Ohm's law, by hand: in TN the declared fault level
+    # bounds the largest earth fault at the origin as the declared Ze does, and the smaller loop
+    # governs: the source's line-neutral loop for maximum currents (Ik1 = pfc_a = 16 kA, the
+    # bound coordination.faults takes for a three-phase supply without pfc_ln_a) rather than
+    # Ze's 690 A
+    assert by_id["incomer"]["ief_max_board_a"] == pytest.approx(16000.0, rel=1e-9)
 
 
 def test_json_has_null_for_values_that_do_not_exist(tmp_path: Path) -> None:

@@ -162,14 +162,15 @@ def class_3_b32_i2t(current_a: float) -> float:
     raise AssertionError("beyond the table")
 
 
-def board_study(ze_ohm: float) -> str:
-    """An invented flat: a 5.5 kA single-phase TN-C-S supply and one B32 on 15 m of 2.5/1.5 mm2."""
+def board_study(ze_ohm: float, pfc_a: float = 5500.0, earthing: str = "TN-C-S") -> str:
+    """An invented flat: a single-phase supply (5.5 kA TN-C-S unless told) and one B32 on 15 m of
+    2.5/1.5 mm2."""
     return f"""
 [supply]
 u0_v = 230
 phases = 1
-earthing = "TN-C-S"
-pfc_a = 5500
+earthing = "{earthing}"
+pfc_a = {pfc_a}
 ze_ohm = {ze_ohm}
 [[circuit]]
 id = "sockets"
@@ -197,14 +198,15 @@ def fault_energy(text: str) -> checks.CheckResult:
 # PVC core), hand-worked: the earth fault at the board is c_max U0 / Ze = 1.05 x 230 / 0.045 =
 # 5366.7 A; log-log between 4.5 kA (32 000) and 6 kA (45 000 A2s): slope ln(45/32) / ln(6/4.5) =
 # 1.18508, I2t = 32 000 x (5366.7 / 4500)^1.18508 = 39 428 A2s; S = sqrt(39 428) / 115 = 1.727 mm2
-# > 1.5 mm2: fails. At the far end (Zs = 0.045 + 19.51 mohm/m x 15 m x 1.1965 = 0.3951 ohm,
-# 0.95 x 230 / 0.3951 = 553 A) the 3 kA value 18 000 A2s needs only sqrt(18 000) / 115 =
-# 1.167 mm2: checking there alone passed it.
+# > 1.5 mm2: fails. (The study declares 5 kA, whose loop 1.05 x 230 / 5000 = 0.0483 ohm is
+# larger than Ze, so Ze governs the largest earth fault.) At the far end (Zs = 0.045 +
+# 19.51 mohm/m x 15 m x 1.1965 = 0.3951 ohm, 0.95 x 230 / 0.3951 = 553 A) the 3 kA value
+# 18 000 A2s needs only sqrt(18 000) / 115 = 1.167 mm2: checking there alone passed it.
 def test_protective_conductor_fails_at_the_largest_earth_fault() -> None:
     i_board = 1.05 * 230.0 / 0.045
     need = math.sqrt(class_3_b32_i2t(i_board)) / 115.0
     assert need == pytest.approx(1.727, abs=0.001)
-    r = fault_energy(board_study(0.045))
+    r = fault_energy(board_study(0.045, pfc_a=5000.0))
     assert not r.ok
     assert r.value == pytest.approx(need, rel=1e-3)
     assert r.limit == pytest.approx(1.5, rel=1e-12)
@@ -218,12 +220,26 @@ def test_protective_conductor_fails_at_the_largest_earth_fault() -> None:
     json.dumps(r.to_json(), allow_nan=False)
 
 
-# Same sources, hand-worked: Ze 0.35 ohm gives 1.05 x 230 / 0.35 = 690 A at the board, below the
-# table's first point, where the let-through is held at 18 000 A2s (I2t / I^2 = 37.8 ms, inside
-# the instantaneous region); S = sqrt(18 000) / 115 = 1.167 mm2 <= 1.5 mm2: passes, and the
-# largest earth fault still governs the protective conductor.
-def test_protective_conductor_passes_at_a_modest_earth_fault() -> None:
+# Same sources, hand-worked: in TN-C-S the PEN conductor makes the earth loop at the origin the
+# line-neutral loop, so a declared 5.5 kA fault level bounds the earth fault as well as a
+# declared Ze 0.35 ohm does, and the larger current governs: 5.5 kA, not 1.05 x 230 / 0.35 =
+# 690 A. log-log between 4.5 kA (32 000) and 6 kA (45 000 A2s): I2t = 32 000 x (5500 /
+# 4500)^1.18508 = 40 591 A2s; S = sqrt(40 591) / 115 = 1.752 mm2 > 1.5 mm2: fails.
+def test_declared_fault_level_bounds_the_earth_fault_in_tn() -> None:
     r = fault_energy(board_study(0.35))
+    assert not r.ok
+    assert r.details["current_a"] == pytest.approx(5500.0, rel=1e-9)
+    assert r.value == pytest.approx(math.sqrt(class_3_b32_i2t(5500.0)) / 115.0, rel=1e-3)
+    assert r.value == pytest.approx(1.752, abs=0.001)
+
+
+# Same sources, hand-worked: in TT the earth path is Ze's alone: Ze 0.35 ohm gives 1.05 x 230 /
+# 0.35 = 690 A at the board, below the table's first point, where the let-through is held at
+# 18 000 A2s (I2t / I^2 = 37.8 ms, inside the instantaneous region); S = sqrt(18 000) / 115 =
+# 1.167 mm2 <= 1.5 mm2: passes, and the largest earth fault still governs the protective
+# conductor.
+def test_protective_conductor_passes_at_a_modest_earth_fault() -> None:
+    r = fault_energy(board_study(0.35, earthing="TT"))
     assert r.ok
     assert r.value == pytest.approx(math.sqrt(18_000.0) / 115.0, rel=1e-3)
     assert r.details["governing_case"] == "maximum earth fault at the board"

@@ -232,9 +232,10 @@ def test_from_ze_only() -> None:
 # X1 + X2 = 2 x 0.08 x 20 = 3.2 mohm. Loop 0.33209 + j0.25069, |Z| = 0.41608 ohm: the board
 # below it sees 1.05 x 230 / 0.41608 = 580.41 A. The minimum there (hot, Cmin, Ze added
 # arithmetically: 0.35 + |0.0846 x 1.1965 + j0.0032| = 0.45127 ohm, 0.95 x 230 / 0.45127 =
-# 484.2 A) stays below it.
+# 484.2 A) stays below it. The declared 0.5 kA fault level gives a larger loop (1.05 x 230 / 500
+# = 0.483 ohm), so Ze governs.
 def test_maximum_earth_fault_at_a_board_by_hand() -> None:
-    s = study({"pfc_a": 16000, "ze_ohm": 0.35, "phases": 1, "x_r": 1.0},
+    s = study({"pfc_a": 500, "ze_ohm": 0.35, "phases": 1, "x_r": 1.0},
               [circuit("sub", phases=1, length_m=20, csa_mm2=16, cpc_mm2=6),
                circuit("final", "sub", phases=1, device="B16")])
     levels = faults.compute(s)
@@ -243,6 +244,18 @@ def test_maximum_earth_fault_at_a_board_by_hand() -> None:
     assert final.ief_max_board_a == pytest.approx(580.41, rel=1e-4)
     assert final.ief_min_board_a == pytest.approx(484.2, rel=1e-3)
     assert levels.to_json()["nodes"][1]["ief_max_board_a"] == pytest.approx(580.41, rel=1e-4)
+
+
+# Convention (TN): a declared fault level bounds the earth fault as a declared Ze does, and the
+# smaller loop governs; with a PEN conductor (TN-C-S) the earth loop at the origin is the line-
+# neutral loop. Single-phase 16 kA and Ze 0.35 ohm: 1.05 x 230 / (1.05 x 230 / 16 000) = 16 kA at
+# the origin, not 690 A; in TT the earth path is Ze's alone: 690 A.
+def test_declared_fault_level_bounds_the_maximum_earth_fault_in_tn() -> None:
+    for earthing, expected in (("TN-C-S", 16000.0), ("TN-S", 16000.0), ("TT", 690.0)):
+        s = study({"pfc_a": 16000, "ze_ohm": 0.35, "phases": 1, "earthing": earthing},
+                  [circuit("a", phases=1, device="B16")])
+        node = faults.compute(s).by_circuit["a"]
+        assert node.ief_max_board_a == pytest.approx(expected, rel=1e-9), earthing
 
 
 # Convention, no Ze given (transformer, IEC 60909-0 clause 6.3 with K_T): the source's earth loop
