@@ -106,7 +106,9 @@ class Selectivity:
     note : str
         A short reason a person reads (e.g. "limited by the upstream instantaneous pickup").
     time_s : float or None
-        Time at which the edges meet [s] (for total: U's time where the edges come closest).
+        Time at which the edges meet [s] (for total: U's time where the edges come closest). For
+        a limit set by the upstream's instantaneous release it is the downstream device's time
+        at that current, which may be below ``ENERGY_REGION_S`` although the pickup decided.
     curves_limit_a : float or None
         The limit the curves alone give [A] when a tested limit overrode them (``None``: total).
     """
