@@ -53,7 +53,7 @@ from typing import Any
 import numpy as np
 
 from coordination.devices import device_band, freeze
-from coordination.engine import ADJUSTABLE_FAMILIES
+from coordination.engine import ADJUSTABLE_FAMILIES, EQUAL_RTOL
 from coordination.model import SUPPLY_ID, Study
 from curves.band import ENERGY_REGION_S, TIME_CEILING_S, TIME_FLOOR_S, Band
 from curves.errors import InputError
@@ -83,6 +83,10 @@ ADJUSTABLE = tuple(sorted(ADJUSTABLE_FAMILIES))
 #: Points on the common current grid of the vectorised selectivity screen.
 GRID_POINTS = 480
 
+#: Relative offset of the grid point just below each required current (the screen tests
+#: strictly below a requirement, see :func:`_short_of`).
+SCREEN_EDGE = 1e-6
+
 #: Groups up to this size are decided candidate by candidate (no screen).
 SMALL_GROUP = 4
 #: Exact failures kept per settings group for the explanation.
@@ -93,6 +97,16 @@ MAX_CONFIRM = 200
 
 #: Runs of like failures named in the explanation when nothing fits.
 MAX_SEGMENTS = 4
+
+#: Where the downstream device operates within this time at the limit current [s], the bands
+#: bound it only as "within 0.1 s" (IEC 60898-1 instantaneous region, the short-circuit
+#: regions of IEC 60947-2), and a tested limit from the makers (IEC 60947-2 Annex A) can show
+#: more; a crossing at longer times is one of time-current curves, which a test does not move.
+TESTABLE_S = 0.1
+
+#: Screened settings of one grid confirmed exactly at most in a remedy's search (a remedy names
+#: a device that then meets every requirement; it need not be the very smallest).
+REMEDY_CONFIRM = 12
 
 #: The order in which requirements are tried; the first one a candidate fails is its reason.
 STAGES = ("load", "overload", "breaking-capacity", "disconnection", "fault-energy",
@@ -583,6 +597,10 @@ class _Problem:
     energy_limits: list[tuple[float, float]] = field(default_factory=list)
     explain_budget: int = 1 << 30  # settings grids whose failure is explained when none passes
     testable_below: bool = False  # pairs below that only a test could decide count as met
+    testable_above: bool = False  # pairs above that only a test could decide count as met
+    max_confirm: int = MAX_CONFIRM  # screened settings of one grid confirmed exactly at most
+    # the need of the devices below only where a tested limit could not help (see TESTABLE_S)
+    need_untestable: np.ndarray | None = None
 
 
 def _pair_settings(study: Study, downstream_id: str) -> tuple[float, float, float | None]:
@@ -592,6 +610,19 @@ def _pair_settings(study: Study, downstream_id: str) -> tuple[float, float, floa
     return float(margin), float(interval), c.selective_to_a
 
 
+
+
+def _short_of(current_a: np.ndarray, required_a: float) -> np.ndarray:
+    """The currents the screen tests a requirement at: strictly below ``required_a`` by more
+    than the engine's tolerance [A].
+
+    The engine meets a requirement with a limit equal to it (``limit >= required (1 -
+    EQUAL_RTOL)``), and a limit set by an instantaneous pickup equals that pickup; so a
+    requirement equal to an upstream pickup is met although the upstream withstands nothing at
+    the required current itself. Testing the required current would refuse such a device; the
+    screen only tests where a failure makes the engine's limit short of the requirement.
+    """
+    return np.asarray(current_a) < required_a * (1 - EQUAL_RTOL)
 
 
 def _clamped_lower(band: Band, grid: np.ndarray) -> np.ndarray:
@@ -670,18 +701,26 @@ def _problem(study: Study, levels: Any, circuit_id: str, family: str | None,
     lows = [p.window_a[0] for p in below] + [max(1.0, (circuit.load_a or 1.0))]
     highs = [p.window_a[1] for p in below] + [ik_board, 10.0]
     grid = np.geomspace(max(min(lows) * 0.9, 0.5), max(highs), GRID_POINTS)
-    extra = [p.window_a[0] for p in below] + [p.required_a for p in below] + [required_c]
-    grid = np.unique(np.concatenate([grid, np.asarray(extra, dtype=float)]))
+    tops = np.asarray([p.required_a for p in below] + [required_c], dtype=float)
+    extra = np.concatenate([[p.window_a[0] for p in below], tops, tops * (1 - SCREEN_EDGE)])
+    grid = np.unique(np.concatenate([grid, extra]))
 
     need = np.full((2, grid.size), -np.inf)
+    need_untestable = need.copy()
     for p in below:
-        inside = (grid >= p.window_a[0]) & (grid <= p.required_a)
+        inside = (grid >= p.window_a[0]) & _short_of(grid, p.required_a)
         if p.tested_limit_a is not None:  # applies to the present device only: lenient here
             continue
         t_max = np.asarray(p.band.t_max(grid), dtype=float)
+        # where the device below may take longer than TESTABLE_S a crossing is one of
+        # time-current curves (upper edges fall with the current, so a crossing at or below
+        # such a current is too), which no tested limit moves
+        untestable = inside & (t_max > TESTABLE_S * (1 + 1e-9))
         for row, adjustable in enumerate((False, True)):
             n = _need_of(t_max, p.margin, p.interval_s, adjustable)
             need[row] = np.where(inside, np.maximum(need[row], n), need[row])
+            need_untestable[row] = np.where(untestable, np.maximum(need_untestable[row], n),
+                                            need_untestable[row])
     above_tmin = np.array([_clamped_lower(p.band, grid) for p in above]).reshape(len(above),
                                                                                 grid.size)
     above_adj = np.array([p.band.family in ADJUSTABLE for p in above], dtype=bool)
@@ -690,7 +729,7 @@ def _problem(study: Study, levels: Any, circuit_id: str, family: str | None,
                        float(iz) if iz is not None else None, ik_board, ik_break, below,
                        above, grid, need, above_tmin, above_adj,
                        below_names={p.other: p.band.name for p in below},
-                       skip_above=skip_above)
+                       skip_above=skip_above, need_untestable=need_untestable)
     return problem, current
 
 
@@ -756,12 +795,14 @@ def screen(problem: _Problem, bands: Sequence[Band]) -> np.ndarray:
         t_max = np.array([np.asarray(b.t_max(grid), dtype=float) for b in bands])
         lo = np.array([b.pickup_min_a for b in bands])
         p0 = problem.above[0]
-        inside = (grid[None, :] >= lo[:, None]) & (grid[None, :] <= p0.required_a)
+        inside = (grid[None, :] >= lo[:, None]) & _short_of(grid, p0.required_a)[None, :]
         for k, p in enumerate(problem.above):
             if p.tested_limit_a is not None:
                 continue
             need = _need_of(t_max, p.margin, p.interval_s, bool(problem.above_adjustable[k]))
             bad = inside & (problem.above_tmin[k][None, :] < need * (1 - 1e-6))
+            if problem.testable_above:  # a remedy's search: only where a test cannot decide
+                bad &= t_max > TESTABLE_S * (1 + 1e-9)
             fail = np.any(bad, axis=1) & (out == 0)
             out[fail] = 2
     return out
@@ -836,6 +877,8 @@ def _exact_failure(problem: _Problem, cand: Candidate) -> Failure | None:
     for p in problem.above:
         sel = _pair_above(band, p, same)
         if not _pair_ok(sel, p.required_a):
+            if problem.testable_above and _testable(sel, band):
+                continue  # a remedy's search: a tested limit is assumed for this pair
             return _selectivity_failure("selectivity-above", p, sel, p.band)
     return None
 
@@ -878,12 +921,20 @@ def _pair_above(band: Band, p: _Pair, same: bool) -> Any:
 def _selectivity_failure(stage: str, p: _Pair, sel: Any, upstream: Band) -> Failure:
     word = "with" if stage == "selectivity-below" else "under"
     limit = None if sel.verdict == "none" or sel.limit_a is None else float(sel.limit_a)
-    inst = upstream.instantaneous_a
-    instantaneous = (sel.decided_by != "tested" and inst is not None and limit is not None
-                     and limit <= float(inst) * (1 + 1e-8))
+    instantaneous = _at_instantaneous(sel, upstream)
     return Failure(stage, f"selectivity {word} {p.other!r} ({p.band.name}) up to "
                           f"{p.required_a / 1000:.3g} kA: {_limit_text(sel)}", other=p.other,
                    limit_a=limit, required_a=p.required_a, instantaneous=instantaneous)
+
+
+def _at_instantaneous(sel: Any, upstream: Band) -> bool:
+    """The engine's limit is the upstream device's instantaneous pickup (not a crossing of the
+    bands below it, which a faster device below could lift)."""
+    inst = upstream.instantaneous_a
+    if sel.decided_by == "tested" or sel.limit_a is None or inst is None:
+        return False
+    return "instantaneous pickup" in (sel.note or "") or math.isclose(
+        float(sel.limit_a), float(inst), rel_tol=1e-8)
 
 
 def substitute(study: Study, circuit_id: str, spec: str | Mapping[str, Any]) -> Study:
@@ -957,11 +1008,12 @@ def screen_grid(problem: _Problem, grid: SettingsGrid) -> np.ndarray:
             for k, p in enumerate(problem.above):
                 if p.tested_limit_a is not None:
                     continue
-                inside = (currents >= pickup) & (currents <= p.required_a)
+                inside = (currents >= pickup) & _short_of(currents, p.required_a)
                 t_up = problem.above_tmin[k][inside] * (1 + 1e-6)
                 adjustable = bool(problem.above_adjustable[k])
-                lt, st, inst = (_need_of(part[..., inside], p.margin, p.interval_s, adjustable)
-                                <= t_up for part in upper)
+                lt, st, inst = ((_need_of(part[..., inside], p.margin, p.interval_s, adjustable)
+                                 <= t_up) | (problem.testable_above and part[..., inside]
+                                             <= TESTABLE_S * (1 + 1e-9)) for part in upper)
                 # only the currents where some setting may fail matter (exactly the same test)
                 keep = ~(lt.all(axis=(0, 1)) | st.all(axis=(0, 1)) | inst.all(axis=0))
                 lt, st, inst = lt[..., keep], st[..., keep], inst[..., keep]
@@ -1037,8 +1089,12 @@ def _search(problem: _Problem, groups: list[Any]) -> tuple[
         for i in dict.fromkeys((keep[0], keep[-1])):  # why the least and most capable fail
             if i not in passing:
                 failure = exact_failure(problem, group[i])
-                if failure is not None:
-                    failures.append((group[i], failure))
+                if failure is None:  # the screen refused what the exact checks accept (it
+                    # must not; see _short_of): the lowest candidate they accept wins
+                    j = next(j for j in keep if j == i or (
+                        j < i and j not in passing and exact_failure(problem, group[j]) is None))
+                    return group[j], bands[j], _binding(problem, group, j, previous), failures
+                failures.append((group[i], failure))
         previous = (group[-1], None)
     return None, None, None, failures
 
@@ -1059,27 +1115,35 @@ def _search_grid(problem: _Problem, grid: SettingsGrid,
         return None, None, (last, cheap)
     mask = screen_grid(problem, grid)
     passing = np.argwhere(mask)
-    for n, index in enumerate(passing[:MAX_CONFIRM]):
+
+    def won(index: np.ndarray) -> tuple[Any, Any, Any]:
         cand = grid.candidate(index)
-        failure = exact_failure(problem, cand)
+        position = int(np.flatnonzero((valid == index).all(axis=1))[0])
+        if position > 0:
+            binding = exact_failure(problem, grid.candidate(valid[position - 1]))
+        elif previous is not None:
+            binding = _named_failure(problem, previous)
+        else:
+            binding = None
+        return cand, device_band(cand.spec, problem.basis), binding
+
+    for n, index in enumerate(passing[:problem.max_confirm]):
+        failure = exact_failure(problem, grid.candidate(index))
         if failure is None:
-            position = int(np.flatnonzero((valid == index).all(axis=1))[0])
-            if position > 0:
-                binding = exact_failure(problem, grid.candidate(valid[position - 1]))
-            elif previous is not None:
-                binding = previous[1] or exact_failure(problem, previous[0])
-            else:
-                binding = None
-            return cand, device_band(cand.spec, problem.basis), binding
+            return won(index)
         if n < MAX_RECORDED:
-            failures.append((cand, failure))
+            failures.append((grid.candidate(index), failure))
     if problem.explain_budget <= 0:  # enough grids explained (a remedy's search)
         return None, None, (last, None)
     problem.explain_budget -= 1
-    for cand in (first, last):  # why the least and the most capable settings fail
-        failure = exact_failure(problem, cand)
-        if failure is not None:
-            failures.append((cand, failure))
+    for k, cand in ((0, first), (len(valid) - 1, last)):  # why the least and the most capable
+        failure = exact_failure(problem, cand)  # settings fail
+        if failure is None:  # the screen refused what the exact checks accept (it must not;
+            # see _short_of): the lowest refused setting they accept wins
+            refused = [v for v in valid[:k] if not mask[tuple(v)]][:MAX_CONFIRM]
+            return won(next((v for v in refused if exact_failure(
+                problem, grid.candidate(v)) is None), valid[k]))
+        failures.append((cand, failure))
     return None, None, (last, failures[-1][1] if failures else None)
 
 
@@ -1090,8 +1154,17 @@ def _binding(problem: _Problem, group: list[Candidate], index: int,
         return exact_failure(problem, group[index - 1])
     if previous is None:
         return None
+    return _named_failure(problem, previous)
+
+
+def _named_failure(problem: _Problem, previous: tuple[Candidate, Failure | None]) -> Failure | None:
+    """The failure of a candidate already met (decided now where it was not), with its name."""
     cand, failure = previous
-    return failure if failure is not None else exact_failure(problem, cand)
+    if failure is None:
+        return exact_failure(problem, cand)
+    if failure.device:
+        return failure
+    return dataclasses.replace(failure, device=device_band(cand.spec, problem.basis).name)
 
 
 #: Runs of like failures named in a remedy that would not be enough.
@@ -1197,8 +1270,11 @@ def _groups_where(problem: _Problem, groups: list[Any], stages: set[str | None])
 
 def _search_variant(problem: _Problem, variant: _Problem, groups: list[Any]) -> tuple[
         Candidate | None, Band | None, list[tuple[Candidate, Failure]]]:
-    """The search of a remedy: the same search on a changed problem."""
+    """The search of a remedy: the same search on a changed problem, with fewer exact
+    confirmations per settings grid and fewer grids explained."""
     variant.searched = 0
+    variant.max_confirm = min(variant.max_confirm, REMEDY_CONFIRM)
+    variant.explain_budget = min(variant.explain_budget, REMEDY_EXPLAINED_GRIDS)
     winner, band, _, failures = _search(variant, groups)
     problem.searched += variant.searched
     return winner, band, failures
@@ -1270,13 +1346,6 @@ def _remedy_relaxed(problem: _Problem, groups: list[Any], stage: str,
 #: Pairs named one by one in a remedy (the rest are counted).
 REMEDY_PAIRS = 4
 
-#: Where the downstream device operates within this time at the limit current [s], the bands
-#: bound it only as "within 0.1 s" (IEC 60898-1 instantaneous region, the short-circuit
-#: regions of IEC 60947-2), and a tested limit from the makers (IEC 60947-2 Annex A) can show
-#: more; a crossing at longer times is one of time-current curves, which a test does not move.
-TESTABLE_S = 0.1
-
-
 def _pairs_text(items: Sequence[tuple[_Pair, Any]], what: str) -> str:
     parts = []
     for p, sel in items[:REMEDY_PAIRS]:
@@ -1330,8 +1399,9 @@ def _remedies_below(problem: _Problem, groups: list[Any],
 def _remedy_tested(problem: _Problem, tried: list[Any]) -> tuple[bool, str]:
     """Tested limits: the smallest candidate whose failing pairs below all fail where only a
     test can tell (:data:`TESTABLE_S`), confirmed with those limits given."""
-    variant = dataclasses.replace(problem, testable_below=True,
-                                  need=np.full_like(problem.need, -np.inf))
+    variant = dataclasses.replace(problem, testable_below=True, need=problem.need_untestable
+                                  if problem.need_untestable is not None
+                                  else np.full_like(problem.need, -np.inf))
     winner, band, failures = _search_variant(problem, variant, tried)
     if winner is None or band is None:
         return False, ("a tested limit alone would not be enough: where the bands cross in "
@@ -1425,9 +1495,7 @@ def _remedy_let_through(problem: _Problem, groups: list[Any], band: Band,
                         failing: list[tuple[_Pair, Any]]) -> tuple[bool, str] | None:
     """Downstream devices with a lower let-through, only where the limit is not the
     candidate's own instantaneous release (which no downstream device can lift)."""
-    if band.instantaneous_a is not None and any(
-            sel.limit_a is not None and sel.limit_a <= band.instantaneous_a * (1 + 1e-8)
-            for _, sel in failing):
+    if any(_at_instantaneous(sel, band) for _, sel in failing):
         return None
     swaps = {}
     for p, _ in failing:
@@ -1471,13 +1539,79 @@ def _remedy_family(problem: _Problem, family: str, current: Band) -> tuple[bool,
     return True, f"{label}: {band.name} would do"
 
 
-def _remedy_above(problem: _Problem, groups: list[Any]) -> tuple[bool, str] | None:
-    """A larger device above: the smallest candidate that passes with the devices above set
-    aside, then the nearest failing one chosen over it."""
+def _remedies_above(problem: _Problem, groups: list[Any]) -> list[tuple[bool, str] | None]:
+    """Remedies for selectivity with the devices above: a tested limit or a partial requirement
+    on this circuit, a larger device above; each checked by the search."""
     tried = _groups_where(problem, groups, {None})
     variant = dataclasses.replace(problem, above=[], above_tmin=problem.above_tmin[:0],
                                   above_adjustable=problem.above_adjustable[:0])
+    aside = _search_variant(problem, variant, tried)
+    return [_remedy_tested_above(problem, tried), _remedy_partial_above(problem, aside),
+            _remedy_above(problem, aside)]
+
+
+def _failing_above(problem: _Problem, winner: Candidate, band: Band) -> list[tuple[_Pair, Any]]:
+    same = freeze(winner.spec) == freeze(problem.study.by_id[problem.circuit_id].device)
+    return [(p, sel) for p in problem.above
+            if not _pair_ok(sel := _pair_above(band, p, same), p.required_a)]
+
+
+def _remedy_tested_above(problem: _Problem, tried: list[Any]) -> tuple[bool, str] | None:
+    """Tested limits with the devices above: the smallest candidate whose failing pairs above
+    all fail where only a test can tell (:data:`TESTABLE_S`), confirmed with them given."""
+    variant = dataclasses.replace(problem, testable_above=True)
     winner, band, failures = _search_variant(problem, variant, tried)
+    if winner is None or band is None:
+        return False, ("a tested limit with the devices above alone would not be enough: " +
+                       _summary(problem, failures, limit=REMEDY_SEGMENTS, still=True))
+    failing = _failing_above(problem, winner, band)
+    if not failing:
+        return None
+    cid = problem.circuit_id
+    study = substitute(problem.study, cid, winner.spec)
+    limits = {**study.by_id[cid].tested_limits_a,
+              **{p.other: float(math.ceil(p.required_a)) for p, _ in failing}}
+    study = _with_circuits(study, {cid: {"tested_limits_a": limits}})
+    failure = exact_failure(_rebuilt(problem, study)[0], winner)
+    if failure is not None:
+        return False, (f"a tested limit with the devices above alone would not be enough: "
+                       f"{band.name} still fails {failure.text}")
+    ids = ", ".join(f"{p.other!r} = ..." for p, _ in failing)
+    return True, (f"a tested limit from the makers' tables: {band.name} would do if tested "
+                  f"selective under {_pairs_text(failing, 'the bands give')}; give "
+                  f"tested_limits_a = {{{ids}}} on {cid!r}")
+
+
+def _remedy_partial_above(problem: _Problem, aside: tuple[Any, Any, Any]) -> tuple[
+        bool, str] | None:
+    """A partial requirement on this circuit: the limit the smallest candidate that meets every
+    other requirement reaches under the devices above."""
+    winner, band, _ = aside
+    if winner is None or band is None:
+        return None  # said by the larger device above
+    failing = _failing_above(problem, winner, band)
+    if not failing:
+        return None
+    none = [p for p, sel in failing if sel.verdict == "none" or sel.limit_a is None]
+    if none:
+        names = ", ".join(f"{p.other!r} ({p.band.name})" for p in none[:REMEDY_PAIRS])
+        return False, (f"a partial requirement alone would not be enough: {band.name}, the "
+                       f"smallest that meets every other requirement, is not selective under "
+                       f"{names} even in overload")
+    limit = float(math.floor(min(float(sel.limit_a) for _, sel in failing)))
+    study = _with_circuits(problem.study, {problem.circuit_id: {"selective_to_a": limit}})
+    failure = exact_failure(_rebuilt(problem, study)[0], winner)
+    if failure is not None:
+        return False, (f"a partial requirement alone would not be enough: {band.name} still "
+                       f"fails {failure.text}")
+    return True, (f"a partial requirement, if total selectivity is not needed: {band.name} "
+                  f"would do with selective_to_a = {limit:g} on {problem.circuit_id!r}")
+
+
+def _remedy_above(problem: _Problem, aside: tuple[Any, Any, Any]) -> tuple[bool, str] | None:
+    """A larger device above: the smallest candidate that passes with the devices above set
+    aside (``aside``: that search), then the nearest failing one chosen over it."""
+    winner, band, failures = aside
     if winner is None or band is None:
         return False, ("a larger device above alone would not be enough: without selectivity "
                        "above, " + _summary(problem, failures, limit=REMEDY_SEGMENTS,
@@ -1553,7 +1687,8 @@ def _explain(problem: _Problem, failures: list[tuple[Candidate, Failure]], group
             if other != family:
                 add(_remedy_family(problem, other, current))
     if "selectivity-above" in stages:
-        add(_remedy_above(problem, groups))
+        for result in _remedies_above(problem, groups):
+            add(result)
     return reason, tuple(helps), tuple(short)
 
 

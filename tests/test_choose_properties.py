@@ -5,7 +5,11 @@ Every installation here is invented (drawn at random by hypothesis).
 
 from __future__ import annotations
 
+import dataclasses
 import json
+import math
+import re
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -282,6 +286,128 @@ def test_screen_is_never_stricter_than_the_engine():
     assert_passes_check(choose.substitute(s, "feeder", choice.device), "feeder")
 
 
+def edge_study(main: str, feeder: str, feeder_load_a: float, feeder_iz_a: float,
+               feeder_selective_to_a: float | None, final_selective_to_a: float | None) -> str:
+    """An invented board: a main breaker, a feeder breaker, and a B16 final below it."""
+    def opt(key: str, value: float | None) -> str:
+        return "" if value is None else f"{key} = {value}\n"
+
+    return f"""
+[study]
+title = "Invented feeder"
+basis = "typical"
+
+[supply]
+u0_v = 230
+phases = 3
+earthing = "TN-S"
+pfc_a = 20000
+ze_ohm = 0.05
+
+[[circuit]]
+id = "main"
+from = "supply"
+device = {main}
+load_a = 200
+[circuit.cable]
+length_m = 5
+csa_mm2 = 120
+iz_a = 300
+
+[[circuit]]
+id = "feeder"
+from = "main"
+device = {feeder}
+load_a = {feeder_load_a}
+{opt("selective_to_a", feeder_selective_to_a)}[circuit.cable]
+length_m = 20
+csa_mm2 = 95
+cpc_mm2 = 50
+insulation = "xlpe"
+iz_a = {feeder_iz_a}
+
+[[circuit]]
+id = "final"
+from = "feeder"
+device = "B16"
+load_a = 10
+phases = 1
+{opt("selective_to_a", final_selective_to_a)}[circuit.cable]
+length_m = 10
+csa_mm2 = 2.5
+iz_a = 24
+"""
+
+
+def assert_screen_refuses_only_failures(problem, groups) -> int:
+    """Every thermal-magnetic candidate the screen refuses fails the exact checks; returns how
+    many the exact checks accept."""
+    accepted = 0
+    for group in groups:
+        bands = [device_band(c.spec, problem.basis) for c in group]
+        if choose._cheap_failure(problem, group[0], bands[0]) is not None:
+            continue
+        codes = choose.screen(problem, bands)
+        for cand, code in zip(group, codes, strict=True):
+            exact = choose.exact_failure(problem, cand)
+            accepted += exact is None
+            assert code == 0 or exact is not None, (cand.spec, code)
+    return accepted
+
+
+TM = '{{family = "tm", In_a = {In}, Ir_x = {Ir_x}, Ii_x = {Ii_x}, icu_a = 36000}}'
+
+
+# The engine meets a requirement with a limit equal to it, and a limit set by an upstream
+# instantaneous pickup equals that pickup (common practice: at equal values the pair is
+# selective). Thermal-magnetic magnetic pickup +/-20 % (IEC 60947-2 7.2.1.2.4 a), REFERENCE.md
+# from memory), of which the typical basis takes the middle half: Ii 5 x 200 A = 1000 A picks up
+# from 0.9 x 1000 = 900 A, and Ii 10 x 250 A = 2500 A from 2250 A. Below: the final's
+# requirement of 900 A equals the pickup of TM200 Ii=5In (Ib 170 A: on the grid 0.85 x 200 A is
+# the smallest Ir >= 170 A; Ii 5 is the lowest setting), which then meets it. Above: the feeder's
+# requirement of 2250 A equals the main breaker's pickup (the first case asks only 3000 A under
+# TM400 Ii=10In, whose pickup is 3600 A). The screen must refuse neither.
+@pytest.mark.parametrize(("feeder_selective_to_a", "final_selective_to_a", "load_a",
+                          "expected"), [
+    (3000.0, 900.0, 170.0, (200, 0.85, 5)),
+    (2250.0, 250.0, 60.0, None),
+])
+def test_screen_accepts_a_requirement_equal_to_an_instantaneous_pickup(
+        feeder_selective_to_a, final_selective_to_a, load_a, expected):
+    main = TM.format(In=400, Ir_x=0.8, Ii_x=10) if expected else TM.format(In=250, Ir_x=1,
+                                                                               Ii_x=10)
+    s = study.loads(edge_study(main, TM.format(In=250, Ir_x=0.8, Ii_x=10), load_a, 258.0,
+                               feeder_selective_to_a, final_selective_to_a))
+    problem, current = choose._problem(s, faults.compute(s), "feeder", "tm")
+    groups = choose.candidate_groups("tm", current, problem.ik_break_a)
+    assert assert_screen_refuses_only_failures(problem, groups) > 0
+    choice = choose.choose(s, "feeder", family="tm")
+    assert choice.found, choice.reason
+    assert_passes_check(choose.substitute(s, "feeder", choice.device), "feeder")
+    if expected is not None:
+        spec = dict(choice.device)
+        assert (spec["In_a"], spec["Ir_x"], spec["Ii_x"]) == expected
+        assert choice.setting_bindings["Ii_x"] == "the lowest setting"
+
+
+# common practice: the screen is lenient by design, and where it refuses a setting the exact
+# checks accept (it must not), the search still takes that setting rather than dropping it
+def test_a_setting_the_screen_wrongly_refuses_is_still_taken(monkeypatch):
+    s = study.loads(edge_study(TM.format(In=400, Ir_x=0.8, Ii_x=10),
+                               TM.format(In=250, Ir_x=0.8, Ii_x=10), 170.0, 258.0, 3000.0,
+                               900.0))
+    expected = choose.choose(s, "feeder", family="tm")
+    assert expected.found
+
+    def refuse_all(problem, bands):
+        return np.ones(len(bands), dtype=np.int8)
+
+    monkeypatch.setattr(choose, "screen", refuse_all)
+    choice = choose.choose(s, "feeder", family="tm")
+    assert choice.found, choice.reason
+    assert choice.name == expected.name
+
+
 # common practice: a fault-energy case one setting failed (I2t = I^2 t_max against k2 S2 of the
 # conductor, IEC 60364-4-43 434.5.2) is the circuit's, so the screen may rule out every other
 # setting that lets through more there; it must never rule out one the checks would accept
@@ -412,3 +538,31 @@ def test_cli_choose(tmp_path):
     assert "sub-main" in result.stdout
     result = runner.invoke(app, ["choose", str(path), "--circuit", "sub-main", "--family", "Q"])
     assert result.exit_code == 2
+
+
+def with_circuit(s, circuit_id: str, **changes):
+    """A copy of a study with some fields of one circuit replaced."""
+    circuits = tuple(dataclasses.replace(c, **changes) if c.id == circuit_id else c
+                     for c in s.circuits)
+    return dataclasses.replace(s, circuits=circuits)
+
+
+# common practice: where a final circuit's device fails selectivity under the device above, a
+# tested limit (IEC 60947-2 Annex A) or a partial requirement on that circuit is offered only
+# when, given as said, the named device then passes the check (invented example shop)
+@pytest.mark.parametrize("circuit", ["display-chillers", "sockets-sales"])
+def test_remedies_for_the_pair_above_pass_check(circuit):
+    s = study.load(Path(__file__).resolve().parents[1] / "examples" / "small-shop.toml")
+    choice = choose.choose(s, circuit)
+    assert not choice.found
+    partial = [x for x in choice.suggestions if "selective_to_a" in x]
+    tested = [x for x in choice.suggestions if "tested_limits_a" in x]
+    assert partial and tested, choice.suggestions
+    name, limit = re.search(r"(\S+) would do with selective_to_a = ([\d.]+) on",
+                            partial[0]).groups()
+    assert_passes_check(with_circuit(s, circuit, device=name, selective_to_a=float(limit)), circuit)
+    name = re.search(r"tables: (\S+) would do if tested selective under 'main-fuse'",
+                     tested[0]).group(1)
+    top = math.ceil(faults.compute(s).by_circuit[circuit].ik_max_a)
+    assert_passes_check(with_circuit(s, circuit, device=name,
+                                     tested_limits_a={"main-fuse": float(top)}), circuit)
