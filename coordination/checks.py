@@ -742,10 +742,17 @@ def _smaller_device(band: Band, ib_a: float | None, iz_a: float) -> str | None:
     """A smaller device of the band's family that meets every overload condition with this
     cable (the largest such rating), or a lower setting for adjustable devices; None if none."""
     series = _series(band)
-    if series is None:  # adjustable: I2 scales with the setting
-        ratio = float(band.pickup_max_a) / _in_a(band)
+    if series is None:
+        if band.family not in ("breaker-tm", "breaker-electronic"):
+            return None  # a datasheet device has no setting and no series here
+        from curves.breaker import ELECTRONIC_IR_FRACTIONS, TM_IR_FRACTIONS
+
+        fractions = TM_IR_FRACTIONS if band.family == "breaker-tm" else ELECTRONIC_IR_FRACTIONS
+        lowest = min(fractions) * float(band.rating_a)  # the unit's lowest Ir [A]
+        ratio = float(band.pickup_max_a) / _in_a(band)  # I2 scales with the setting
         highest = min(iz_a, 1.45 * iz_a / ratio)
-        if highest >= _in_a(band) or (ib_a is not None and ib_a > highest):
+        if (highest >= _in_a(band) or highest < lowest
+                or (ib_a is not None and ib_a > highest)):
             return None
         return f"a lower setting, Ir <= {math.floor(highest * 10.0 + 1e-9) / 10.0:g} A"
     for rating in sorted((r for r in series if r < _in_a(band)), reverse=True):
@@ -850,16 +857,18 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
     ik_min = _get(node, "ik_min_end_a")
     if ik_min is not None and ik_min > 0:
         cases.append(("minimum fault at the far end", "line", ik_min, s_line, k_line))
+    rcd = _rcd_needed(study, cid, band, node, edges)
     ief = _get(node, "ief_min_a")
     if ief is not None and ief > 0:
-        if ik_min is None or ief < ik_min:  # the smallest fault in the line conductors
+        # the smallest fault in the line conductors (where only an RCD can clear it, the
+        # protective conductor's case below says so for both)
+        if (ik_min is None or ief < ik_min) and not rcd:
             cases.append(("minimum earth fault at the far end", "line", ief, s_line, k_line))
         cases.append(("minimum earth fault at the far end", "protective", ief, s_cpc, k_cpc))
     if ief_max is not None:
         # a current-limiting device lets the most energy through at the largest earth fault
         cases.append(("maximum earth fault at the board", "protective", ief_max, one_cpc, k_cpc))
 
-    rcd = _rcd_needed(study, cid, band, node, edges)
     rows = []
     problems = []
     for what, conductor, i, s, k in cases:

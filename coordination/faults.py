@@ -24,10 +24,10 @@ Conventions (also carried in :attr:`FaultLevels.convention` and printed with eve
   loops are the same; a separate protective conductor is no better: common practice). A circuit
   without a cable adds nothing (the largest current). Never below ``ief_min_board_a``. This is
   the fault at which a current-limiting device (MCB, fuse in its energy region) lets the most
-  energy into the protective conductor. A declared Ze and a declared fault level are both
-  limits the real supply stays within, so in TN systems the smaller of Ze and the source's
-  line-neutral loop for maximum currents is taken (with a PEN conductor the two loops are one);
-  in TT the earth path is Ze's alone.
+  energy into the protective conductor. In TN a transformer's computed line-neutral loop is
+  taken (the earth loop includes it; a Ze below it cannot be); a declared Ze and a declared
+  fault level are both limits the real supply stays within, so the smaller of the two loops is
+  taken (with a PEN conductor they are one loop). In TT the earth path is Ze's alone.
 * **Source.** ``pfc_a`` is the line-neutral value of a single-phase supply and the three-phase
   symmetrical value of a three-phase one. A three-phase supply's line-neutral loop is
   ``pfc_ln_a``'s when given; else it is bounded: it lies between the phase impedance (the
@@ -289,6 +289,12 @@ def source_impedances(supply: Supply) -> Source:
                 f"{ze:g} ohm{three}; the real fault level may be higher (give pfc_a)")
     ze_given = supply.ze_ohm is not None
     ze_ohm = float(supply.ze_ohm) if ze_given else abs(z_loop_min)  # type: ignore[arg-type]
+    if (ze_given and t is not None and not str(supply.earthing).upper().startswith("TT")
+            and ze_ohm < abs(z_loop_min)):
+        # in TN the earth loop runs through the transformer, so Ze cannot be below its loop
+        text += (f"; Ze {ze_ohm:g} ohm given is below the transformer's own loop: taken as "
+                 f"{abs(z_loop_min):.4g} ohm")
+        ze_ohm = abs(z_loop_min)
     # the earth loop for maximum earth faults. A declared Ze and a declared fault level are
     # both limits the real supply stays within, so the largest earth fault takes the smaller
     # loop: in TN the source's line-neutral loop for maximum currents bounds it (with a PEN
@@ -299,12 +305,21 @@ def source_impedances(supply: Supply) -> Source:
     if ze_loop is None:
         z_earth_max, how = z_loop_max, ("the source's line-neutral loop for maximum currents "
                                         "(Ze not given: a conservative bound)")
-    elif tt or abs(ze_loop) <= abs(z_loop_max):
+    elif tt:
         z_earth_max, how = ze_loop, f"Ze (X/R {xr_source:g})"
+    elif t is not None:
+        # a transformer's loop is computed, not declared: the earth loop includes it, so no
+        # earth fault exceeds the line-neutral maximum there (a smaller Ze cannot be)
+        z_earth_max, how = z_loop_max, ("the transformer's line-neutral loop for maximum "
+                                        "currents (TN: the earth loop includes it)")
+    elif abs(ze_loop) <= abs(z_loop_max):
+        z_earth_max, how = ze_loop, f"Ze (X/R {xr_source:g}), smaller than the declared fault "
+        how += "level's loop"
     else:
-        z_earth_max, how = z_loop_max, ("the source's line-neutral loop for maximum currents, "
-                                        "smaller than Ze (TN: the declared fault level bounds "
-                                        "the earth fault too)")
+        z_earth_max, how = z_loop_max, ("the declared fault level's line-neutral loop, smaller "
+                                        "than Ze (TN: a declared Ze and a declared fault level "
+                                        "both bound the earth fault; the larger current is "
+                                        "taken)")
     text += "; Ze " + ("given" if ze_given else "= the source's line-neutral loop")
     text += "; maximum earth fault through " + how
     return Source(z_phase_max=z_ph_max, z_phase_min=z_ph_min, z_loop_max=z_loop_max,
@@ -437,7 +452,9 @@ def convention_text(supply: Supply) -> str:
         "Ief = c_min U0 / Zs; Ik min end is line-neutral (line-line beyond a cable without "
         "neutral). Maximum earth fault at each circuit's board: line to protective conductor, "
         f"c_max = {supply.c_max:g}, conductors at 20 degC, through "
-        + ("the smaller of Ze and the source's line-neutral loop (TN)"
+        + ("the transformer's line-neutral loop (TN)" if supply.transformer is not None
+           and not str(supply.earthing).upper().startswith("TT") else
+           "the smaller of Ze and the source's line-neutral loop (TN)"
            if supply.ze_ohm is not None and not str(supply.earthing).upper().startswith("TT")
            else "Ze" if supply.ze_ohm is not None else
            "the source's line-neutral loop (Ze not given: a conservative bound)")

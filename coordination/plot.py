@@ -6,8 +6,9 @@ crossover zones the engine found between a pair are hatched and marked with thei
 limit Is, and a zone too small to see is also boxed and tied to the current axis by a hatched
 strip; vertical markers show the maximum fault at the circuit's board, the minimum earth fault at
 its far end and its design current Ib; two falling lines show the adiabatic withstand
-``t = k^2 S^2 / I^2`` of the circuit's line conductors and protective conductors (all of them in
-parallel, each with the k of its own material and size, as the protection checks take them).
+``t = k^2 S^2 / I^2`` of the circuit's line conductor and protective conductor (one of several
+in parallel, which alone carries a fault just past the board, each with the k of its own
+material and size, as the protection checks take them there).
 
 Greyscale print: the band colours differ in lightness as well as hue, each band's edges have
 their own dash pattern, and the key shows each band as its fill with its edge pattern.
@@ -490,20 +491,22 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
         layout.lines.append(LineString(_points(ax, [current, current],
                                                [TIME_FLOOR_S, TIME_CEILING_S])))
 
-    # -- adiabatic withstand of the circuit's conductors, as the protection checks take them
+    # -- adiabatic withstand of the circuit's conductors, as the protection checks take them at
+    # the board, where the faults are largest: one conductor of several in parallel carries a
+    # fault just past the board (the checks take all of them only for far-end faults)
     cable: Cable | None = circuit.cable
     if cable is not None:
         sizes = checks.conductor_sizes(cable)
         line_count = max(int(cable.parallel or 1), 1)
         cpc_count = max(round(sizes.cpc_mm2 / sizes.cpc_each_mm2), 1) if sizes.cpc_each_mm2 else 1
         for key, s_mm2, k, count, what in (
-            ("line", sizes.line_mm2, sizes.k_line, line_count, "line conductor"),
-            ("cpc", sizes.cpc_mm2, sizes.k_cpc, cpc_count, "protective conductor"),
+            ("line", float(cable.csa_mm2), sizes.k_line, line_count, "line conductor"),
+            ("cpc", sizes.cpc_each_mm2, sizes.k_cpc, cpc_count, "protective conductor"),
         ):
             t_hi = min(ADIABATIC_LIMIT_S, TIME_CEILING_S)
             i_a = k * s_mm2 / math.sqrt(t_hi)
             i_b = k * s_mm2 / math.sqrt(TIME_FLOOR_S)
-            size = (f"{count} x {s_mm2 / count:g} = {s_mm2:g} mm\u00b2" if count > 1
+            size = (f"{s_mm2:g} mm\u00b2 (one of {count} in parallel)" if count > 1
                     else f"{s_mm2:g} mm\u00b2")
             label = f"{what} {size} withstand, k={k:g}: k\u00b2S\u00b2/I\u00b2"
             (line,) = ax.plot([i_a, i_b], [t_hi, TIME_FLOOR_S], zorder=4, gid=f"withstand:{key}",

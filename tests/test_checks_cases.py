@@ -255,6 +255,33 @@ def test_overload_in_above_iz_offers_a_smaller_device_that_carries_ib() -> None:
     assert r.details["smaller_device"] == "B25"
 
 
+# IEC 60364-4-43 433.1 with IEC 60947-2 (thermal setting 0.7..1.0 In, REFERENCE.md; I2 = 1.30 Ir):
+# a TM250 at Ir 0.8 In = 200 A on Iz 100 A would need Ir <= 100 A, below its lowest setting
+# 0.7 x 250 = 175 A, so no lower setting is offered; on Iz 180 A, Ir <= min(180, 1.45 x 180 /
+# 1.30) = 180 A >= 175 A: offered. Hand-worked.
+@pytest.mark.parametrize(("iz_a", "offered"), [(100.0, False), (180.0, True)])
+def test_overload_lower_setting_only_within_the_units_range(iz_a: float, offered: bool) -> None:
+    device = {"family": "tm", "In_a": 250, "Ir_x": 0.8, "Ii_x": 10, "icu_a": 36000}
+    cable = Cable(length_m=30, csa_mm2=95, cpc_mm2=50, iz_a=iz_a)
+    s = one_circuit(device, phases=3, cable=cable, final=False)
+    r = only(run_one(s, node(zs_ohm=0.05)), "overload")
+    assert not r.ok
+    assert ("a lower setting, Ir <= 180 A" in r.reason) is offered
+    assert ("smaller_device" in r.details) is offered
+
+
+# IEC 60364-4-41 411.5 (TT: only an RCD clears an earth fault this small, common practice): the
+# fault-energy reason speaks of the protective conductor and gives its size, not the line's.
+def test_tt_rcd_reason_is_about_the_protective_conductor() -> None:
+    cable = Cable(length_m=10, csa_mm2=6, cpc_mm2=2.5)
+    n = node(zs_ohm=21.0, ik_min_end_a=600.0)
+    r = only(run_one(one_circuit(earthing="TT", cable=cable), n), "fault-energy")
+    assert "protective conductor" in r.reason
+    assert r.limit == pytest.approx(2.5, rel=1e-12)
+    assert all(c["conductor"] == "protective" for c in r.details["cases"]
+               if "earth fault" in c["case"])
+
+
 # IEC 60364-4-43 433.1 with IEC 60269-1 (gG, In >= 16 A: I2 = 1.6 In, from memory), hand-worked:
 # gG32 with Ib 20 A on Iz 22 A: gG25 has In 25 > 22 A and gG20 I2 32 A > 1.45 x 22 = 31.9 A,
 # so no smaller fuse-link protects this cable while carrying Ib: only a larger cable is offered.

@@ -188,7 +188,10 @@ def broken_documents(draw) -> dict:
     doc = copy.deepcopy(BASE)
     rng = random.Random(draw(st.integers(0, 2**32 - 1)))
     for _ in range(draw(st.integers(1, 4))):
-        node, key = rng.choice(_paths(doc))
+        paths = _paths(doc)
+        if not paths:  # earlier mutations emptied the document
+            break
+        node, key = rng.choice(paths)
         action = rng.randrange(4)
         if action == 0 and isinstance(node, dict):
             node.pop(key, None)

@@ -267,7 +267,22 @@ def test_maximum_earth_fault_without_ze_is_bounded_by_the_line_neutral_value() -
                                                "x_r": 6.0}}, [circuit("incomer")])
     levels = faults.compute(s)
     assert levels.by_circuit["incomer"].ief_max_board_a == pytest.approx(26222, rel=1e-4)
-    assert "conservative bound" in levels.convention
+    assert "transformer's line-neutral loop" in levels.convention
+
+
+# Convention (TN, transformer): the earth loop includes the transformer, whose loop is computed,
+# so a given Ze below it (0.005 ohm would give 1.05 x 230 / 0.005 = 48 kA) cannot raise the
+# largest earth fault above the transformer's line-neutral maximum, 26 222 A (same hand value).
+def test_a_ze_below_the_transformer_loop_does_not_raise_the_largest_earth_fault() -> None:
+    s = study({"u0_v": U0_400, "ze_ohm": 0.005, "earthing": "TN-S",
+               "transformer": {"rating_kva": 1000, "impedance_pct": 6.0, "x_r": 6.0}},
+              [circuit("incomer")])
+    levels = faults.compute(s)
+    node = levels.by_circuit["incomer"]
+    assert node.ief_max_board_a == pytest.approx(26222, rel=1e-4)
+    # the minimum (c_min) cannot exceed it either: Ze is taken as the transformer's own loop
+    assert node.ief_min_board_a < node.ief_max_board_a
+    assert "below the transformer's own loop" in levels.source
 
 
 # Convention: never below the minimum earth fault at the same board. A single-phase supply given
