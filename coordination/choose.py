@@ -709,8 +709,9 @@ def _problem(study: Study, levels: Any, circuit_id: str, family: str | None,
     need_untestable = need.copy()
     for p in below:
         inside = (grid >= p.window_a[0]) & _short_of(grid, p.required_a)
-        if p.tested_limit_a is not None:  # applies to the present device only: lenient here
-            continue
+        # a tested limit applies to the present device only (exact_failure); every other
+        # candidate is judged by the curves, so the screen is too, and the present device is
+        # let through the screen on its own (_present_in)
         t_max = np.asarray(p.band.t_max(grid), dtype=float)
         # where the device below may take longer than TESTABLE_S a crossing is one of
         # time-current curves (upper edges fall with the current, so a crossing at or below
@@ -796,9 +797,7 @@ def screen(problem: _Problem, bands: Sequence[Band]) -> np.ndarray:
         lo = np.array([b.pickup_min_a for b in bands])
         p0 = problem.above[0]
         inside = (grid[None, :] >= lo[:, None]) & _short_of(grid, p0.required_a)[None, :]
-        for k, p in enumerate(problem.above):
-            if p.tested_limit_a is not None:
-                continue
+        for k, p in enumerate(problem.above):  # tested pairs by their curves, as above
             need = _need_of(t_max, p.margin, p.interval_s, bool(problem.above_adjustable[k]))
             bad = inside & (problem.above_tmin[k][None, :] < need * (1 - 1e-6))
             if problem.testable_above:  # a remedy's search: only where a test cannot decide
@@ -1005,9 +1004,7 @@ def screen_grid(problem: _Problem, grid: SettingsGrid) -> np.ndarray:
             ok &= st[:, :, None, None] & lt[:, None, :, None] & inst[None, None, None, :]
         if problem.above:
             pickup = b.tolerance(*b.CONVENTIONAL_X, problem.basis)[0] * grid.ir_a
-            for k, p in enumerate(problem.above):
-                if p.tested_limit_a is not None:
-                    continue
+            for k, p in enumerate(problem.above):  # tested pairs by their curves, as above
                 inside = (currents >= pickup) & _short_of(currents, p.required_a)
                 t_up = problem.above_tmin[k][inside] * (1 + 1e-6)
                 adjustable = bool(problem.above_adjustable[k])
@@ -1046,6 +1043,37 @@ def screen_grid(problem: _Problem, grid: SettingsGrid) -> np.ndarray:
     return ok
 
 
+def _present_key(problem: _Problem) -> Any:
+    """The circuit's present device, frozen (the only candidate its tested limits apply to)."""
+    return freeze(problem.study.by_id[problem.circuit_id].device)
+
+
+def _present_in(problem: _Problem, grid: SettingsGrid) -> tuple[int, ...] | None:
+    """Where the present device sits in a settings grid, if it is one of its settings (looked
+    for only where a tested limit makes it matter)."""
+    if not any(p.tested_limit_a is not None for p in (*problem.below, *problem.above)):
+        return None
+    device = problem.study.by_id[problem.circuit_id].device
+    if not isinstance(device, Mapping) or device.get("family") != "electronic":
+        return None
+    ii = device.get("Ii_x", "off")
+    axes = (grid.isd_x, grid.tsd_s, grid.tr_s, grid.ii_x)
+    wanted = (device.get("Isd_x"), device.get("tsd_s"), device.get("tr_s"),
+              math.nan if ii in ("off", None) else ii)
+    index = []
+    for axis, value in zip(axes, wanted, strict=True):
+        try:
+            hits = np.flatnonzero(np.isnan(axis) if isinstance(value, float) and math.isnan(value)
+                                  else np.isclose(axis, float(value), rtol=1e-9, atol=0.0))
+        except (TypeError, ValueError):
+            return None
+        if hits.size == 0:
+            return None
+        index.append(int(hits[0]))
+    found = tuple(index)
+    return found if freeze(grid.candidate(found).spec) == _present_key(problem) else None
+
+
 def _search(problem: _Problem, groups: list[Any]) -> tuple[
         Candidate | None, Band | None, Failure | None, list[tuple[Candidate, Failure]]]:
     """Candidates in lowness order; returns the winner, its band, the binding failure of the
@@ -1078,7 +1106,9 @@ def _search(problem: _Problem, groups: list[Any]) -> tuple[
             previous = (group[-1], cheap[-1])
             continue
         codes = screen(problem, [bands[i] for i in keep])
-        passing = [keep[j] for j, code in enumerate(codes) if code == 0]
+        present = _present_key(problem)
+        passing = [keep[j] for j, code in enumerate(codes)
+                   if code == 0 or freeze(group[keep[j]].spec) == present]
         for n, i in enumerate(passing):
             failure = exact_failure(problem, group[i])
             if failure is None:
@@ -1114,6 +1144,10 @@ def _search_grid(problem: _Problem, grid: SettingsGrid,
             failures.append((first, cheap))
         return None, None, (last, cheap)
     mask = screen_grid(problem, grid)
+    here = _present_in(problem, grid)
+    if here is not None and grid.valid()[here]:
+        mask = mask.copy()
+        mask[here] = True  # its tested limits apply to it alone: the exact check decides
     passing = np.argwhere(mask)
 
     def won(index: np.ndarray) -> tuple[Any, Any, Any]:
@@ -1138,10 +1172,12 @@ def _search_grid(problem: _Problem, grid: SettingsGrid,
     problem.explain_budget -= 1
     for k, cand in ((0, first), (len(valid) - 1, last)):  # why the least and the most capable
         failure = exact_failure(problem, cand)  # settings fail
-        if failure is None:  # the screen refused what the exact checks accept (it must not;
-            # see _short_of): the lowest refused setting they accept wins
+        if failure is None:  # a setting passes that the confirmations did not reach (the
+            # cap) or the screen refused (it must not; see _short_of): the lowest such wins
+            unconfirmed = list(passing[problem.max_confirm:][:MAX_CONFIRM])
             refused = [v for v in valid[:k] if not mask[tuple(v)]][:MAX_CONFIRM]
-            return won(next((v for v in refused if exact_failure(
+            ordered = sorted(unconfirmed + refused, key=lambda v: tuple(int(x) for x in v))
+            return won(next((v for v in ordered if exact_failure(
                 problem, grid.candidate(v)) is None), valid[k]))
         failures.append((cand, failure))
     return None, None, (last, failures[-1][1] if failures else None)

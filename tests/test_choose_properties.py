@@ -566,3 +566,59 @@ def test_remedies_for_the_pair_above_pass_check(circuit):
     top = math.ceil(faults.compute(s).by_circuit[circuit].ik_max_a)
     assert_passes_check(with_circuit(s, circuit, device=name,
                                      tested_limits_a={"main-fuse": float(top)}), circuit)
+
+
+# -- tested limits: they apply to the present device alone ----------------------------------
+TESTED = """
+[supply]
+u0_v = 230
+phases = 1
+earthing = "TN-C-S"
+pfc_a = 6000
+ze_ohm = 0.35
+
+[[circuit]]
+id = "main"
+from = "supply"
+device = "gG100"
+
+[[circuit]]
+id = "sockets"
+from = "main"
+device = "B32"
+phases = 1
+load_a = 20
+tested_limits_a = {{ main = {tested} }}
+[circuit.cable]
+length_m = 10
+csa_mm2 = 4
+cpc_mm2 = 2.5
+iz_a = 37
+"""
+
+
+# IEC 60947-2 Annex A (a tested limit is for the tested pair only, common practice): gG100 over
+# B32 is partial by the curves (Is about 4 kA, EN 60898-1 Annex ZA class 3 against the fuse's
+# pre-arcing I2t) and total with the makers' test to 6 kA, so gG100 is chosen; a smaller
+# gG80 has no tested limit and is judged by its curves. The screen judges every candidate by
+# its curves, so it must let the present device through for the exact check to decide.
+def test_the_present_device_keeps_its_tested_limit():
+    s = study.loads(TESTED.format(tested=6000))
+    assert engine.analyse(s, faults.compute(s)).ok  # the check passes with the tested limit
+    c = choose.choose(s, "main", family="gG")
+    assert c.found and c.device == "gG100"
+
+
+# Same invented flat: a tested limit on the pair leaves every other candidate to its curves,
+# and the chooser still finds a device in a family without tested limits (a remedy search that
+# had to confirm setting after setting used to find none in time).
+def test_a_tested_limit_below_does_not_hide_other_families():
+    s = study.loads(TESTED.format(tested=6000))
+    c = choose.choose(s, "main", family="electronic")
+    assert c.found
+    # judged without the tested limit, which belongs to the gG100 it was measured with
+    bare = study.loads(TESTED.replace("tested_limits_a = {{ main = {tested} }}\n", ""))
+    chosen = choose.substitute(bare, "main", c.device)
+    levels = faults.compute(chosen)
+    assert engine.analyse(chosen, levels).ok
+    assert all(r.ok for r in checks.run(chosen, levels))
