@@ -860,9 +860,7 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
     rcd = _rcd_needed(study, cid, band, node, edges)
     ief = _get(node, "ief_min_a")
     if ief is not None and ief > 0:
-        # the smallest fault in the line conductors (where only an RCD can clear it, the
-        # protective conductor's case below says so for both)
-        if (ik_min is None or ief < ik_min) and not rcd:
+        if ik_min is None or ief < ik_min:  # the smallest fault in the line conductors
             cases.append(("minimum earth fault at the far end", "line", ief, s_line, k_line))
         cases.append(("minimum earth fault at the far end", "protective", ief, s_cpc, k_cpc))
     if ief_max is not None:
@@ -882,10 +880,12 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
                 continue  # IEC 60364-4-43 435.1: overload protection also protects the conductor
             at = f"the {what} ({_a(i)})"
             if rcd and "earth fault" in what:
-                problems.append(
-                    f"{at} must be cleared by an RCD (too small for any overcurrent device, see "
-                    f"disconnection): the protective conductor's adiabatic check then depends "
-                    f"on the RCD's clearing time and is not decided by {band.name}")
+                if not any("must be cleared by an RCD" in text for text in problems):
+                    problems.append(  # one message for the line and the protective conductors
+                        f"{at} must be cleared by an RCD (too small for any overcurrent device, "
+                        "see disconnection): the adiabatic check of the protective conductor "
+                        "(and of the line conductors) then depends on the RCD's clearing time "
+                        f"and is not decided by {band.name}")
             elif math.isfinite(t):
                 problems.append(f"{band.name} may take {_s(t)} at {at}: beyond "
                                 f"{ADIABATIC_LIMIT_S:g} s the adiabatic rule does not hold; "
@@ -899,7 +899,7 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
         rows.append((need / s, need, s, what, conductor, i, energy, k, t))
     if not rows:
         return None
-    worst = max(rows, key=lambda r: r[0])
+    worst = max(rows, key=lambda r: (r[0], r[4] == "protective"))  # ties: the cpc
     _, need, s, what, conductor, i, energy, k, _t = worst
     ok = not problems and all(r[1] <= r[2] for r in rows)
     finite = math.isfinite

@@ -52,7 +52,7 @@ from typing import Any
 
 import numpy as np
 
-from coordination.devices import device_band, freeze
+from coordination.devices import device_band
 from coordination.engine import ADJUSTABLE_FAMILIES, EQUAL_RTOL
 from coordination.model import SUPPLY_ID, Study
 from curves.band import ENERGY_REGION_S, TIME_CEILING_S, TIME_FLOOR_S, Band
@@ -866,7 +866,7 @@ def _exact_failure(problem: _Problem, cand: Candidate) -> Failure | None:
     for r in results:  # any further check a later version adds
         if not r.ok and r.check not in problem.relaxed and r.check not in STAGES:
             return Failure(r.check, f"{r.check}: {r.reason}")
-    same = freeze(cand.spec) == freeze(problem.study.by_id[problem.circuit_id].device)
+    same = _is_present(problem, cand.spec)
     for p in problem.below:
         sel = _pair_below(band, p, same)
         if not _pair_ok(sel, p.required_a):
@@ -1043,35 +1043,49 @@ def screen_grid(problem: _Problem, grid: SettingsGrid) -> np.ndarray:
     return ok
 
 
-def _present_key(problem: _Problem) -> Any:
-    """The circuit's present device, frozen (the only candidate its tested limits apply to)."""
-    return freeze(problem.study.by_id[problem.circuit_id].device)
+def _present_key(problem: _Problem) -> tuple:
+    """The identity of the circuit's present device (its band's key: the spec as built, so
+    "gG100", "GG100" and an inline table of it, or a unit with its defaults written out or
+    left out, are one device); the only candidate its tested limits apply to."""
+    from coordination.devices import band_for
+
+    return band_for(problem.study, problem.circuit_id, problem.basis).key
+
+
+def _is_present(problem: _Problem, spec: Any) -> bool:
+    """Whether a candidate is the circuit's present device (see :func:`_present_key`)."""
+    try:
+        return device_band(spec, problem.basis).key == _present_key(problem)
+    except InputError:
+        return False
 
 
 def _present_in(problem: _Problem, grid: SettingsGrid) -> tuple[int, ...] | None:
     """Where the present device sits in a settings grid, if it is one of its settings (looked
-    for only where a tested limit makes it matter)."""
+    for only where a tested limit makes it matter), from the settings its band was built with."""
     if not any(p.tested_limit_a is not None for p in (*problem.below, *problem.above)):
         return None
-    device = problem.study.by_id[problem.circuit_id].device
-    if not isinstance(device, Mapping) or device.get("family") != "electronic":
+    from coordination.devices import band_for
+
+    band = band_for(problem.study, problem.circuit_id, problem.basis)
+    if band.family != "breaker-electronic":
         return None
-    ii = device.get("Ii_x", "off")
+    st = band.settings
+    ii = st.get("Ii_x")
     axes = (grid.isd_x, grid.tsd_s, grid.tr_s, grid.ii_x)
-    wanted = (device.get("Isd_x"), device.get("tsd_s"), device.get("tr_s"),
-              math.nan if ii in ("off", None) else ii)
+    wanted = (st.get("Isd_x"), st.get("tsd_s"), st.get("tr_s"), math.nan if ii is None else ii)
     index = []
     for axis, value in zip(axes, wanted, strict=True):
-        try:
-            hits = np.flatnonzero(np.isnan(axis) if isinstance(value, float) and math.isnan(value)
-                                  else np.isclose(axis, float(value), rtol=1e-9, atol=0.0))
-        except (TypeError, ValueError):
+        if value is None:
             return None
+        value = float(value)
+        hits = np.flatnonzero(np.isnan(axis) if math.isnan(value)
+                              else np.isclose(axis, value, rtol=1e-9, atol=0.0))
         if hits.size == 0:
             return None
         index.append(int(hits[0]))
     found = tuple(index)
-    return found if freeze(grid.candidate(found).spec) == _present_key(problem) else None
+    return found if _is_present(problem, grid.candidate(found).spec) else None
 
 
 def _search(problem: _Problem, groups: list[Any]) -> tuple[
@@ -1106,9 +1120,8 @@ def _search(problem: _Problem, groups: list[Any]) -> tuple[
             previous = (group[-1], cheap[-1])
             continue
         codes = screen(problem, [bands[i] for i in keep])
-        present = _present_key(problem)
         passing = [keep[j] for j, code in enumerate(codes)
-                   if code == 0 or freeze(group[keep[j]].spec) == present]
+                   if code == 0 or _is_present(problem, group[keep[j]].spec)]
         for n, i in enumerate(passing):
             failure = exact_failure(problem, group[i])
             if failure is None:
@@ -1174,9 +1187,10 @@ def _search_grid(problem: _Problem, grid: SettingsGrid,
         failure = exact_failure(problem, cand)  # settings fail
         if failure is None:  # a setting passes that the confirmations did not reach (the
             # cap) or the screen refused (it must not; see _short_of): the lowest such wins
-            unconfirmed = list(passing[problem.max_confirm:][:MAX_CONFIRM])
-            refused = [v for v in valid[:k] if not mask[tuple(v)]][:MAX_CONFIRM]
-            ordered = sorted(unconfirmed + refused, key=lambda v: tuple(int(x) for x in v))
+            unconfirmed = list(passing[problem.max_confirm:])
+            refused = [v for v in valid[:k] if not mask[tuple(v)]]
+            ordered = sorted([*unconfirmed, *refused, valid[k]],
+                             key=lambda v: tuple(int(x) for x in v))[:MAX_CONFIRM]
             return won(next((v for v in ordered if exact_failure(
                 problem, grid.candidate(v)) is None), valid[k]))
         failures.append((cand, failure))
@@ -1419,7 +1433,7 @@ def _remedies_below(problem: _Problem, groups: list[Any],
         return [(False, "a tested limit or a partial requirement below alone would not be "
                         "enough: without any selectivity requirement below, " +
                  _summary(problem, failures, limit=REMEDY_SEGMENTS, still=True))]
-    same = freeze(winner.spec) == freeze(problem.study.by_id[problem.circuit_id].device)
+    same = _is_present(problem, winner.spec)
     failing = [(p, sel) for p in problem.below
                if not _pair_ok(sel := _pair_below(band, p, same), p.required_a)]
     if not failing:
@@ -1444,7 +1458,7 @@ def _remedy_tested(problem: _Problem, tried: list[Any]) -> tuple[bool, str]:
                        "time-current (not short-circuit) regions a test does not help: " +
                        _summary(problem, failures, limit=REMEDY_SEGMENTS, still=True))
     cid = problem.circuit_id
-    same = freeze(winner.spec) == freeze(problem.study.by_id[cid].device)
+    same = _is_present(problem, winner.spec)
     failing = [(p, sel) for p in problem.below
                if not _pair_ok(sel := _pair_below(band, p, same), p.required_a)]
     study = substitute(problem.study, cid, winner.spec)
@@ -1587,7 +1601,7 @@ def _remedies_above(problem: _Problem, groups: list[Any]) -> list[tuple[bool, st
 
 
 def _failing_above(problem: _Problem, winner: Candidate, band: Band) -> list[tuple[_Pair, Any]]:
-    same = freeze(winner.spec) == freeze(problem.study.by_id[problem.circuit_id].device)
+    same = _is_present(problem, winner.spec)
     return [(p, sel) for p in problem.above
             if not _pair_ok(sel := _pair_above(band, p, same), p.required_a)]
 
@@ -1652,7 +1666,7 @@ def _remedy_above(problem: _Problem, aside: tuple[Any, Any, Any]) -> tuple[bool,
         return False, ("a larger device above alone would not be enough: without selectivity "
                        "above, " + _summary(problem, failures, limit=REMEDY_SEGMENTS,
                                             still=True))
-    same = freeze(winner.spec) == freeze(problem.study.by_id[problem.circuit_id].device)
+    same = _is_present(problem, winner.spec)
     failing = [p.other for p in problem.above
                if not _pair_ok(_pair_above(band, p, same), p.required_a)]
     if not failing:

@@ -302,16 +302,16 @@ def source_impedances(supply: Supply) -> Source:
     xr_source = t.x_r if t is not None else supply.x_r
     ze_loop = split_impedance(ze_ohm, xr_source) if ze_given else None
     tt = str(supply.earthing).upper().startswith("TT")
-    if ze_loop is None:
-        z_earth_max, how = z_loop_max, ("the source's line-neutral loop for maximum currents "
-                                        "(Ze not given: a conservative bound)")
-    elif tt:
+    if tt and ze_loop is not None:
         z_earth_max, how = ze_loop, f"Ze (X/R {xr_source:g})"
-    elif t is not None:
+    elif t is not None and not tt:
         # a transformer's loop is computed, not declared: the earth loop includes it, so no
         # earth fault exceeds the line-neutral maximum there (a smaller Ze cannot be)
         z_earth_max, how = z_loop_max, ("the transformer's line-neutral loop for maximum "
                                         "currents (TN: the earth loop includes it)")
+    elif ze_loop is None:
+        z_earth_max, how = z_loop_max, ("the source's line-neutral loop for maximum currents "
+                                        "(Ze not given: a conservative bound)")
     elif abs(ze_loop) <= abs(z_loop_max):
         z_earth_max, how = ze_loop, f"Ze (X/R {xr_source:g}), smaller than the declared fault "
         how += "level's loop"
