@@ -602,11 +602,14 @@ iz_a = 37
 # pre-arcing I2t) and total with the makers' test to 6 kA, so gG100 is chosen; a smaller
 # gG80 has no tested limit and is judged by its curves. The screen judges every candidate by
 # its curves, so it must let the present device through for the exact check to decide.
-def test_the_present_device_keeps_its_tested_limit():
-    s = study.loads(TESTED.format(tested=6000))
+@pytest.mark.parametrize("written", ['"gG100"', '"GG100"', '"gG 100"',
+                                     '{ family = "gG", In_a = 100 }'])
+def test_the_present_device_keeps_its_tested_limit(written):
+    s = study.loads(TESTED.format(tested=6000).replace('device = "gG100"',
+                                                        f"device = {written}"))
     assert engine.analyse(s, faults.compute(s)).ok  # the check passes with the tested limit
     c = choose.choose(s, "main", family="gG")
-    assert c.found and c.device == "gG100"
+    assert c.found and c.rating_a == pytest.approx(100.0, rel=1e-12)
 
 
 # Same invented flat: a tested limit on the pair leaves every other candidate to its curves,
