@@ -220,6 +220,7 @@ class Source:
     k_t: float | None
     description: str
     z_earth_max: complex = 0j  # the source's earth loop for maximum earth faults
+    earth_max_route: str = ""  # that loop in words, for the convention and the description
 
 
 def source_impedances(supply: Supply) -> Source:
@@ -289,19 +290,17 @@ def source_impedances(supply: Supply) -> Source:
                 f"{ze:g} ohm{three}; the real fault level may be higher (give pfc_a)")
     ze_given = supply.ze_ohm is not None
     ze_ohm = float(supply.ze_ohm) if ze_given else abs(z_loop_min)  # type: ignore[arg-type]
-    if (ze_given and t is not None and not str(supply.earthing).upper().startswith("TT")
-            and ze_ohm < abs(z_loop_min)):
+    tt = str(supply.earthing).upper().startswith("TT")
+    if ze_given and t is not None and not tt and ze_ohm < abs(z_loop_min):
         # in TN the earth loop runs through the transformer, so Ze cannot be below its loop
         text += (f"; Ze {ze_ohm:g} ohm given is below the transformer's own loop: taken as "
                  f"{abs(z_loop_min):.4g} ohm")
         ze_ohm = abs(z_loop_min)
-    # the earth loop for maximum earth faults. A declared Ze and a declared fault level are
-    # both limits the real supply stays within, so the largest earth fault takes the smaller
-    # loop: in TN the source's line-neutral loop for maximum currents bounds it (with a PEN
-    # conductor the two loops are one), in TT the earth path is Ze's alone
+    # the earth loop for maximum earth faults: in TT the earth path is Ze's alone; in TN a
+    # transformer's computed loop bounds it, and a declared Ze and a declared fault level are
+    # both limits the supply stays within, so the smaller loop (the larger current) is taken
     xr_source = t.x_r if t is not None else supply.x_r
     ze_loop = split_impedance(ze_ohm, xr_source) if ze_given else None
-    tt = str(supply.earthing).upper().startswith("TT")
     if tt and ze_loop is not None:
         z_earth_max, how = ze_loop, f"Ze (X/R {xr_source:g})"
     elif t is not None and not tt:
@@ -313,8 +312,8 @@ def source_impedances(supply: Supply) -> Source:
         z_earth_max, how = z_loop_max, ("the source's line-neutral loop for maximum currents "
                                         "(Ze not given: a conservative bound)")
     elif abs(ze_loop) <= abs(z_loop_max):
-        z_earth_max, how = ze_loop, f"Ze (X/R {xr_source:g}), smaller than the declared fault "
-        how += "level's loop"
+        z_earth_max = ze_loop
+        how = f"Ze (X/R {xr_source:g}), smaller than the declared fault level's loop"
     else:
         z_earth_max, how = z_loop_max, ("the declared fault level's line-neutral loop, smaller "
                                         "than Ze (TN: a declared Ze and a declared fault level "
@@ -324,7 +323,7 @@ def source_impedances(supply: Supply) -> Source:
     text += "; maximum earth fault through " + how
     return Source(z_phase_max=z_ph_max, z_phase_min=z_ph_min, z_loop_max=z_loop_max,
                   z_loop_min=z_loop_min, ze_ohm=ze_ohm, ze_given=ze_given, k_t=k_t,
-                  description=text, z_earth_max=z_earth_max)
+                  description=text, z_earth_max=z_earth_max, earth_max_route=how)
 
 
 def path_sums(own: np.ndarray, parent: np.ndarray) -> np.ndarray:
@@ -452,13 +451,8 @@ def convention_text(supply: Supply) -> str:
         "Ief = c_min U0 / Zs; Ik min end is line-neutral (line-line beyond a cable without "
         "neutral). Maximum earth fault at each circuit's board: line to protective conductor, "
         f"c_max = {supply.c_max:g}, conductors at 20 degC, through "
-        + ("the transformer's line-neutral loop (TN)" if supply.transformer is not None
-           and not str(supply.earthing).upper().startswith("TT") else
-           "the smaller of Ze and the source's line-neutral loop (TN)"
-           if supply.ze_ohm is not None and not str(supply.earthing).upper().startswith("TT")
-           else "Ze" if supply.ze_ohm is not None else
-           "the source's line-neutral loop (Ze not given: a conservative bound)")
-        + ", never below the minimum there. IEC 60909-0 style, simplified for low voltage."
+        f"{source_impedances(supply).earth_max_route}, never below the minimum there. "
+        "IEC 60909-0 style, simplified for low voltage."
     )
 
 
