@@ -25,7 +25,7 @@ from collections.abc import Mapping, Sequence
 from pathlib import Path
 from typing import Any
 
-import tomli
+import rtoml
 
 from coordination import cables
 from coordination.model import SUPPLY_ID, Cable, Circuit, Study, Supply, Transformer
@@ -671,8 +671,8 @@ def loads(text: str, source: str | None = None) -> Study:
 
     References
     ----------
-    TOML 1.0 (parsed by tomli, of which the standard library's tomllib is a copy); study-file
-    contract, version 1 (DESIGN.md).
+    TOML 1.0 (parsed by rtoml, a compiled parser: DEVELOPERS.md, "Set-up and checks");
+    study-file contract, version 1 (DESIGN.md).
 
     Examples
     --------
@@ -686,8 +686,8 @@ def loads(text: str, source: str | None = None) -> Study:
         raise InputError(f"{name} is empty; a study needs a [supply] table and [[circuit]] "
                          "tables")
     try:
-        data = tomli.loads(text)
-    except tomli.TOMLDecodeError as error:
+        data = rtoml.loads(text)
+    except rtoml.TomlParsingError as error:
         raise InputError(f"{name} is not valid TOML: {error}") from None
     return from_dict(data, source=source)
 

@@ -31,7 +31,7 @@ import re
 from collections.abc import Callable, Mapping
 from typing import Any
 
-import tomli
+import rtoml
 
 from curves.band import Band
 from curves.errors import InputError, positive_number
@@ -98,8 +98,8 @@ def parse_inline(text: str) -> str | dict:
     if not stripped.startswith("{"):
         return stripped
     try:
-        return dict(tomli.loads(f"device = {stripped}")["device"])
-    except (tomli.TOMLDecodeError, KeyError, TypeError) as error:
+        return dict(rtoml.loads(f"device = {stripped}")["device"])
+    except (rtoml.TomlParsingError, KeyError, TypeError) as error:
         raise InputError(f"the device table is not a valid TOML inline table ({error}); "
                          "e.g. {family = 'tm', In_a = 250, Ir_x = 0.8}") from None
 
