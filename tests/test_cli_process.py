@@ -1,0 +1,85 @@
+"""The command as a whole process: what ``main`` adds around the commands.
+
+``main`` ends a command that drew no figure without the interpreter's teardown (``os._exit``);
+these tests make sure nothing written is lost by it and that exit codes survive it.
+"""
+
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+from typer.testing import CliRunner
+
+from coordination.cli import app
+
+ROOT = Path(__file__).resolve().parents[1]
+OFFICE = ROOT / "examples" / "office-building.toml"
+
+
+def _process(*args: str) -> subprocess.CompletedProcess[bytes]:
+    return subprocess.run([sys.executable, "-m", "coordination", *args], capture_output=True,
+                          cwd=ROOT, timeout=120, check=False)
+
+
+def test_check_json_complete_through_the_process() -> None:
+    # the whole JSON reaches stdout, the same as in process, with the same exit code
+    proc = _process("check", str(OFFICE), "--json")
+    inside = CliRunner().invoke(app, ["check", str(OFFICE), "--json"])
+    assert proc.stderr == b""
+    assert proc.returncode == inside.exit_code
+    assert proc.returncode in (0, 1)
+    out = json.loads(proc.stdout)
+    assert out == json.loads(inside.stdout)
+    assert out["ok"] is (proc.returncode == 0)
+    assert len(out["pairs"]) > 10 and len(out["checks"]) > 10
+
+
+def test_check_table_complete_through_the_process() -> None:
+    proc = _process("check", str(OFFICE))
+    text = proc.stdout.decode("utf-8")
+    assert proc.returncode in (0, 1)
+    # the caution is the last line written; a lost buffer would cut it
+    assert text.rstrip().splitlines()[-1].startswith("Design aid only")
+
+
+def test_bare_command_prints_its_help_once() -> None:
+    proc = _process()
+    assert proc.returncode == 0
+    assert proc.stdout.decode("utf-8").count("Usage") == 1
+
+
+def test_unknown_command_is_one_line_exit_2() -> None:
+    proc = _process("bogus")
+    assert proc.returncode == 2
+    assert proc.stdout == b""
+    err = proc.stderr.decode("utf-8").strip()
+    assert err.startswith("error: ") and "\n" not in err and "bogus" in err
+
+
+def test_bad_study_is_one_line_exit_2(tmp_path: Path) -> None:
+    bad = tmp_path / "bad.toml"
+    bad.write_text("[supply]\npfc_a = \n", encoding="utf-8")
+    proc = _process("faults", str(bad), "--json")
+    assert proc.returncode == 2
+    assert proc.stdout == b""
+    err = proc.stderr.decode("utf-8").strip()
+    assert err.startswith("error: ") and "\n" not in err and "not valid TOML" in err
+    assert "line 2" in err
+
+
+def test_json_bytes_writes_what_the_standard_library_would():
+    import math
+
+    import numpy as np
+
+    from coordination.cli import json_bytes
+
+    value = {"never_s": math.inf, "nan": math.nan, "scalar": np.float64(2.5),
+             "limits_a": {100: 1.5, "b": (1, 2)}, "set": {"y", "x"}}
+    out = json.loads(json_bytes(value))
+    # the contract's null for never; keys that are not text become text, as json.dumps does
+    assert out == {"never_s": None, "nan": None, "scalar": 2.5,
+                   "limits_a": {"100": 1.5, "b": [1, 2]}, "set": ["x", "y"]}
