@@ -39,6 +39,7 @@ from typing import Any
 
 import numpy as np
 
+from coordination.frozen import quick_init
 from coordination.model import Study
 from curves.band import Band
 from curves.errors import InputError
@@ -101,6 +102,7 @@ CAPACITY_KEYS = ("icn_a", "icu_a", "ics_a", "breaking_capacity_a")
 
 # -------------------------------------------------------------------------------------------
 # the result
+@quick_init
 @dataclass(frozen=True)
 class CheckResult:
     """One protection check of one circuit.
@@ -352,6 +354,8 @@ def adiabatic_min_csa_mm2(i2t_a2s: Any, k: float) -> Any:
     >>> print(round(adiabatic_min_csa_mm2(460.0**2 * 0.1, 115.0), 2))
     1.26
     """
+    if i2t_a2s.__class__ is float:  # one value: the checks' case, without numpy's overhead
+        return math.sqrt(i2t_a2s) / float(k) if i2t_a2s >= 0.0 else math.nan
     out = np.sqrt(np.asarray(i2t_a2s, dtype=np.float64)) / float(k)
     return float(out) if out.ndim == 0 else out
 
@@ -400,6 +404,7 @@ def k_factor(material: str, insulation: str, csa_mm2: float) -> float:
     return small if csa_mm2 <= 300.0 else large
 
 
+@quick_init
 @dataclass(frozen=True)
 class ConductorSizes:
     """Cross-sections and adiabatic factors of a cable's conductors.
@@ -620,6 +625,13 @@ class _Edges:
         """Maximum let-through energy at ``i`` [A2s]."""
         pair = self._pair(band, i)
         return float(band.i2t_let_through(i)) if pair is None else pair[1]
+
+    def both(self, band: Band, i: float) -> tuple[float, float]:
+        """:meth:`t_max` and :meth:`i2t` at ``i`` (a positive current) in one look-up."""
+        pair = self._pair(band, i)
+        if pair is None:
+            return float(band.t_max(i)), float(band.i2t_let_through(i))
+        return pair
 
 
 def _never(band: Band, i: float) -> str:
@@ -872,8 +884,7 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
     for what, conductor, i, s, k in cases:
         if i is None or not (i > 0):
             continue
-        t = edges.t_max(band, i)
-        energy = edges.i2t(band, i)
+        t, energy = edges.both(band, i)
         need = adiabatic_min_csa_mm2(energy, k) if math.isfinite(energy) else math.inf
         if t > ADIABATIC_LIMIT_S:
             if conductor == "line" and overload_protected:

@@ -53,6 +53,7 @@ from typing import TYPE_CHECKING, Any, Literal
 import numpy as np
 
 from coordination.devices import band_for
+from coordination.frozen import quick_init
 from coordination.model import Study
 from coordination.roots import find_crossing
 from curves.band import ENERGY_REGION_S, TIME_CEILING_S, TIME_FLOOR_S, Band
@@ -85,6 +86,7 @@ _LOG_NEVER = 30.0
 
 # ---------------------------------------------------------------------------------------------
 # results
+@quick_init
 @dataclass(frozen=True)
 class Selectivity:
     """The selectivity of one pair of bands over one window.
@@ -122,6 +124,7 @@ class Selectivity:
     curves_limit_a: float | None = None
 
 
+@quick_init
 @dataclass(frozen=True)
 class PairResult:
     """The selectivity of one circuit under one of its ancestors, with the requirement.
@@ -501,6 +504,7 @@ def compare(upstream: Band, downstream: Band, window_a: tuple[float, float], *,
 MAX_ROWS = 500_000
 
 
+@quick_init
 @dataclass(frozen=True)
 class _Run:
     """Ancestors in a row that share one band, nearest first; ``rest`` continues upwards.
@@ -658,19 +662,22 @@ def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
         if head is None:
             continue
         down = bands[circuit.id]
-        lo = float(down.pickup_min_a)
-        hi = _window_top(levels, circuit.id)
         margin, interval = _margin_interval(study, circuit.id)
+        try:  # compare()'s checks, once for all the pairs of this circuit
+            lo = _check_positive(down.pickup_min_a, "window_a")
+            hi = _check_positive(_window_top(levels, circuit.id), "window_a")
+            margin = _check_positive(margin, "margin")
+            interval = _check_positive(interval, "interval_s", allow_zero=True)
+            tested_limits = {k: _check_positive(v, "tested_limits_a")
+                             for k, v in circuit.tested_limits_a.items()}
+        except InputError as error:
+            raise error.within(circuit=circuit.id) from None
         required = circuit.selective_to_a
         need = hi if required is None else min(float(required), hi)
         mine = []
-        for up, first, last, count in _segments(study, head, circuit.tested_limits_a):
-            tested = circuit.tested_limits_a.get(first) if count == 1 else None
-            try:
-                sel = compare(up, down, (lo, hi), margin=margin, interval_s=interval,
-                              tested_limit_a=tested)
-            except InputError as error:
-                raise error.within(circuit=circuit.id) from None
+        for up, first, last, count in _segments(study, head, tested_limits):
+            tested = tested_limits.get(first) if count == 1 else None
+            sel = _compare(up, down, lo, hi, margin, interval, tested)
             ok = sel.verdict == "total" or (
                 sel.limit_a is not None and sel.limit_a >= need * (1 - EQUAL_RTOL))
             all_ok = all_ok and ok

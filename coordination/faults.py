@@ -60,6 +60,7 @@ from typing import Any
 import numpy as np
 
 from coordination import cables
+from coordination.frozen import quick_init
 from coordination.model import Cable, Study, Supply
 from coordination.text import table
 
@@ -361,6 +362,7 @@ def path_sums(own: np.ndarray, parent: np.ndarray) -> np.ndarray:
 
 
 # -- results -----------------------------------------------------------------------------------
+@quick_init
 @dataclass(frozen=True)
 class NodeFaults:
     """Fault levels of one circuit [A, ohm].

@@ -12,6 +12,8 @@ from functools import cached_property
 from types import MappingProxyType
 from typing import Any
 
+from coordination.frozen import quick_init
+
 SUPPLY_ID = "supply"
 
 
@@ -49,6 +51,7 @@ class Supply:
     # phase impedance (half the current) for minimum currents (see coordination.faults)
 
 
+@quick_init
 @dataclass(frozen=True)
 class Cable:
     """The cable a circuit feeds through (from its board to its far end)."""
@@ -66,6 +69,7 @@ class Cable:
     cpc_parallel: int | None = None  # protective conductors in parallel; None: same as parallel
 
 
+@quick_init
 @dataclass(frozen=True)
 class Circuit:
     """One circuit: its protective device at the board, and the cable it feeds.
