@@ -201,7 +201,8 @@ def faults(study_path: StudyArg, as_json: JsonOption = False) -> None:
     s = load_study(study_path)
     levels = fault_levels.compute(s)
     if as_json:
-        echo_json(levels.to_json())
+        payload = levels.to_json()  # held until done(), as in check
+        echo_json(payload)
     else:
         typer.echo(fault_levels.format_table(s, levels))
     done(0)
@@ -220,8 +221,10 @@ def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption 
     results = checks.run(s, levels)
     ok = analysis.ok and all(r.ok for r in results)
     if as_json:
-        echo_json({**analysis.to_json(), "checks": [r.to_json() for r in results],
-                   "ok": ok, "caution": CAUTION})
+        # held until done(): in its own process nothing is freed one object at a time
+        payload = {**analysis.to_json(), "checks": [r.to_json() for r in results],
+                   "ok": ok, "caution": CAUTION}
+        echo_json(payload)
     else:
         typer.echo(engine.format_table(s, levels, analysis))
         typer.echo("")

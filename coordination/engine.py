@@ -56,7 +56,7 @@ from coordination.devices import band_for
 from coordination.frozen import quick_init
 from coordination.model import Study
 from coordination.roots import find_crossing
-from curves.band import ENERGY_REGION_S, TIME_CEILING_S, TIME_FLOOR_S, Band
+from curves.band import ENERGY_REGION_S, TIME_CEILING_S, TIME_FLOOR_S, Band, sorted_unique
 from curves.errors import InputError
 
 if TYPE_CHECKING:  # shapely is imported lazily, only by overlap()
@@ -279,7 +279,7 @@ def _grid(down: Band, up: Band, lo: float, top: float) -> np.ndarray:
     extra = np.array([m for m in marks if m is not None and math.isfinite(m) and m > 0], float)
     extra = np.concatenate([extra * (1 - _BREAK_EPS), extra, extra * (1 + _BREAK_EPS)])
     extra = extra[(extra > lo) & (extra < top)]
-    return np.unique(np.concatenate([base, extra]))
+    return sorted_unique(np.concatenate([base, extra]))
 
 
 def _refine(down: Band, up: Band, a: float, b: float, margin: float, interval_s: float) -> float:
@@ -796,7 +796,7 @@ def _zone(up: Band, down: Band, start: float, hi: float, margin: float,
 
     i = _grid(down, up, start, hi)
     # just above the limit, so that a step there gives the zone's vertical left side at Is
-    i = np.unique(np.concatenate([i, [start * (1 + 1e-9)]]))
+    i = sorted_unique(np.concatenate([i, [start * (1 + 1e-9)]]))
     i = i[(i >= start) & (i <= hi)]
     t_down = _downstream_edge(down, up, i, margin, interval_s)
     t_up = _upstream_edge(up, i)
