@@ -213,7 +213,7 @@ def max_operating_temperature_c(insulation: str) -> float:
 
 
 @quick_init
-@dataclass(frozen=True)
+@dataclass(frozen=True, init=False)
 class RunImpedances:
     """Impedances of one cable run, whole length, all parallel conductors together [ohm].
 

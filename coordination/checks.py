@@ -103,7 +103,7 @@ CAPACITY_KEYS = ("icn_a", "icu_a", "ics_a", "breaking_capacity_a")
 # -------------------------------------------------------------------------------------------
 # the result
 @quick_init
-@dataclass(frozen=True)
+@dataclass(frozen=True, init=False)
 class CheckResult:
     """One protection check of one circuit.
 
@@ -405,7 +405,7 @@ def k_factor(material: str, insulation: str, csa_mm2: float) -> float:
 
 
 @quick_init
-@dataclass(frozen=True)
+@dataclass(frozen=True, init=False)
 class ConductorSizes:
     """Cross-sections and adiabatic factors of a cable's conductors.
 

@@ -87,7 +87,7 @@ _LOG_NEVER = 30.0
 # ---------------------------------------------------------------------------------------------
 # results
 @quick_init
-@dataclass(frozen=True)
+@dataclass(frozen=True, init=False)
 class Selectivity:
     """The selectivity of one pair of bands over one window.
 
@@ -125,7 +125,7 @@ class Selectivity:
 
 
 @quick_init
-@dataclass(frozen=True)
+@dataclass(frozen=True, init=False)
 class PairResult:
     """The selectivity of one circuit under one of its ancestors, with the requirement.
 
@@ -505,7 +505,7 @@ MAX_ROWS = 500_000
 
 
 @quick_init
-@dataclass(frozen=True)
+@dataclass(frozen=True, init=False)
 class _Run:
     """Ancestors in a row that share one band, nearest first; ``rest`` continues upwards.
 

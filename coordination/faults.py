@@ -363,7 +363,7 @@ def path_sums(own: np.ndarray, parent: np.ndarray) -> np.ndarray:
 
 # -- results -----------------------------------------------------------------------------------
 @quick_init
-@dataclass(frozen=True)
+@dataclass(frozen=True, init=False)
 class NodeFaults:
     """Fault levels of one circuit [A, ohm].
 

@@ -7,6 +7,9 @@ against 4.5 ms when the fields go straight into the instance's ``__dict__``. :fu
 gives a frozen dataclass such an ``__init__``, with the same signature, defaults, default
 factories and ``__post_init__`` call; everything else the decorator made (``__setattr__`` that
 refuses, ``__eq__``, ``__hash__``, ``__repr__``) is left as it was, so instances stay frozen.
+
+Write ``@quick_init`` above ``@dataclass(frozen=True, init=False)``: dataclasses then does not
+compile an ``__init__`` of its own only to have it replaced (about 0.5 ms a class at import).
 """
 
 from __future__ import annotations
@@ -15,6 +18,9 @@ import dataclasses
 from typing import TypeVar
 
 T = TypeVar("T")
+
+#: Every class given its ``__init__`` here (the tests compare each with dataclasses' own).
+QUICK_CLASSES: list[type] = []
 
 
 class _Factory:
@@ -28,19 +34,19 @@ _FACTORY = _Factory()
 
 
 def quick_init(cls: type[T]) -> type[T]:
-    """Replace a frozen dataclass's ``__init__`` by one that fills ``__dict__`` directly.
+    """Give a frozen dataclass an ``__init__`` that fills ``__dict__`` directly.
 
     Parameters
     ----------
     cls : type
-        A class made by ``@dataclass(frozen=True)`` (apply this decorator above that one),
-        without ``__slots__``, ``InitVar``, keyword-only or ``init=False`` fields.
+        A class made by ``@dataclass(frozen=True, init=False)`` (apply this decorator above that
+        one), without ``__slots__``, ``InitVar``, keyword-only or ``init=False`` fields.
 
     Returns
     -------
     type
-        The same class, its ``__init__`` replaced; the dataclasses one is kept as
-        ``__dataclass_init__`` (the tests compare the two).
+        The same class with the ``__init__`` dataclasses would have made, in signature and
+        effect, listed in :data:`QUICK_CLASSES`.
 
     Raises
     ------
@@ -51,7 +57,7 @@ def quick_init(cls: type[T]) -> type[T]:
     --------
     >>> from dataclasses import dataclass
     >>> @quick_init
-    ... @dataclass(frozen=True)
+    ... @dataclass(frozen=True, init=False)
     ... class Reading:
     ...     current_a: float
     ...     time_s: float = 0.1
@@ -68,7 +74,9 @@ def quick_init(cls: type[T]) -> type[T]:
     namespace: dict[str, object] = {"FACTORY": _FACTORY}
     args: list[str] = []
     body: list[str] = []
+    annotations: dict[str, object] = {}
     for f in fields:
+        annotations[f.name] = f.type
         if f.default is not dataclasses.MISSING:
             namespace[f"_default_{f.name}"] = f.default
             args.append(f"{f.name}=_default_{f.name}")
@@ -85,11 +93,9 @@ def quick_init(cls: type[T]) -> type[T]:
     source = f"def __init__(self, {', '.join(args)}):\n" + "\n".join(body) + "\n"
     exec(source, namespace)  # the text is built above from the class's own field names
     init = namespace["__init__"]
-    original = cls.__init__
-    init.__qualname__ = original.__qualname__
+    init.__qualname__ = f"{cls.__qualname__}.__init__"
     init.__module__ = cls.__module__
-    init.__annotations__ = dict(original.__annotations__)
-    init.__doc__ = original.__doc__
-    cls.__dataclass_init__ = original
+    init.__annotations__ = {**annotations, "return": None}
     cls.__init__ = init
+    QUICK_CLASSES.append(cls)
     return cls

@@ -52,7 +52,7 @@ class Supply:
 
 
 @quick_init
-@dataclass(frozen=True)
+@dataclass(frozen=True, init=False)
 class Cable:
     """The cable a circuit feeds through (from its board to its far end)."""
 
@@ -70,7 +70,7 @@ class Cable:
 
 
 @quick_init
-@dataclass(frozen=True)
+@dataclass(frozen=True, init=False)
 class Circuit:
     """One circuit: its protective device at the board, and the cable it feeds.
 
