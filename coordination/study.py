@@ -231,16 +231,19 @@ class _Table:
         if key not in self.data:
             return default
         value = self.data[key]
-        allowed = (" or ".join(str(c) for c in choices) if choices is not None
-                   else f"a whole number from {lo} to {hi}")
+
+        def allowed() -> str:  # the message is built only for an error
+            return (" or ".join(str(c) for c in choices) if choices is not None
+                    else f"a whole number from {lo} to {hi}")
+
         if (isinstance(value, bool) or not isinstance(value, int | float)
                 or not math.isfinite(value) or value != int(value)):
             raise self.error(key, f"{key} must be a whole number, not {_describe(value)}; "
-                                  f"allowed: {allowed}")
+                                  f"allowed: {allowed()}")
         number = int(value)
         if (choices is not None and number not in choices) or (
                 choices is None and not lo <= number <= hi):
-            raise self.error(key, f"{key} = {number} is not allowed; allowed: {allowed}")
+            raise self.error(key, f"{key} = {number} is not allowed; allowed: {allowed()}")
         return number
 
     def text(self, key: str, *, required: bool = False, default: str | None = None,
