@@ -142,7 +142,8 @@ class CheckResult:
     details: Mapping[str, Any] = field(default_factory=dict)
 
     def __post_init__(self) -> None:
-        object.__setattr__(self, "details", MappingProxyType(dict(self.details)))
+        if self.details.__class__ is not MappingProxyType:  # a read-only view is kept as given
+            object.__setattr__(self, "details", MappingProxyType(dict(self.details)))
 
     def to_json(self) -> dict[str, Any]:
         """The contract keys (circuit, check, ok, value, limit, unit) and more; ``None`` for
@@ -171,6 +172,14 @@ class CheckResult:
             else:
                 out[key] = val
         return out
+
+
+def _result(cid: str, check: str, ok: bool, value: float, limit: float, unit: str, reason: str,
+            band: Band, details: dict[str, Any]) -> CheckResult:
+    """A check's result over a details dict made for it alone (kept as a read-only view of that
+    dict rather than copied: 8,183 copies in a building's check)."""
+    return CheckResult(cid, check, ok, value, limit, unit, reason, band.basis,
+                       MappingProxyType(details))
 
 
 def _finite(x: Any) -> Any:
@@ -649,15 +658,22 @@ def _takes(band: Band, i: float, t: float) -> str:
 
 def _disconnection_limit(study: Study, cid: str, band: Band) -> tuple[float, str, str, bool]:
     """Required time [s], the circuit's class in words, its source, and whether it is final."""
-    kind = EARTHING_KIND.get(str(study.supply.earthing).upper(), "TN")
     final = study.is_final(cid)
     in_scope = final and _in_a(band) <= FINAL_CIRCUIT_SCOPE_A
-    limit = disconnection_time_s(study.supply.u0_v, study.supply.earthing, in_scope)
+    return (*_limit_and_class(study.supply.u0_v, study.supply.earthing, final, in_scope), final)
+
+
+@lru_cache(maxsize=256)
+def _limit_and_class(u0_v: float, earthing: str, final: bool,
+                     in_scope: bool) -> tuple[float, str, str]:
+    """:func:`_disconnection_limit` for a class of circuit (the same for most of a study's)."""
+    kind = EARTHING_KIND.get(str(earthing).upper(), "TN")
+    limit = disconnection_time_s(u0_v, earthing, in_scope)
     if in_scope:
-        return limit, f"final circuit, {kind}", TABLE_41_1_SOURCE, final
+        return limit, f"final circuit, {kind}", TABLE_41_1_SOURCE
     what = (f"final circuit above {FINAL_CIRCUIT_SCOPE_A:g} A, {kind}" if final
             else f"distribution circuit, {kind}")
-    return limit, what, f"IEC 60364-4-41 411.3.2.{3 if kind == 'TN' else 4}", final
+    return limit, what, f"IEC 60364-4-41 411.3.2.{3 if kind == 'TN' else 4}"
 
 
 def _carried_a(study: Study, cid: str, band: Band) -> float:
@@ -707,7 +723,7 @@ def _disconnection(study: Study, cid: str, band: Band, node: Any, edges: _Edges)
         else:
             reason = (f"{head}: {times}; shorten the run, enlarge the conductors, choose a "
                       "faster device or use an RCD")
-    return CheckResult(cid, "disconnection", ok, t, limit, "s", reason, band.basis, details)
+    return _result(cid, "disconnection", ok, t, limit, "s", reason, band, details)
 
 
 def _series(band: Band) -> tuple[float, ...] | None:
@@ -837,7 +853,7 @@ def _overload(study: Study, cid: str, band: Band) -> CheckResult | None:
                     details["smaller_device"] = smaller
             reason = (f"{band.name} (I2 {_a(i2)}): {'; '.join(failing)}: choose "
                       f"{' or '.join(fixes)}")
-    return CheckResult(cid, "overload", ok, value, limit, "A", reason, band.basis, details)
+    return _result(cid, "overload", ok, value, limit, "A", reason, band, details)
 
 
 def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protected: bool,
@@ -941,7 +957,7 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
                   f"{'cpc' if conductor == 'protective' else 'conductors'}, choose a device "
                   "that lets through less energy, or show from the maker's let-through data "
                   f"that it stays within k2S2 = {(k * s) ** 2:.3g} A2s")
-    return CheckResult(cid, "fault-energy", ok, need, s, "mm2", reason, band.basis, details)
+    return _result(cid, "fault-energy", ok, need, s, "mm2", reason, band, details)
 
 
 def _breaking_capacity(study: Study, cid: str, band: Band, node: Any) -> CheckResult:
@@ -972,8 +988,8 @@ def _breaking_capacity(study: Study, cid: str, band: Band, node: Any) -> CheckRe
     if not math.isfinite(capacity):
         reason = (f"breaking capacity of {band.name} unknown; give the circuit's "
                   "breaking_capacity_a")
-        return CheckResult(cid, "breaking-capacity", False, fault, math.nan, "A", reason,
-                           band.basis, details)
+        return _result(cid, "breaking-capacity", False, fault, math.nan, "A", reason, band,
+                       details)
     ok = fault <= capacity
     if ok:
         reason = (f"{band.name} breaks {_a(capacity)} ({origin}) >= {kind} fault {_a(fault)} "
@@ -982,8 +998,7 @@ def _breaking_capacity(study: Study, cid: str, band: Band, node: Any) -> CheckRe
         reason = (f"{kind} fault {_a(fault)} at the board exceeds the {_a(capacity)} of "
                   f"{band.name} ({origin}): choose a device rated for at least {_a(fault)}, or "
                   "back-up protection proven by the maker's tests")
-    return CheckResult(cid, "breaking-capacity", ok, fault, capacity, "A", reason, band.basis,
-                       details)
+    return _result(cid, "breaking-capacity", ok, fault, capacity, "A", reason, band, details)
 
 
 # -------------------------------------------------------------------------------------------
