@@ -44,6 +44,7 @@ at Is.
 
 from __future__ import annotations
 
+import bisect
 import math
 from collections.abc import Mapping
 from dataclasses import dataclass, field
@@ -325,10 +326,11 @@ def _time_at(down: Band, up: Band, current_a: float, margin: float, interval_s: 
 
 @lru_cache(maxsize=65536)
 def _approach(up: Band, down: Band, lo: float, margin: float,
-              interval_s: float) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+              interval_s: float) -> tuple[list[float], list[float], list[float], list[int]]:
     """The pair's edges from ``lo`` up to the search top, once per pair (its windows differ only
     in their top): currents [A], D's edge with margin and interval [s], U's edge [s], and for
-    each point the index of the least ratio t_U / t_D at or below it (the first, as argmin)."""
+    each point the index of the least ratio t_U / t_D at or below it (the first, as argmin).
+    As lists: each window reads a few points of them, which numpy's scalars make slower."""
     i = _grid(down, up, lo, SEARCH_TOP_A)
     td = _downstream_edge(down, up, i, margin, interval_s)
     tu = _upstream_edge(up, i)
@@ -338,7 +340,7 @@ def _approach(up: Band, down: Band, lo: float, margin: float,
     new_least = ratio < before
     new_least[0] = True
     best = np.maximum.accumulate(np.where(new_least, np.arange(i.size), 0))
-    return i, td, tu, best
+    return i.tolist(), td.tolist(), tu.tolist(), best.tolist()
 
 
 def _scalar_ratio(td: float, tu: float) -> float:
@@ -358,9 +360,9 @@ def _closest_approach_time(up: Band, down: Band, lo: float, hi: float, margin: f
     straight log-log runs most edges are made of) or, where an edge is missing there, evaluated.
     """
     i, td, tu, best = _approach(up, down, lo, margin, interval_s)
-    n = int(np.searchsorted(i, hi, side="right"))
-    if 0 < n < i.size and min(td[n - 1], td[n], tu[n - 1], tu[n]) > 0 and np.isfinite(
-            (td[n - 1], td[n], tu[n - 1], tu[n])).all():
+    n = bisect.bisect_right(i, hi)
+    if 0 < n < len(i) and min(td[n - 1], td[n], tu[n - 1], tu[n]) > 0 and all(
+            math.isfinite(v) for v in (td[n - 1], td[n], tu[n - 1], tu[n])):
         x0, x1 = math.log10(i[n - 1]), math.log10(i[n])
         w = (math.log10(hi) - x0) / (x1 - x0) if x1 > x0 else 0.0
         td_hi = 10.0 ** (math.log10(td[n - 1]) * (1 - w) + math.log10(td[n]) * w)
@@ -371,10 +373,10 @@ def _closest_approach_time(up: Band, down: Band, lo: float, hi: float, margin: f
         tu_hi = float(_upstream_edge(up, top)[0])
     r_hi = _scalar_ratio(td_hi, tu_hi)
     if n > 0:
-        k = int(best[n - 1])
-        r_k = _scalar_ratio(float(td[k]), float(tu[k]))
+        k = best[n - 1]
+        r_k = _scalar_ratio(td[k], tu[k])
         if r_k <= r_hi:  # the first least, as an argmin over the points and then the top
-            return float(tu[k]) if math.isfinite(r_k) else None
+            return tu[k] if math.isfinite(r_k) else None
     return tu_hi if math.isfinite(r_hi) else None
 
 

@@ -13,7 +13,7 @@ from pathlib import Path
 
 from typer.testing import CliRunner
 
-from coordination.cli import app
+from coordination.cli import BLAS_THREADS, app
 
 ROOT = Path(__file__).resolve().parents[1]
 OFFICE = ROOT / "examples" / "office-building.toml"
@@ -83,3 +83,18 @@ def test_json_bytes_writes_what_the_standard_library_would():
     # the contract's null for never; keys that are not text become text, as json.dumps does
     assert out == {"never_s": None, "nan": None, "scalar": 2.5,
                    "limits_a": {"100": 1.5, "b": [1, 2]}, "set": ["x", "y"]}
+
+
+def test_one_blas_thread_unless_the_environment_says_otherwise():
+    import os
+
+    code = ("import os; from coordination import cli; "
+            "cli._run = lambda: print(os.environ.get('OPENBLAS_NUM_THREADS')) or 0; cli.main()")
+    env = {k: v for k, v in os.environ.items() if k not in BLAS_THREADS}
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, env=env,
+                         cwd=ROOT, timeout=60, check=True)
+    assert out.stdout.strip() == "1"
+    env["OPENBLAS_NUM_THREADS"] = "3"
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, env=env,
+                         cwd=ROOT, timeout=60, check=True)
+    assert out.stdout.strip() == "3"
