@@ -586,6 +586,9 @@ _NODE_CURRENTS = ("ief_min_a", "ik_max_a", "ik3_max_a", "ik1_max_a", "ik_min_end
                   "ief_max_board_a")
 
 
+_NOTHING: Mapping[float, tuple[float, float]] = MappingProxyType({})
+
+
 class _Edges:
     """Upper edge [s] and maximum let-through I2t [A2s] of bands at the currents the checks read.
 
@@ -634,6 +637,11 @@ class _Edges:
         """Maximum let-through energy at ``i`` [A2s]."""
         pair = self._pair(band, i)
         return float(band.i2t_let_through(i)) if pair is None else pair[1]
+
+    def values_of(self, band: Band) -> Mapping[float, tuple[float, float]]:
+        """The band's (upper edge [s], let-through [A2s]) by current [A], as gathered (may be
+        empty: :meth:`both` evaluates a current not in it)."""
+        return self._values.get(band, _NOTHING)
 
     def both(self, band: Band, i: float) -> tuple[float, float]:
         """:meth:`t_max` and :meth:`i2t` at ``i`` (a positive current) in one look-up."""
@@ -895,13 +903,18 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
         # a current-limiting device lets the most energy through at the largest earth fault
         cases.append(("maximum earth fault at the board", "protective", ief_max, one_cpc, k_cpc))
 
-    rows = []
+    finite = math.isfinite
+    computed = edges.values_of(band)
+    checked = []  # each case's numbers, for the JSON and the report
     problems = []
+    worst = worst_key = None
+    fits = True  # every conductor at least as large as its case needs
     for what, conductor, i, s, k in cases:
         if i is None or not (i > 0):
             continue
-        t, energy = edges.both(band, i)
-        need = adiabatic_min_csa_mm2(energy, k) if math.isfinite(energy) else math.inf
+        pair = computed.get(i)
+        t, energy = edges.both(band, i) if pair is None else pair
+        need = adiabatic_min_csa_mm2(energy, k) if finite(energy) else math.inf
         if t > ADIABATIC_LIMIT_S:
             if conductor == "line" and overload_protected:
                 continue  # IEC 60364-4-43 435.1: overload protection also protects the conductor
@@ -913,7 +926,7 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
                         "see disconnection): the adiabatic check of the protective conductor "
                         "(and of the line conductors) then depends on the RCD's clearing time "
                         f"and is not decided by {band.name}")
-            elif math.isfinite(t):
+            elif finite(t):
                 problems.append(f"{band.name} may take {_s(t)} at {at}: beyond "
                                 f"{ADIABATIC_LIMIT_S:g} s the adiabatic rule does not hold; "
                                 "choose a faster or smaller device")
@@ -921,20 +934,23 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
                 problems.append(f"{_never(band, i)} at the {what}: the adiabatic rule needs "
                                 f"clearing within {ADIABATIC_LIMIT_S:g} s; choose a faster or "
                                 "smaller device")
-            rows.append((math.inf, need, s, what, conductor, i, energy, k, t))
-            continue
-        rows.append((need / s, need, s, what, conductor, i, energy, k, t))
-    if not rows:
+            ratio = math.inf
+        else:
+            ratio = need / s
+        key = (ratio, conductor == "protective")  # the largest ratio governs; ties: the cpc
+        if worst_key is None or key > worst_key:
+            worst, worst_key = (need, s, what, conductor, i, energy, k), key
+        fits = fits and need <= s
+        checked.append({"case": what, "conductor": conductor,
+                        "current_a": i if finite(i) else None,
+                        "t_max_s": t if finite(t) else None,
+                        "i2t_a2s": energy if finite(energy) else None, "k": k,
+                        "need_mm2": need if finite(need) else None, "have_mm2": s})
+    if worst is None:
         return None
-    worst = max(rows, key=lambda r: (r[0], r[4] == "protective"))  # ties: the cpc
-    _, need, s, what, conductor, i, energy, k, _t = worst
-    ok = not problems and all(r[1] <= r[2] for r in rows)
-    finite = math.isfinite
-    checked = tuple({"case": r[3], "conductor": r[4], "current_a": r[5] if finite(r[5]) else None,
-                     "t_max_s": r[8] if finite(r[8]) else None,
-                     "i2t_a2s": r[6] if finite(r[6]) else None, "k": r[7],
-                     "need_mm2": r[1] if finite(r[1]) else None, "have_mm2": r[2]}
-                    for r in rows)
+    need, s, what, conductor, i, energy, k = worst
+    ok = not problems and fits
+    checked = tuple(checked)
     details = {"current_a": i, "i2t_a2s": energy, "k": k, "conductor": conductor,
                "governing_case": what, "cases": checked,
                "line_mm2": s_line, "cpc_mm2": s_cpc, "k_line": k_line, "k_cpc": k_cpc,
