@@ -52,7 +52,7 @@ from __future__ import annotations
 import math
 import textwrap
 from collections.abc import Mapping
-from dataclasses import asdict, dataclass
+from dataclasses import asdict, dataclass, fields
 from functools import cached_property, lru_cache
 from types import MappingProxyType
 from typing import Any
@@ -400,6 +400,10 @@ class NodeFaults:
         return asdict(self)
 
 
+#: NodeFaults' fields, in order.
+NODE_FIELDS = tuple(f.name for f in fields(NodeFaults))
+
+
 @dataclass(frozen=True)
 class FaultLevels:
     """Fault levels of a whole study, one :class:`NodeFaults` per circuit (study order)."""
@@ -565,9 +569,9 @@ def compute(study: Study) -> FaultLevels:
         "z_ln_end_ohm": _values(z_ln_end),
         "ief_max_board_a": ief_max_board.tolist(),
     }
-    names = list(columns)
-    nodes = tuple(NodeFaults(**dict(zip(names, row, strict=True)))
-                  for row in zip(*columns.values(), strict=True))
+    # the columns in NodeFaults' field order, so that each row builds a node positionally
+    ordered = [columns[name] for name in NODE_FIELDS]
+    nodes = tuple(NodeFaults(*row) for row in zip(*ordered, strict=True))
     return FaultLevels(
         nodes=nodes,
         origin_ik3_a=three_phase_current_a(src.z_phase_max, u0, c_max) if three else None,

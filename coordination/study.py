@@ -22,6 +22,7 @@ from __future__ import annotations
 import difflib
 import math
 from collections.abc import Mapping, Sequence
+from functools import lru_cache
 from pathlib import Path
 from typing import Any
 
@@ -179,6 +180,12 @@ def _unknown(key: str, here: str, allowed: Sequence[str]) -> str:
     return _suggest(key, allowed)
 
 
+@lru_cache(maxsize=64)
+def _key_set(allowed: Sequence[str]) -> frozenset[str]:
+    """The allowed keys of a table as a set (a table's keys are checked once per circuit)."""
+    return frozenset(allowed)
+
+
 class _Table:
     """One TOML table being read: unknown keys are refused first, then each value is typed."""
 
@@ -191,7 +198,9 @@ class _Table:
                              f"not {_describe(data)}", circuit=circuit,
                              key=prefix.rstrip(".") or None)
         self.data = data
-        for key in data:
+        if data.keys() <= _key_set(allowed):
+            return
+        for key in data:  # the first unknown key, in the order written
             if key not in allowed:
                 problem = (_unknown(str(key), table, allowed) if table is not None
                            else _suggest(str(key), allowed))
