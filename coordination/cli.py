@@ -365,6 +365,10 @@ def main() -> NoReturn:
 
     The tool does no linear algebra, so numpy's BLAS gets one thread (unless the environment
     says otherwise): starting a pool of BLAS threads on import cost 0.01-0.02 s a command.
+
+    It ends the process without unwinding (``os._exit``), so it is the program's entry point
+    only; from Python, call the functions the commands call (or ``app`` through typer's test
+    runner).
     """
     global _own_process
     _own_process = True
@@ -411,8 +415,8 @@ def _leave(code: int) -> NoReturn:
     try:
         sys.stdout.flush()
         sys.stderr.flush()
-    except OSError:  # a closed pipe: what was written is all the reader wanted
-        code = code or 1
+    except OSError:  # a reader that closed its end early has what it wanted
+        pass
     os._exit(code)
 
 

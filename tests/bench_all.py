@@ -33,21 +33,40 @@ sys.path.insert(0, str(HERE.parent))
 from generate import building, chain, wide  # noqa: E402
 
 REPEATS = 5
+#: Rounds of the commands measured in turns.
+ROUNDS = 7
 #: Children run as an installed tool does: with byte-code cached (an installer compiles it), so
 #: a PYTHONDONTWRITEBYTECODE of the calling shell is dropped and one untimed run warms the cache.
 ENV = {k: v for k, v in os.environ.items() if k != "PYTHONDONTWRITEBYTECODE"}
 
 
+def _run(cmd: list[str]) -> tuple[float, int]:
+    start = time.perf_counter()
+    code = subprocess.run(cmd, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
+                          env=ENV).returncode
+    return time.perf_counter() - start, code
+
+
 def wall(cmd: list[str], repeats: int = REPEATS) -> tuple[float, int]:
     """Median wall time [s] of a command and its exit code (after one untimed run)."""
-    times, code = [], 0
-    subprocess.run(cmd, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, env=ENV)
-    for _ in range(repeats):
-        start = time.perf_counter()
-        code = subprocess.run(cmd, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
-                              env=ENV).returncode
-        times.append(time.perf_counter() - start)
-    return statistics.median(times), code
+    _run(cmd)
+    runs = [_run(cmd) for _ in range(repeats)]
+    return statistics.median(t for t, _ in runs), runs[-1][1]
+
+
+def in_turns(commands: dict[str, list[str]], rounds: int) -> dict[str, tuple[list[float], int]]:
+    """Each command's wall times [s] over ``rounds`` rounds that run every command once, in
+    turn (after one untimed round), and its exit code: all the commands see the machine alike,
+    which matters on a machine whose speed drifts by half within a minute."""
+    for cmd in commands.values():
+        _run(cmd)
+    times: dict[str, list[float]] = {name: [] for name in commands}
+    codes: dict[str, int] = {}
+    for _ in range(rounds):
+        for name, cmd in commands.items():
+            seconds, codes[name] = _run(cmd)
+            times[name].append(seconds)
+    return {name: (times[name], codes[name]) for name in commands}
 
 
 def peak_rss_mb(cmd: list[str]) -> float:
@@ -105,64 +124,71 @@ def main() -> None:
         quarter.write_text(building(10, 5, 10))
         n_quarter = 1 + 10 + 50 + 500
 
-        floor, _ = wall([sys.executable, "-c", "import numpy, scipy, shapely"])
-        rows = [("import floor (numpy, scipy, shapely)", floor, 0)]
         tiny = Path(tmp) / "one-final-circuit.toml"
         tiny.write_text(wide(1))
-        # the tool's own fixed cost: a check of a study of two circuits (an incomer, one final)
-        fixed, _ = wall([*exe, "check", str(tiny), "--json"])
-        rows.append(("check, 2 circuits (the fixed cost)", fixed, 0))
-        rows.append(("coordination --help", *wall([*exe, "--help"])))
-        rows.append(("times B32 (3 currents)",
-                     *wall([*exe, "times", "B32", "-i", "100", "-i", "200", "-i", "5000"])))
+        commands = {
+            "import floor (numpy, scipy, shapely)": [sys.executable, "-c",
+                                                     "import numpy, scipy, shapely"],
+            # the tool's own fixed cost: a check of a study of two circuits (incomer, one final)
+            "check, 2 circuits (the fixed cost)": [*exe, "check", str(tiny), "--json"],
+            "coordination --help": [*exe, "--help"],
+            "times B32 (3 currents)": [*exe, "times", "B32", "-i", "100", "-i", "200", "-i",
+                                       "5000"],
+        }
         for label, path in ((f"quarter ({n_quarter} circuits)", quarter),
                             ("full (2,061 circuits)", full)):
-            rows.append((f"faults, {label}", *wall([*exe, "faults", str(path), "--json"])))
-            rows.append((f"check, {label}", *wall([*exe, "check", str(path), "--json"])))
-        rows.append(("choose riser-1, full",
-                     *wall([*exe, "choose", str(full), "--circuit", "riser-1", "--json"], 1)))
+            commands[f"faults, {label}"] = [*exe, "faults", str(path), "--json"]
+            commands[f"check, {label}"] = [*exe, "check", str(path), "--json"]
+        commands["choose riser-1, full"] = [*exe, "choose", str(full), "--circuit", "riser-1",
+                                            "--json"]
+        measured = in_turns(commands, ROUNDS)
+        median = {name: statistics.median(t) for name, (t, _) in measured.items()}
+        floor = median["import floor (numpy, scipy, shapely)"]
+        fixed = median["check, 2 circuits (the fixed cost)"]
         pdf = Path(tmp) / "report.pdf"
-        rows.append(("report, office-building example",
-                     *wall([*exe, "report", str(example), "-o", str(pdf)], 1)))
+        report_s, report_code = wall([*exe, "report", str(example), "-o", str(pdf)], 1)
         pages = 0
         if pdf.exists():
             from pypdf import PdfReader
 
             pages = len(PdfReader(pdf).pages)
 
-        print(f"\n{'whole process (median of ' + str(REPEATS) + ')':44} {'wall s':>8} "
-              f"{'over floor':>10} {'exit':>4}")
-        for label, seconds, code in rows:
-            print(f"{label:44} {seconds:8.3f} {seconds - floor:10.3f} {code:4d}")
+        print(f"\n{'whole process (median of ' + str(ROUNDS) + ' rounds in turns)':44} "
+              f"{'wall s':>8} {'over floor':>10} {'exit':>4}")
+        for name, (_, code) in measured.items():
+            print(f"{name:44} {median[name]:8.3f} {median[name] - floor:10.3f} {code:4d}")
+        print(f"{'report, office-building example (one run)':44} {report_s:8.3f} "
+              f"{report_s - floor:10.3f} {report_code:4d}")
         if pages:
-            report_s = next(s for lab, s, _ in rows if lab.startswith("report"))
             print(f"report: {pages} pages, {report_s / pages:.3f} s a page")
-        ratios = []  # floor and check run in turns, so that both see the machine alike
-        for _ in range(2 * REPEATS + 1):
-            f, _ = wall([sys.executable, "-c", "import numpy, scipy, shapely"], 1)
-            c, _ = wall([*exe, "check", str(full), "--json"], 1)
-            ratios.append(c / f)
-        print(f"check full / floor, {len(ratios)} runs in turns: median "
+        full_times = measured["check, full (2,061 circuits)"][0]
+        floor_times = measured["import floor (numpy, scipy, shapely)"][0]
+        ratios = [c / f for c, f in zip(full_times, floor_times, strict=True)]
+        check_full = median["check, full (2,061 circuits)"]
+        check_quarter = median[f"check, quarter ({n_quarter} circuits)"]
+        print(f"check full / floor: {check_full / floor:.2f}x (medians); round by round "
               f"{statistics.median(ratios):.2f}x (from {min(ratios):.2f}x to {max(ratios):.2f}x)")
-        check_full = next(s for lab, s, _ in rows if lab == "check, full (2,061 circuits)")
-        check_quarter = next(s for lab, s, _ in rows if lab.startswith("check, quarter"))
-        print(f"check full / floor: {check_full / floor:.2f}x; for "
-              f"{2061 / n_quarter:.1f}x the circuits: "
+        print(f"for {2061 / n_quarter:.1f}x the circuits, check costs "
               f"{_growth(check_full, check_quarter, floor)} the time above the floor, "
               f"{_growth(check_full, check_quarter, fixed)} the time above the fixed cost")
         peak = peak_rss_mb([*exe, "check", str(full), "--json"])
         print(f"peak memory, check full: {peak:.0f} MB")
 
-        print("\ndeep and wide trees, check --json (median of 5):")
+        print(f"\ndeep and wide trees, check --json (median of {ROUNDS} rounds in turns):")
         for label, make in (("chain", chain), ("wide board", wide)):
-            times = {}
+            sizes = {}
             for n in (1250, 5000):
                 path = Path(tmp) / f"{label.replace(' ', '-')}-{n}.toml"
                 path.write_text(make(n))
-                times[n], code = wall([*exe, "check", str(path), "--json"])
-                print(f"  {label} of {n:,}: {times[n]:.3f} s (exit {code})")
-            print(f"  {label}: 4x the circuits cost {_growth(times[5000], times[1250], fixed)} "
-                  f"the time above the fixed cost ({_growth(times[5000], times[1250], floor)} "
+                sizes[n] = [*exe, "check", str(path), "--json"]
+            runs = in_turns({"floor": commands["import floor (numpy, scipy, shapely)"],
+                             "fixed": commands["check, 2 circuits (the fixed cost)"],
+                             **{str(n): cmd for n, cmd in sizes.items()}}, ROUNDS)
+            at = {name: statistics.median(t) for name, (t, _) in runs.items()}
+            for n in sizes:
+                print(f"  {label} of {n:,}: {at[str(n)]:.3f} s (exit {runs[str(n)][1]})")
+            print(f"  {label}: 4x the circuits cost {_growth(at['5000'], at['1250'], at['fixed'])} "
+                  f"the time above the fixed cost ({_growth(at['5000'], at['1250'], at['floor'])} "
                   "above the floor)")
 
         print("\nin process (first run, cold caches; tables: both text tables of check; json: the "
