@@ -18,6 +18,7 @@ measure overstates growth, and has no meaning where a small study takes less tha
 
 from __future__ import annotations
 
+import gc
 import os
 import statistics
 import subprocess
@@ -80,7 +81,16 @@ def peak_rss_mb(cmd: list[str]) -> float:
 
 
 def in_process(path: Path) -> dict[str, float]:
-    """Stage times inside one process [s]: the stages of ``check``, its tables and its JSON."""
+    """Stage times inside one process [s]: the stages of ``check``, its tables and its JSON,
+    with the cyclic garbage collector off as the command runs them (``cli.main``)."""
+    gc.disable()
+    try:
+        return _stages(path)
+    finally:
+        gc.enable()
+
+
+def _stages(path: Path) -> dict[str, float]:
     from coordination import checks, engine, faults, study
     from coordination.cli import to_json
     from coordination.devices import _band
@@ -88,7 +98,10 @@ def in_process(path: Path) -> dict[str, float]:
     _band.cache_clear()
     engine._compare.cache_clear()
     engine._first_crossing.cache_clear()
+    engine._time_at.cache_clear()
+    engine._approach.cache_clear()
     checks._operating_current_a.cache_clear()
+    gc.collect()
     t0 = time.perf_counter()
     s = study.load(path)
     t1 = time.perf_counter()
@@ -191,8 +204,8 @@ def main() -> None:
                   f"the time above the fixed cost ({_growth(at['5000'], at['1250'], at['floor'])} "
                   "above the floor)")
 
-        print("\nin process (first run, cold caches; tables: both text tables of check; json: the "
-          "JSON of check --json):")
+        print("\nin process (first run, cold caches, no cyclic GC as in the command; tables: both "
+              "text tables of check; json: the JSON of check --json):")
         for label, path in (("quarter", quarter), ("full", full)):
             stages = in_process(path)
             print(f"  {label:8} " + "  ".join(
