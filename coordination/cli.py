@@ -414,8 +414,14 @@ def _leave(code: int) -> NoReturn:
         sys.exit(code)
     try:
         sys.stdout.flush()
+    except BrokenPipeError:  # a reader that closed its end early has what it wanted
+        pass
+    except OSError as error:  # a full disk, say: the output is incomplete
+        sys.stderr.write(f"error: the output could not be written: {error.strerror or error}\n")
+        code = 2
+    try:
         sys.stderr.flush()
-    except OSError:  # a reader that closed its end early has what it wanted
+    except OSError:
         pass
     os._exit(code)
 

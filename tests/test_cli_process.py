@@ -11,6 +11,7 @@ import subprocess
 import sys
 from pathlib import Path
 
+import pytest
 from typer.testing import CliRunner
 
 from coordination.cli import BLAS_THREADS, app
@@ -98,3 +99,14 @@ def test_one_blas_thread_unless_the_environment_says_otherwise():
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, env=env,
                          cwd=ROOT, timeout=60, check=True)
     assert out.stdout.strip() == "3"
+
+
+@pytest.mark.skipif(not Path("/dev/full").exists(), reason="needs /dev/full (Linux)")
+def test_output_that_cannot_be_written_is_one_line_exit_2():
+    with open("/dev/full", "wb") as full:
+        proc = subprocess.run([sys.executable, "-m", "coordination", "check", str(OFFICE),
+                               "--json"], stdout=full, stderr=subprocess.PIPE, cwd=ROOT,
+                              timeout=120, check=False)
+    err = proc.stderr.decode("utf-8").strip()
+    assert proc.returncode == 2
+    assert err.startswith("error: ") and "\n" not in err and "Traceback" not in err
