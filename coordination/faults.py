@@ -52,7 +52,7 @@ from __future__ import annotations
 import math
 import textwrap
 from collections.abc import Mapping
-from dataclasses import asdict, dataclass, fields
+from dataclasses import dataclass, fields
 from functools import cached_property, lru_cache
 from types import MappingProxyType
 from typing import Any
@@ -397,7 +397,8 @@ class NodeFaults:
     ief_max_board_a: float  # maximum earth fault at the circuit's origin (its board)
 
     def to_json(self) -> dict[str, Any]:
-        return asdict(self)
+        """Every field by name (all plain numbers, text or None)."""
+        return {name: getattr(self, name) for name in NODE_FIELDS}
 
 
 #: NodeFaults' fields, in order.
