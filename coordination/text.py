@@ -51,18 +51,25 @@ def format_current(i_a: float | None) -> str:
 
 
 def table(headers: Sequence[str], rows: Sequence[Sequence[str]], align: str | None = None) -> str:
-    """A plain aligned table; ``align`` is one character per column, 'l' or 'r'."""
+    """A plain aligned table; ``align`` is one character per column, 'l' or 'r'.
+
+    Examples
+    --------
+    >>> print(table(["circuit", "In"], [["lights", "6 A"], ["sockets", "32 A"]], "lr"))
+    circuit    In
+    -------  ----
+    lights    6 A
+    sockets  32 A
+    """
     align = align or "l" * len(headers)
-    widths = [len(h) for h in headers]
-    for row in rows:
-        widths = [max(w, len(cell)) for w, cell in zip(widths, row, strict=True)]
-
-    def line(cells: Sequence[str]) -> str:
-        return "  ".join(c.rjust(w) if a == "r" else c.ljust(w)
-                         for c, w, a in zip(cells, widths, align, strict=True)).rstrip()
-
+    # strict: every row has a cell for every header
+    widths = [max(map(len, column)) for column in zip(headers, *rows, strict=True)]
+    # one format for every line (a building's tables run to thousands of lines)
+    fmt = "  ".join(f"{{:{'>' if a == 'r' else '<'}{w}}}" if w else "{}"
+                    for a, w in zip(align, widths, strict=True))
     rule = "  ".join("-" * w for w in widths)
-    return "\n".join([line(headers), rule, *(line(r) for r in rows)])
+    return "\n".join([fmt.format(*headers).rstrip(), rule,
+                      *(fmt.format(*row).rstrip() for row in rows)])
 
 
 def format_times(band: Band, points: Sequence[dict]) -> str:
