@@ -6,9 +6,10 @@ Run from the repository root (not collected by pytest)::
 
 It generates an invented building (an incomer, 10 risers, 5 boards each, 40 final circuits per
 board: 2,061 circuits) and a quarter-size one, then times as whole processes ``--help``, ``times``,
-``faults``, ``check``, ``choose`` on a riser and ``report`` on the multi-board example, against the
-floor any tool on these libraries pays (``python -c "import numpy, scipy, shapely"``), and the
-same stages inside one process. Peak memory is the children's maximum resident set size.
+``faults``, ``check`` (JSON, and the text tables), ``choose`` on a riser and ``report`` on the
+multi-board example, against the floor any tool on these libraries pays (``python -c "import
+numpy, scipy, shapely"``), and the same stages inside one process. Peak memory is the children's
+maximum resident set size.
 
 Growth with size is given above the floor (the issue's measure) and above the tool's own fixed
 cost, a check of a two-circuit study: a check imports neither scipy nor shapely, so its fixed
@@ -152,6 +153,7 @@ def main() -> None:
                             ("full (2,061 circuits)", full)):
             commands[f"faults, {label}"] = [*exe, "faults", str(path), "--json"]
             commands[f"check, {label}"] = [*exe, "check", str(path), "--json"]
+        commands["check, full, text tables"] = [*exe, "check", str(full)]
         commands["choose riser-1, full"] = [*exe, "choose", str(full), "--circuit", "riser-1",
                                             "--json"]
         measured = in_turns(commands, ROUNDS)
