@@ -173,6 +173,27 @@ class CheckResult:
                 out[key] = val
         return out
 
+    def json_record(self) -> dict[str, Any]:
+        """:meth:`to_json` as the encoder takes it: the same keys, with numbers left as they
+        are, since ``coordination.cli.json_bytes`` writes inf and NaN as null. Built in one
+        merge instead of a pass over the details (a building's check has 8,183 results); the
+        JSON written is the same."""
+        value, limit = self.value, self.limit
+        head = {
+            "circuit": self.circuit,
+            "check": self.check,
+            "ok": bool(self.ok),
+            "value": None if value is None else float(value),
+            "limit": None if limit is None else float(limit),
+            "unit": self.unit,
+            "reason": self.reason,
+            "basis": self.basis,
+        }
+        out = {**head, **self.details}
+        if len(out) < len(head) + len(self.details):  # a detail named like a contract key
+            out.update(head)  # the contract's value, as in to_json
+        return out
+
 
 def _result(cid: str, check: str, ok: bool, value: float, limit: float, unit: str, reason: str,
             band: Band, details: dict[str, Any]) -> CheckResult:
@@ -550,23 +571,28 @@ def overload_ok(ib_a: float | None, in_a: float, iz_a: float | None, i2_a: float
 
 
 # -------------------------------------------------------------------------------------------
-# formatting helpers (our own wording)
+# formatting helpers (our own wording), cached: a building's reasons format 38,000 numbers, most
+# of them again and again (a board's fault level for each of its circuits, the usual ratings)
+@lru_cache(maxsize=4096)
 def _a(i: float) -> str:
     if not math.isfinite(i):
         return "-"
     return f"{i / 1000:.3g} kA" if i >= 1000 else f"{i:.3g} A"
 
 
+@lru_cache(maxsize=4096)
 def _s(t: float) -> str:
     if not math.isfinite(t):
         return "never"
     return f"{t * 1000:.3g} ms" if t < 0.1 else f"{t:.3g} s"
 
 
+@lru_cache(maxsize=4096)
 def _ohm(z: float) -> str:
     return f"{z:.3g} ohm" if z < 0.1 else f"{z:.2f} ohm"
 
 
+@lru_cache(maxsize=4096)
 def _mm2(s: float) -> str:
     return "-" if not math.isfinite(s) else f"{s:.3g} mm2"
 

@@ -225,7 +225,7 @@ def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption 
     ok = analysis.ok and all(r.ok for r in results)
     if as_json:
         # held until done(): in its own process nothing is freed one object at a time
-        payload = {**analysis.to_json(), "checks": [r.to_json() for r in results],
+        payload = {**analysis.to_json(), "checks": [r.json_record() for r in results],
                    "ok": ok, "caution": CAUTION}
         echo_json(payload)
     else:

@@ -11,6 +11,7 @@ from __future__ import annotations
 import json
 import math
 from dataclasses import dataclass
+from pathlib import Path
 
 import pytest
 from typer.testing import CliRunner
@@ -24,6 +25,7 @@ from curves.mcb import mcb_band
 
 U0 = 230.0
 C_MIN = 0.95
+EXAMPLE_STUDY = Path(__file__).resolve().parents[1] / "examples" / "small-shop.toml"
 
 
 @dataclass(frozen=True)
@@ -591,3 +593,26 @@ def test_check_command_exit_code(tmp_path, text: str, code: int) -> None:
     names = {c["check"] for c in payload["checks"]}
     assert {"disconnection", "fault-energy", "breaking-capacity"} <= names
     assert all(c["ok"] for c in payload["checks"]) is (code == 0)
+
+
+# -- JSON -------------------------------------------------------------------------------------
+# common practice (JSON has no inf or NaN): the command line writes each result through
+# json_record() and the encoder, the Python API's to_json() writes None itself; the two agree.
+def test_json_record_writes_what_to_json_gives() -> None:
+    from coordination.cli import json_bytes
+
+    never = checks.CheckResult("c1", "disconnection", False, math.inf, 0.4, "s", "never",
+                               "envelope", {"ia_a": math.inf, "zs_ohm": math.nan, "final": True,
+                                "source": "IEC 60364-4-41", "value": 123.0,
+                                "cases": ({"t_max_s": None},)})
+    results = [never, *run_one(one_circuit(), node(zs_ohm=7.0, ief_min_a=30.0))]
+    text = EXAMPLE_STUDY.read_text(encoding="utf-8")
+    for earthing in ("TN-C-S", "TT"):  # TT: earth faults too small for any overcurrent device
+        s = study.loads(text.replace('earthing = "TN-C-S"', f'earthing = "{earthing}"'))
+        results += checks.run(s, faults.compute(s))
+    assert any(not math.isfinite(v) for r in results for v in r.details.values()
+               if isinstance(v, float))
+    for r in results:  # the same bytes: keys, order, numbers, null for never
+        assert json_bytes(r.json_record()) == json_bytes(r.to_json())
+    # a detail named like a contract key never replaces the contract's value
+    assert json.loads(json_bytes(never.json_record()))["value"] is None
