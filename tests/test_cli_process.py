@@ -110,3 +110,27 @@ def test_output_that_cannot_be_written_is_one_line_exit_2():
     err = proc.stderr.decode("utf-8").strip()
     assert proc.returncode == 2
     assert err.startswith("error: ") and "\n" not in err and "Traceback" not in err
+
+
+@pytest.mark.parametrize("block", [1, 2, 7, 500, 100_000])
+def test_json_written_a_block_at_a_time_is_the_whole(block, monkeypatch):
+    # the same bytes as the payload built whole and encoded at once, whatever the block size
+    from coordination import checks, cli, engine, faults, study
+
+    monkeypatch.setattr(cli, "JSON_BLOCK", block)
+    streamed = CliRunner().invoke(app, ["check", str(OFFICE), "--json"]).stdout_bytes
+    s = study.load(OFFICE)
+    levels = faults.compute(s)
+    analysis = engine.analyse(s, levels)
+    results = checks.run(s, levels)
+    whole = {**analysis.to_json(), "checks": [r.to_json() for r in results],
+             "ok": analysis.ok and all(r.ok for r in results), "caution": cli.CAUTION}
+    assert streamed == cli.json_bytes(whole) + b"\n"
+
+
+def test_empty_records_are_an_empty_list(capsys):
+    from coordination.cli import Records, echo_json, json_bytes
+
+    echo_json({"a": Records([], str), "b": 1, "c": Records([1.5, 2], lambda x: {"x": x})})
+    out = capsys.readouterr().out
+    assert out == json_bytes({"a": [], "b": 1, "c": [{"x": 1.5}, {"x": 2}]}).decode() + "\n"
