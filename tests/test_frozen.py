@@ -1,5 +1,8 @@
-"""`coordination.frozen.quick_init`: the same instances as dataclasses' own ``__init__`` makes
-(each decorated class is compared with a twin that dataclasses builds from the same fields)."""
+"""`coordination.frozen.quick_init`: the same instances as dataclasses' own ``__init__`` makes.
+
+The reference is the standard library's dataclasses: each decorated class is compared with a
+twin that dataclasses builds from the same fields.
+"""
 
 from __future__ import annotations
 
