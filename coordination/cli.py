@@ -239,8 +239,9 @@ def faults(study_path: StudyArg, as_json: JsonOption = False) -> None:
 
     s = load_study(study_path)
     levels = fault_levels.compute(s)
-    if as_json:
-        payload = levels.to_json()  # held until done(), as in check
+    if as_json:  # FaultLevels.to_json(), its nodes written a block at a time (as in check)
+        payload = {"nodes": Records(levels.nodes, fault_levels.NodeFaults.to_json),
+                   "origin": levels.origin_json(), "convention": levels.convention}
         echo_json(payload)
     else:
         typer.echo(fault_levels.format_table(s, levels))

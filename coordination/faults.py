@@ -426,13 +426,14 @@ class FaultLevels:
 
     def to_json(self) -> dict[str, Any]:
         """The contract's JSON: ``{"nodes": [...], "origin": {...}, "convention": str}``."""
-        return {
-            "nodes": [n.to_json() for n in self.nodes],
-            "origin": {"ik3_max_a": self.origin_ik3_a, "ik1_max_a": self.origin_ik1_a,
-                       "ze_ohm": self.ze_ohm, "u0_v": self.u0_v, "c_max": self.c_max,
-                       "c_min": self.c_min, "k_t": self.k_t, "source": self.source},
-            "convention": self.convention,
-        }
+        return {"nodes": [n.to_json() for n in self.nodes], "origin": self.origin_json(),
+                "convention": self.convention}
+
+    def origin_json(self) -> dict[str, Any]:
+        """The ``origin`` of :meth:`to_json`: the supply's fault levels and factors."""
+        return {"ik3_max_a": self.origin_ik3_a, "ik1_max_a": self.origin_ik1_a,
+                "ze_ohm": self.ze_ohm, "u0_v": self.u0_v, "c_max": self.c_max,
+                "c_min": self.c_min, "k_t": self.k_t, "source": self.source}
 
 
 def convention_text(supply: Supply) -> str:

@@ -134,3 +134,13 @@ def test_empty_records_are_an_empty_list(capsys):
     echo_json({"a": Records([], str), "b": 1, "c": Records([1.5, 2], lambda x: {"x": x})})
     out = capsys.readouterr().out
     assert out == json_bytes({"a": [], "b": 1, "c": [{"x": 1.5}, {"x": 2}]}).decode() + "\n"
+
+
+@pytest.mark.parametrize("block", [1, 500])
+def test_faults_json_written_a_block_at_a_time_is_the_whole(block, monkeypatch):
+    from coordination import cli, faults, study
+
+    monkeypatch.setattr(cli, "JSON_BLOCK", block)
+    streamed = CliRunner().invoke(app, ["faults", str(OFFICE), "--json"]).stdout_bytes
+    whole = faults.compute(study.load(OFFICE)).to_json()
+    assert streamed == cli.json_bytes(whole) + b"\n"
