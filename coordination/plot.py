@@ -388,6 +388,8 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
     i_min = 10.0 ** math.floor(math.log10(0.7 * min(lows))) if lows else 1.0
     top = max(faults_a) if faults_a else 100.0 * max(b.rating_a for b in bands.values())
     i_max = 10.0 ** math.ceil(math.log10(1.3 * top))
+    if i_max <= i_min:  # a fault level below every pickup: still a decade to draw in
+        i_max = 10.0 * i_min
 
     if ax is None:
         fig = Figure(figsize=(9.0, 7.6))

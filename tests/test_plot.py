@@ -482,3 +482,17 @@ def test_a_large_crossover_zone_has_no_extra_mark(workshop):
     found = artists(plot_circuit(s, levels, analysis, "final").axes[0])
     assert "zone:sub>final" in found
     assert "zone-mark:sub>final" not in found
+
+
+def test_a_fault_level_below_every_pickup_still_spans_a_decade():
+    # common practice: log axes need a span; a supply too weak to reach the pickup is drawn anyway
+    import warnings
+
+    s = study.loads('[supply]\npfc_a = 50\nze_ohm = 5.0\n[[circuit]]\nid = "main"\n'
+                    'from = "supply"\ndevice = "gG400"\n')
+    levels = faults.compute(s)
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")  # matplotlib warns of a singular range
+        ax = plot_circuit(s, levels, engine.analyse(s, levels), "main").axes[0]
+    lo, hi = ax.get_xlim()
+    assert hi >= 10.0 * lo
