@@ -11,10 +11,12 @@ multi-board example, against the floor any tool on these libraries pays (``pytho
 numpy, scipy, shapely"``), and the same stages inside one process. Peak memory is the children's
 maximum resident set size.
 
-Growth with size is given above the floor (the issue's measure) and above the tool's own fixed
-cost, a check of a two-circuit study: a check imports neither scipy nor shapely, so its fixed
-cost is below the floor, and the time above the floor understates what a small study costs (the
-measure overstates growth, and has no meaning where a small study takes less than the floor).
+Commands run in rounds, each once a round and in turns, so that all see the machine alike (its
+speed drifts by half within a minute); the table gives medians. Growth with the building's size
+is given above the floor (the issue's measure) and above the tool's own fixed cost, a check of a
+two-circuit study: a check imports neither scipy nor shapely, so its fixed cost is below the
+floor. Growth for a chain and a wide board is the ratio of the work itself (load to JSON) in one
+process, round by round, since differences of whole processes drown in the drift.
 """
 
 from __future__ import annotations
