@@ -838,6 +838,16 @@ def _overload(study: Study, cid: str, band: Band) -> CheckResult | None:
     iz = circuit.cable.iz_a if circuit.cable is not None else None
     if ib is None and iz is None:
         return None
+    ok, value, limit, reason, details = _overload_verdict(band, ib, iz)
+    return CheckResult(cid, "overload", ok, value, limit, "A", reason, band.basis, details)
+
+
+@lru_cache(maxsize=4096)
+def _overload_verdict(band: Band, ib: float | None,
+                      iz: float | None) -> tuple[bool, float, float, str, Mapping[str, Any]]:
+    """The overload check of a device with its load and cable: ok, value [A], limit [A], the
+    reason and the details (a read-only view, shared by the circuits that repeat the three, as
+    many of a building's do)."""
     in_a = _in_a(band)
     i2 = float(band.pickup_max_a)
     terms = overload_conditions(ib, in_a, iz, i2)
@@ -887,7 +897,7 @@ def _overload(study: Study, cid: str, band: Band) -> CheckResult | None:
                     details["smaller_device"] = smaller
             reason = (f"{band.name} (I2 {_a(i2)}): {'; '.join(failing)}: choose "
                       f"{' or '.join(fixes)}")
-    return _result(cid, "overload", ok, value, limit, "A", reason, band, details)
+    return ok, value, limit, reason, MappingProxyType(details)
 
 
 def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protected: bool,
