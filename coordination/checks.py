@@ -659,22 +659,15 @@ class _Edges:
         pair = self._pair(band, i)
         return float(band.t_max(i)) if pair is None else pair[0]
 
-    def i2t(self, band: Band, i: float) -> float:
-        """Maximum let-through energy at ``i`` [A2s]."""
-        pair = self._pair(band, i)
-        return float(band.i2t_let_through(i)) if pair is None else pair[1]
-
     def values_of(self, band: Band) -> Mapping[float, tuple[float, float]]:
-        """The band's (upper edge [s], let-through [A2s]) by current [A], as gathered (may be
-        empty: :meth:`both` evaluates a current not in it)."""
+        """The band's (upper edge [s], maximum let-through [A2s]) by current [A], as gathered
+        (may be empty; :func:`_edge_and_energy` evaluates a current not in it)."""
         return self._values.get(band, _NOTHING)
 
-    def both(self, band: Band, i: float) -> tuple[float, float]:
-        """:meth:`t_max` and :meth:`i2t` at ``i`` (a positive current) in one look-up."""
-        pair = self._pair(band, i)
-        if pair is None:
-            return float(band.t_max(i)), float(band.i2t_let_through(i))
-        return pair
+
+def _edge_and_energy(band: Band, i: float) -> tuple[float, float]:
+    """Upper edge [s] and maximum let-through I2t [A2s] of a band at one current, evaluated."""
+    return float(band.t_max(i)), float(band.i2t_let_through(i))
 
 
 def _never(band: Band, i: float) -> str:
@@ -948,8 +941,7 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
     for what, conductor, i, s, k in cases:
         if i is None or not (i > 0):
             continue
-        pair = computed.get(i)
-        t, energy = edges.both(band, i) if pair is None else pair
+        t, energy = computed.get(i) or _edge_and_energy(band, i)
         need = adiabatic_min_csa_mm2(energy, k) if finite(energy) else math.inf
         if t > ADIABATIC_LIMIT_S:
             if conductor == "line" and overload_protected:
