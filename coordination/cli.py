@@ -451,15 +451,19 @@ def _leave(code: int) -> NoReturn:
     """
     if _figures:
         sys.exit(code)
+    out, err = sys.stdout, sys.stderr  # None where the stream was closed before the start
     try:
-        sys.stdout.flush()
+        if out is not None:
+            out.flush()
     except BrokenPipeError:  # a reader that closed its end early has what it wanted
         pass
     except OSError as error:  # a full disk, say: the output is incomplete
-        sys.stderr.write(f"error: the output could not be written: {error.strerror or error}\n")
+        if err is not None:
+            err.write(f"error: the output could not be written: {error.strerror or error}\n")
         code = 2
     try:
-        sys.stderr.flush()
+        if err is not None:
+            err.flush()
     except OSError:
         pass
     os._exit(code)

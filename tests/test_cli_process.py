@@ -144,3 +144,15 @@ def test_faults_json_written_a_block_at_a_time_is_the_whole(block, monkeypatch):
     streamed = CliRunner().invoke(app, ["faults", str(OFFICE), "--json"]).stdout_bytes
     whole = faults.compute(study.load(OFFICE)).to_json()
     assert streamed == cli.json_bytes(whole) + b"\n"
+
+
+@pytest.mark.skipif(sys.platform == "win32", reason="closes a descriptor before the start")
+def test_a_closed_stdout_is_no_traceback():
+    import os
+
+    # a command started with its stdout closed (`>&-`): Python sets sys.stdout to None
+    proc = subprocess.run([sys.executable, "-m", "coordination", "check", str(OFFICE), "--json"],
+                          stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, cwd=ROOT,
+                          timeout=120, check=False, preexec_fn=lambda: os.close(1))
+    assert proc.returncode in (0, 1)
+    assert b"Traceback" not in proc.stderr
