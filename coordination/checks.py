@@ -147,37 +147,25 @@ class CheckResult:
 
     def to_json(self) -> dict[str, Any]:
         """The contract keys (circuit, check, ok, value, limit, unit) and more; ``None`` for
-        never."""
-        out = {
-            "circuit": self.circuit,
-            "check": self.check,
-            "ok": bool(self.ok),
-            "value": _finite(self.value),
-            "limit": _finite(self.limit),
-            "unit": self.unit,
-            "reason": self.reason,
-            "basis": self.basis,
-        }
+        never (:meth:`json_record` with every number finite or ``None``)."""
+        out = self.json_record()
         finite = math.isfinite
-        for key, val in self.details.items():
-            if key in out:
-                continue
+        for key, val in out.items():  # values replaced in place: the keys stay as they are
             cls = val.__class__
             if cls is float:  # the common case first
-                out[key] = val if finite(val) else None
+                if not finite(val):
+                    out[key] = None
             elif cls is str or cls is bool or val is None:
-                out[key] = val
+                continue
             elif isinstance(val, float | int) and not isinstance(val, bool):
                 out[key] = _finite(val)
-            else:
-                out[key] = val
         return out
 
     def json_record(self) -> dict[str, Any]:
-        """:meth:`to_json` as the encoder takes it: the same keys, with numbers left as they
-        are, since ``coordination.cli.json_bytes`` writes inf and NaN as null. Built in one
-        merge instead of a pass over the details (a building's check has 8,183 results); the
-        JSON written is the same."""
+        """The contract keys and the details, with numbers left as they are: for the encoder,
+        since ``coordination.cli.json_bytes`` writes inf and NaN as null (the same JSON as
+        :meth:`to_json`, built in one merge, without a pass over the details: a building's
+        check has 8,183 results)."""
         value, limit = self.value, self.limit
         head = {
             "circuit": self.circuit,
