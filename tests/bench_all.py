@@ -94,16 +94,14 @@ def in_process(path: Path) -> dict[str, float]:
 
 
 def _stages(path: Path) -> dict[str, float]:
-    from coordination import checks, engine, faults, study
+    from coordination import checks, devices, engine, faults, study
     from coordination.cli import to_json
-    from coordination.devices import _band
 
-    _band.cache_clear()
-    engine._compare.cache_clear()
-    engine._first_crossing.cache_clear()
-    engine._time_at.cache_clear()
-    engine._approach.cache_clear()
-    checks._operating_current_a.cache_clear()
+    for module in (checks, devices, engine, faults, study):  # every cache, as a new process
+        for value in vars(module).values():
+            if callable(getattr(value, "cache_clear", None)):
+                value.cache_clear()
+    study._CABLES.clear()
     gc.collect()
     t0 = time.perf_counter()
     s = study.load(path)
@@ -117,7 +115,7 @@ def _stages(path: Path) -> dict[str, float]:
     engine.format_table(s, levels, analysis)
     checks.format_table(results)
     t5 = time.perf_counter()
-    to_json({**analysis.to_json(), "checks": [r.to_json() for r in results]})
+    to_json({**analysis.to_json(), "checks": [r.json_record() for r in results]})
     t6 = time.perf_counter()
     return {"load": t1 - t0, "faults": t2 - t1, "engine": t3 - t2, "checks": t4 - t3,
             "tables": t5 - t4, "json": t6 - t5, "pairs": len(analysis.pairs)}
