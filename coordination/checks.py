@@ -772,10 +772,12 @@ def _next_device(band: Band, ib_a: float) -> tuple[str, float, float, bool] | No
 def _family_member(band: Band, rating: float) -> Band:
     """Another rating of an MCB's or a gG fuse-link's family, on the same basis and settings."""
     if band.family == "mcb":
-        from curves.mcb import mcb_band
+        from curves.mcb import class_applies, mcb_band
         st = band.settings
-        return mcb_band(str(st.get("type", band.name[0])), rating, basis=band.basis,
-                        energy_class=int(st.get("energy_class", 3)),
+        curve = str(st.get("type", band.name[0]))
+        cls = st.get("energy_class")  # a class kept where EN 60898-1 Annex ZA has one
+        return mcb_band(curve, rating, basis=band.basis,
+                        energy_class=cls if cls and class_applies(curve, rating, cls) else None,
                         icn_a=float(st.get("icn_a", 6000.0)))
     from curves.fuse import gg_band
     return gg_band(rating, basis=band.basis)

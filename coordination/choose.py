@@ -222,6 +222,10 @@ class Candidate:
 # ---------------------------------------------------------------------------------------------
 # specs
 def _mcb_spec(curve: str, rating: float, energy_class: int, icn_a: float) -> str | dict:
+    from curves.mcb import class_applies
+
+    if not class_applies(curve, rating, energy_class):
+        energy_class = MCB_DEFAULT_CLASS  # EN 60898-1 Annex ZA has none here: the shorthand's
     if energy_class == MCB_DEFAULT_CLASS and icn_a == MCB_DEFAULT_ICN_A:
         return f"{curve}{rating:g}"
     if energy_class == MCB_DEFAULT_CLASS and (icn_a / 1000).is_integer():
@@ -1541,6 +1545,11 @@ def _lower_let_through(problem: _Problem, p: _Pair) -> tuple[str | Mapping[str, 
     return None if best is None else (best[1], best[2])
 
 
+def _energy_class_text(band: Band) -> str:
+    cls = band.settings.get("energy_class")
+    return "no energy-limiting class" if cls is None else f"class {cls}"
+
+
 def _remedy_let_through(problem: _Problem, groups: list[Any], band: Band,
                         failing: list[tuple[_Pair, Any]]) -> tuple[bool, str] | None:
     """Downstream devices with a lower let-through, only where the limit is not the
@@ -1562,7 +1571,7 @@ def _remedy_let_through(problem: _Problem, groups: list[Any], band: Band,
     winner, found, failures = _search_variant(problem, variant,
                                               _groups_where(problem, groups, {None}))
     items = list(swaps.items())
-    what = ", ".join(f"{alt.name} (class {MCB_DEFAULT_CLASS}) for {p.other!r}"
+    what = ", ".join(f"{alt.name} ({_energy_class_text(alt)}) for {p.other!r}"
                      f"{' and alike' if p.twins else ''} instead of {p.band.name}"
                      for p, (_, alt) in items[:REMEDY_PAIRS])
     if len(items) > REMEDY_PAIRS:

@@ -381,6 +381,13 @@ def _closest_approach_time(up: Band, down: Band, lo: float, hi: float, margin: f
 
 
 @lru_cache(maxsize=65536)
+def _in_energy_region(t_s: float) -> bool:
+    """Whether a crossing at time ``t_s`` is decided by energy: at or below ENERGY_REGION_S,
+    where the edges are equivalent times I2t / I^2 (a fuse's typical edge is flat at exactly
+    0.01 s until its energy limit takes over)."""
+    return t_s <= ENERGY_REGION_S * (1.0 + EQUAL_RTOL)
+
+
 def _compare(up: Band, down: Band, lo: float, hi: float, margin: float, interval_s: float,
              tested: float | None) -> Selectivity:
     window = (lo, hi)
@@ -409,7 +416,7 @@ def _compare(up: Band, down: Band, lo: float, hi: float, margin: float, interval
 
     if limit is None:
         t = _closest_approach_time(up, down, lo, hi, margin, interval_s)
-        decided: DecidedBy = ("energy" if t is not None and t < ENERGY_REGION_S
+        decided: DecidedBy = ("energy" if t is not None and _in_energy_region(t)
                               else "time-current")
         return Selectivity("total", None, decided, window, note=note, time_s=t)
 
@@ -417,7 +424,7 @@ def _compare(up: Band, down: Band, lo: float, hi: float, margin: float, interval
     if note:  # the upstream's instantaneous current pickup ends selectivity, not an energy test
         decided = "time-current"
     else:
-        decided = "energy" if t < ENERGY_REGION_S else "time-current"
+        decided = "energy" if _in_energy_region(t) else "time-current"
     verdict = "none" if limit <= down.pickup_max_a * (1 + EQUAL_RTOL) else "partial"
     if verdict == "none" and not note:
         note = "the bands meet in the downstream device's overload region"

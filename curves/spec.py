@@ -2,8 +2,9 @@
 
 Shorthand (case of the letters does not matter):
 
-* ``"B32"``, ``"C16"``, ``"D10"``: an IEC 60898-1 MCB of that type and rating, energy-limiting
-  class 3, Icn 6 kA.
+* ``"B32"``, ``"C16"``, ``"D10"``: an IEC 60898-1 MCB of that type and rating, Icn 6 kA,
+  energy-limiting class 3 where EN 60898-1 Annex ZA has one (types B and C up to 32 A; none
+  for type D and above 32 A).
 * ``"gG100"``: an IEC 60269 gG fuse-link of that rating.
 * Optional suffix, after a space, ``/`` or ``,``: the breaking capacity in kA, e.g.
   ``"C16 10kA"`` (MCB Icn) or ``"gG100/80kA"`` (fuse-link breaking capacity).
@@ -11,6 +12,7 @@ Shorthand (case of the letters does not matter):
 Inline tables (TOML, with a ``family`` key; keys carry units)::
 
     {family = "mcb", type = "C", In_a = 16, energy_class = 3, icn_a = 10000}
+    {family = "mcb", type = "D", In_a = 32, let_through_a2s = [[3000, 40000], [10000, 250000]]}
     {family = "gG", In_a = 100, breaking_capacity_a = 80000}
     {family = "tm", In_a = 250, Ir_x = 0.8, Ii_x = 10, icu_a = 36000}
     {family = "electronic", In_a = 630, Ir_x = 0.8, tr_s = 8, Isd_x = 6, tsd_s = 0.2,
@@ -43,7 +45,7 @@ _ALIASES = {"mcb": "mcb", "gg": "gG", "tm": "tm", "breaker-tm": "tm",
 
 #: Keys each inline family takes (besides ``family``).
 FAMILY_KEYS: dict[str, tuple[str, ...]] = {
-    "mcb": ("type", "In_a", "energy_class", "icn_a"),
+    "mcb": ("type", "In_a", "energy_class", "icn_a", "let_through_a2s"),
     "gG": ("In_a", "breaking_capacity_a"),
     "tm": ("In_a", "Ir_a", "Ir_x", "Ii_a", "Ii_x", "icu_a"),
     "electronic": ("In_a", "Ir_a", "Ir_x", "tr_s", "Isd_a", "Isd_x", "tsd_s", "sd_i2t", "Ii_a",
@@ -54,7 +56,8 @@ FAMILY_KEYS: dict[str, tuple[str, ...]] = {
 _REQUIRED = {"mcb": ("type", "In_a"), "gG": ("In_a",), "tm": ("In_a",),
              "electronic": ("In_a",), "datasheet": ("In_a", "lower", "upper")}
 #: Keys whose values are not plain positive numbers (checked by the family's own function).
-_NOT_NUMBERS = {"type", "name", "lower", "upper", "let_through", "sd_i2t", "Ii_x"}
+_NOT_NUMBERS = {"type", "name", "lower", "upper", "let_through", "let_through_a2s", "sd_i2t",
+                "Ii_x"}
 
 _SHORTHAND = re.compile(
     r"^(?P<kind>[bcd]|gg)\s*(?P<rating>\d+(?:\.\d+)?)"
@@ -153,19 +156,21 @@ def _in_series(rating: float, series: tuple[float, ...], what: str) -> float:
                      f"{', '.join(f'{r:g}' for r in series)} A", key="In_a")
 
 
-def _mcb(curve_type: Any, rating: Any, basis: str, energy_class: Any = 3,
-         icn_a: Any = 6000.0) -> Band:
+def _mcb(curve_type: Any, rating: Any, basis: str, energy_class: Any = None,
+         icn_a: Any = 6000.0, let_through_a2s: Any = None) -> Band:
     from curves.mcb import MCB_RATINGS_A, mcb_band
 
     if not isinstance(curve_type, str) or curve_type.strip().upper() not in ("B", "C", "D"):
         raise InputError(f"MCB type must be \"B\", \"C\" or \"D\", not {curve_type!r}",
                          key="type")
     rating_a = _in_series(positive_number("In_a", rating), MCB_RATINGS_A, "MCB")
-    if isinstance(energy_class, bool) or energy_class not in (1, 2, 3):
+    if energy_class is not None and (isinstance(energy_class, bool)
+                                     or energy_class not in (1, 2, 3)):
         raise InputError(f"energy_class must be 1, 2 or 3, not {energy_class!r}",
                          key="energy_class")
     return mcb_band(curve_type.strip().upper(), rating_a, basis=basis,
-                    energy_class=int(energy_class), icn_a=positive_number("icn_a", icn_a))
+                    energy_class=None if energy_class is None else int(energy_class),
+                    icn_a=positive_number("icn_a", icn_a), let_through_a2s=let_through_a2s)
 
 
 def _gg(rating: Any, basis: str, breaking_capacity_a: Any = None) -> Band:
@@ -187,7 +192,7 @@ def _from_shorthand(text: str, basis: str) -> Band:
     basis = _standard_basis(basis, "gG" if kind == "GG" else "mcb")
     if kind == "GG":
         return _gg(rating, basis, cap)
-    return _mcb(kind, rating, basis, 3, 6000.0 if cap is None else cap)
+    return _mcb(kind, rating, basis, None, 6000.0 if cap is None else cap)
 
 
 def _table_family(spec: Mapping[str, Any]) -> str:
@@ -230,8 +235,8 @@ def _from_table(spec: Mapping[str, Any], basis: str) -> Band:
         return datasheet_band(**table)
     basis = _standard_basis(basis, family)
     if family == "mcb":
-        return _mcb(table["type"], table["In_a"], basis, table.get("energy_class", 3),
-                    table.get("icn_a", 6000.0))
+        return _mcb(table["type"], table["In_a"], basis, table.get("energy_class"),
+                    table.get("icn_a", 6000.0), table.get("let_through_a2s"))
     if family == "gG":
         return _gg(table["In_a"], basis, table.get("breaking_capacity_a"))
     from curves.breaker import electronic_band, thermal_magnetic_band

@@ -15,7 +15,7 @@ from hypothesis import strategies as st
 from curves.band import Band
 from curves.errors import InputError
 from curves.fuse import GG_RATINGS_A, gg_band
-from curves.mcb import MCB_INSTANTANEOUS, MCB_RATINGS_A, mcb_band
+from curves.mcb import MCB_INSTANTANEOUS, MCB_RATINGS_A, class_applies, mcb_band
 
 BASES = ("typical", "envelope")
 #: IEC 60898-1 standard values of rated short-circuit capacity Icn [A] (REFERENCE.md, from memory).
@@ -25,14 +25,16 @@ ROUNDING = 1e-12
 #: A dense current grid from 0.3 A to 300 kA (log-spaced).
 GRID_A = np.logspace(math.log10(0.3), math.log10(3e5), 6001)
 
+# EN 60898-1 Annex ZA: classes 2 and 3 exist for types B and C up to 32 A only (None: the default)
 mcb_kwargs = st.fixed_dictionaries(
     {
         "curve_type": st.sampled_from(sorted(MCB_INSTANTANEOUS)),
         "rating_a": st.sampled_from(MCB_RATINGS_A),
-        "energy_class": st.sampled_from((1, 2, 3)),
+        "energy_class": st.sampled_from((None, 1, 2, 3)),
         "basis": st.sampled_from(BASES),
     }
-)
+).filter(lambda kw: kw["energy_class"] is None
+         or class_applies(kw["curve_type"], kw["rating_a"], kw["energy_class"]))
 any_band = st.one_of(
     mcb_kwargs.map(lambda kw: mcb_band(**kw)),
     st.builds(gg_band, st.sampled_from(GG_RATINGS_A), basis=st.sampled_from(BASES)),
@@ -80,7 +82,10 @@ def test_larger_mcb_rating_never_left(kw: dict, step: int) -> None:
     if index + step >= len(MCB_RATINGS_A):
         step = len(MCB_RATINGS_A) - 1 - index
     small = mcb_band(**kw)
-    large = mcb_band(**{**kw, "rating_a": MCB_RATINGS_A[index + step]})
+    large_a = MCB_RATINGS_A[index + step]
+    cls = kw["energy_class"]  # a larger rating outside Annex ZA has no class (no energy limit)
+    cls = cls if cls is not None and class_applies(kw["curve_type"], large_a, cls) else None
+    large = mcb_band(**{**kw, "rating_a": large_a, "energy_class": cls})
     assert np.all(large.t_min(GRID_A) >= small.t_min(GRID_A))
     assert np.all(large.t_max(GRID_A) >= small.t_max(GRID_A))
 
@@ -271,3 +276,31 @@ def test_bad_gg_input_raises_input_error_with_key(case: tuple[str, dict]) -> Non
         gg_band(**kwargs)
     assert caught.value.key == key
     assert "\n" not in str(caught.value)
+
+
+def _pickup_grid(band: Band) -> np.ndarray:
+    """A dense grid with every pickup and instantaneous current exactly and one ulp either side."""
+    marks = [band.pickup_min_a, band.pickup_max_a, band.instantaneous_a]
+    marks += [band.rating_a * x for x in (1.13, 1.25, 1.45, 1.6, 2.55, 3, 5, 10, 20)]
+    exact = np.array([m for m in marks if m is not None and math.isfinite(m)], dtype=float)
+    ulps = np.concatenate([np.nextafter(exact, 0.0), exact, np.nextafter(exact, np.inf)])
+    return np.sort(np.concatenate([GRID_A, ulps]))
+
+
+ALL_STANDARD_BANDS = [
+    *[("mcb", t, r, b) for t in sorted(MCB_INSTANTANEOUS) for r in MCB_RATINGS_A for b in BASES],
+    *[("gG", "", r, b) for r in GG_RATINGS_A for b in BASES],
+]
+
+
+# common practice: edges never rise with current, checked on a dense grid that holds every pickup
+# exactly and one ulp either side (every MCB type and rating, every gG rating, both bases)
+@pytest.mark.parametrize(("family", "curve_type", "rating_a", "basis"), ALL_STANDARD_BANDS)
+def test_edges_never_rise_across_the_pickups(family: str, curve_type: str, rating_a: float,
+                                              basis: str) -> None:
+    band = (mcb_band(curve_type, rating_a, basis=basis) if family == "mcb"
+            else gg_band(rating_a, basis=basis))
+    grid = _pickup_grid(band)
+    for edge in edges_on(band, grid):
+        rises = edge[1:] > edge[:-1] * (1 + ROUNDING)
+        assert not rises.any(), (band.name, basis, grid[1:][rises][:3])

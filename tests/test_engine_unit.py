@@ -439,8 +439,8 @@ def test_overlap_starts_at_the_limit_on_invented_bands(monkeypatch, study_kwargs
 SETTINGS_STUDY = Study("invented plant room", Supply(pfc_a=16_000.0), (
     Circuit("inc", "supply", {"family": "electronic", "In_a": 400, "Ir_x": 1.0, "tr_s": 2,
                               "Isd_x": 10, "tsd_s": 0.1, "Ii_x": "off"}),
-    Circuit("tm", "inc", {"family": "tm", "In_a": 100, "Ir_x": 1.0, "Ii_x": 10}),
-    Circuit("pump", "tm", "gG63"),
+    Circuit("tm", "inc", {"family": "tm", "In_a": 100, "Ir_x": 0.9, "Ii_x": 10}),
+    Circuit("pump", "tm", "gG50"),
     Circuit("el", "inc", {"family": "electronic", "In_a": 250, "Ir_x": 0.8, "tr_s": 4,
                           "Isd_x": 6, "tsd_s": 0.1, "Ii_x": "off"}),
     Circuit("fan", "el", "gG63"),

@@ -65,7 +65,7 @@ def test_mcb_shorthand_with_breaking_capacity(text, capacity_a):
 @pytest.mark.parametrize("spec", [
     {"family": "mcb", "type": "B", "In_a": 32, "icn_a": 7000},
     {"family": "mcb", "type": "C", "In_a": 16, "icn_a": 50000},
-    {"family": "mcb", "type": "D", "In_a": 10, "energy_class": 2, "icn_a": 12500},
+    {"family": "mcb", "type": "C", "In_a": 10, "energy_class": 2, "icn_a": 12500},
     "B32 7kA",
     "C16/5kA",
 ])

@@ -13,7 +13,7 @@ import pytest
 
 from curves.band import Band
 from curves.errors import InputError
-from curves.fuse import GG_RATINGS_A, gg_band
+from curves.fuse import GG_RATINGS_A, gg_band, gg_envelope, gg_envelope_lower
 
 #: Allowance for floating-point rounding in the inequalities below (relative).
 REL = 1e-9
@@ -139,10 +139,27 @@ def test_envelope_passes_through_the_gates(
     rating_a: float, imin_10s: float, imax_5s: float, imin_0_1s: float, imax_0_1s: float
 ) -> None:
     band = gg_band(rating_a, basis="envelope")
+    env = gg_envelope(rating_a)
     times = np.concatenate(
-        [band.t_min([imin_10s, imin_0_1s]), band.t_max([imax_5s, imax_0_1s])]
+        [gg_envelope_lower(np.array([imin_10s, imin_0_1s]), env),
+         band.t_max([imax_5s, imax_0_1s])]
     )
     np.testing.assert_allclose(times, [10.0, 0.1, 5.0, 0.1], rtol=1e-9)
+    # the band's lower edge is the gates' or, from 25 A, held up by the IEC 60269 1.6:1
+    # selectivity requirement: never below a gate
+    assert np.all(band.t_min([imin_10s, imin_0_1s]) >= np.array([10.0, 0.1]) * (1 - 1e-9))
+
+
+# IEC 60269-1, conventional non-fusing current: no melting within the conventional time there;
+# the envelope's pre-arcing edge passes through that point continuously (from memory)
+@pytest.mark.parametrize("rating_a", GG_RATINGS_A)
+def test_envelope_lower_edge_continuous_at_the_non_fusing_current(rating_a: float) -> None:
+    k_nf, _, t_conv = conventional(rating_a)
+    band = gg_band(rating_a, basis="envelope")
+    i_nf = k_nf * rating_a
+    assert band.t_min(i_nf) == pytest.approx(t_conv, rel=1e-12)
+    assert band.t_min(i_nf * (1 + 1e-9)) == pytest.approx(t_conv, rel=1e-6)
+    assert band.t_min(i_nf * (1 - 1e-9)) == np.inf
 
 
 # IEC 60269-1, conventional non-fusing current (no operation within the conventional time) and

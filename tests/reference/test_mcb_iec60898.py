@@ -12,7 +12,7 @@ import numpy as np
 import pytest
 
 from curves.errors import InputError
-from curves.mcb import mcb_band
+from curves.mcb import class_applies, mcb_band
 
 #: Allowance for floating-point rounding in the inequalities below (relative).
 REL = 1e-9
@@ -94,11 +94,13 @@ def test_no_trip_below_the_lower_instantaneous_multiple(
 
 
 # IEC 60898-1, tests e: upper instantaneous multiple (B 5, C 10, D 20 In), trip within 0.1 s
-@pytest.mark.parametrize("energy_class", (1, 2, 3))
+@pytest.mark.parametrize("energy_class", (None, 1, 2, 3))
 @pytest.mark.parametrize(("curve_type", "rating_a", "basis"), CASES)
 def test_trip_at_the_upper_instantaneous_multiple(
-    curve_type: str, rating_a: float, basis: str, energy_class: int
+    curve_type: str, rating_a: float, basis: str, energy_class: int | None
 ) -> None:
+    if energy_class is not None and not class_applies(curve_type, rating_a, energy_class):
+        pytest.skip("EN 60898-1 Annex ZA has no such class for this type and rating")
     band = mcb_band(curve_type, rating_a, basis=basis, energy_class=energy_class)
     upper_x = INSTANTANEOUS_X[curve_type][1]
     currents = upper_x * rating_a * np.array([1.0, 1.5, 3.0, 10.0, 100.0])
@@ -178,10 +180,15 @@ def test_class_1_has_no_let_through_limit(curve_type: str) -> None:
 # no class limit is applied to type D nor above 32 A
 @pytest.mark.parametrize(("curve_type", "rating_a"), [("D", 16), ("D", 32), ("B", 40), ("C", 63)])
 def test_no_class_values_outside_annex_za(curve_type: str, rating_a: float) -> None:
-    band = mcb_band(curve_type, rating_a, basis="envelope", energy_class=3)
+    band = mcb_band(curve_type, rating_a, basis="envelope")
     assert band.let_through is None
+    assert "energy_class" not in band.settings
     assert any("Annex ZA" in note for note in band.notes)
     np.testing.assert_allclose(band.t_max(30 * rating_a), 0.1, rtol=0)
+    # a class the annex does not give is refused, not silently ignored
+    with pytest.raises(InputError) as caught:
+        mcb_band(curve_type, rating_a, basis="envelope", energy_class=3)
+    assert caught.value.key == "energy_class"
 
 
 # IEC 60898-1 standard values of rated short-circuit capacity Icn: 1500, 3000, 4500, 6000,
