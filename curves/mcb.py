@@ -55,6 +55,7 @@ import math
 import numbers
 from collections.abc import Callable
 from functools import lru_cache
+from itertools import pairwise
 from pathlib import Path
 
 import numpy as np
@@ -347,7 +348,7 @@ def let_through_points(value: object) -> tuple[tuple[float, float], ...]:
                                      for v in numbers_):
             raise InputError(f"{key}: point {point!r} is not allowed; give {allowed}", key=key)
         points.append((float(numbers_[0]), float(numbers_[1])))
-    for (i0, e0), (i1, e1) in zip(points, points[1:], strict=False):
+    for (i0, e0), (i1, e1) in pairwise(points):
         if not (i1 > i0 and e1 >= e0):
             raise InputError(f"{key}: points must rise in current and not fall in I2t "
                              f"({i0:g} A, {e0:g} A2s then {i1:g} A, {e1:g} A2s); give {allowed}",
