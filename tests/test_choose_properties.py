@@ -360,7 +360,7 @@ TM = '{{family = "tm", In_a = {In}, Ir_x = {Ir_x}, Ii_x = {Ii_x}, icu_a = 36000}
 
 # The engine meets a requirement with a limit equal to it, and a limit set by an upstream
 # instantaneous pickup equals that pickup (common practice: at equal values the pair is
-# selective). Thermal-magnetic magnetic pickup +/-20 % (IEC 60947-2 7.2.1.2.4 a), REFERENCE.md
+# selective). Thermal-magnetic magnetic pickup +/-20 % (IEC 60947-2 7.2.1.2.4 a),
 # from memory), of which the typical basis takes the middle half: Ii 5 x 200 A = 1000 A picks up
 # from 0.9 x 1000 = 900 A, and Ii 10 x 250 A = 2500 A from 2250 A. Below: the final's
 # requirement of 900 A equals the pickup of TM200 Ii=5In (Ib 170 A: on the grid 0.85 x 200 A is

@@ -49,7 +49,7 @@ def test_json_contract_and_null_for_never():
         assert p["t_min_s"] <= p["t_max_s"]
 
 
-# Our design (DESIGN.md command-line contract): the JSON carries the band's own edges.
+# Our design (the command line's JSON output): the JSON carries the band's own edges.
 @pytest.mark.parametrize("spec", [TM, ELECTRONIC, DATASHEET, "B32"])
 def test_json_matches_the_band(spec):
     from curves.spec import band_from_spec, parse_inline
@@ -87,7 +87,7 @@ def test_readable_table():
     assert "Traceback" not in result.output
 
 
-# Our design (BRIEF, DESIGN.md): bad input gets one line and exit code 2; the series and grids
+# Our design: bad input gets one line and exit code 2; the series and grids
 # are IEC 60898-1 / IEC 60947-2 values or common practice, the Icn values IEC 60898-1 standard
 # values (from memory).
 @pytest.mark.parametrize(("args", "words"), [

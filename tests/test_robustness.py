@@ -294,7 +294,7 @@ def test_python_api_and_json_agree(tmp_path):
 
 
 def test_json_writes_never_as_null_and_plain_values_of_any_kind():
-    # DESIGN.md, JSON contract: a time that does not exist ("never") is null
+    # Our JSON output: a time that does not exist ("never") is null
     from types import MappingProxyType
 
     import numpy as np
@@ -326,9 +326,9 @@ def test_wide_board_of_5000_checks(tmp_path):
 
 
 def test_deep_chain_of_5000_alike_devices_checks_in_one_row_per_circuit(tmp_path, monkeypatch):
-    # every ancestor is paired (DESIGN.md): n (n - 1) / 2 pairs in a chain of n. Alike devices in
-    # a row give alike results, so the engine decides one pair per circuit and lists one row
-    # standing for the run: work and output linear in the chain's length
+    # every ancestor is paired (our modelling choice): n (n - 1) / 2 pairs in a chain of n. Alike
+    # devices in a row give alike results, so the engine decides one pair per circuit and lists one
+    # row standing for the run: work and output linear in the chain's length
     from coordination import engine
 
     depth = 5000
@@ -356,7 +356,8 @@ def test_the_table_names_both_ends_of_a_run_and_counts_every_pair(tmp_path):
 
 
 def test_chain_of_differing_devices_lists_every_pair(tmp_path):
-    # DESIGN.md: every ancestor is paired; no two devices in a row alike, so one row per pair
+    # Our modelling choice: every ancestor is paired; no two devices in a row alike, so one row per
+    # pair
     depth = 40
     result = run("check", write(tmp_path, chain(depth, ("gG160", "gG125"))), "--json")
     assert result.exit_code in (0, 1), result.output
@@ -366,7 +367,7 @@ def test_chain_of_differing_devices_lists_every_pair(tmp_path):
 
 
 def test_a_tested_limit_splits_a_run_of_alike_devices(tmp_path):
-    # DESIGN.md: a tested limit belongs to one pair and overrides the curves for it alone
+    # Our modelling choice: a tested limit belongs to one pair and overrides the curves for it alone
     text = chain(8) + '\n[circuit.tested_limits_a]\nn3 = 2500\n'  # for n7, under n6 .. n0
     result = run("check", write(tmp_path, text), "--json")
     assert result.exit_code in (0, 1), result.output
