@@ -14,10 +14,8 @@ from dataclasses import dataclass
 from pathlib import Path
 
 import pytest
-from typer.testing import CliRunner
 
 from coordination import checks, faults, study
-from coordination.cli import app
 from coordination.devices import band_for
 from coordination.model import Cable, Circuit, Study, Supply
 from curves.band import Band
@@ -584,10 +582,10 @@ def test_end_to_end_disconnection(text: str, cid: str, ok: bool) -> None:
 
 
 @pytest.mark.parametrize(("text", "code"), [(FAILING, 1), (PASSING, 0)])
-def test_check_command_exit_code(tmp_path, text: str, code: int) -> None:
+def test_check_command_exit_code(cli, tmp_path, text: str, code: int) -> None:
     path = tmp_path / "installation.toml"
     path.write_text(text, encoding="utf-8")
-    result = CliRunner().invoke(app, ["check", str(path), "--json"])
+    result = cli("check", str(path), "--json")
     assert result.exit_code == code, result.output
     payload = json.loads(result.stdout)
     names = {c["check"] for c in payload["checks"]}

@@ -15,10 +15,8 @@ import numpy as np
 import pytest
 from hypothesis import HealthCheck, assume, example, given, settings
 from hypothesis import strategies as st
-from typer.testing import CliRunner
 
 from coordination import checks, choose, engine, faults, study
-from coordination.cli import app
 from coordination.devices import device_band
 from curves import breaker
 from curves.errors import InputError
@@ -524,19 +522,18 @@ def test_bad_input_names_what_is_allowed():
         choose.choose_board(s, "final-1")
 
 
-def test_cli_choose(tmp_path):
+def test_cli_choose(cli, tmp_path):
     path = tmp_path / "shop.toml"
     path.write_text(shop(6000.0, 30.0, 250.0, ["B16", "B32"]), encoding="utf-8")
-    runner = CliRunner()
-    result = runner.invoke(app, ["choose", str(path), "--circuit", "sub-main", "--json"])
+    result = cli("choose", str(path), "--circuit", "sub-main", "--json")
     assert result.exit_code == 0, result.output
     data = json.loads(result.stdout)
     assert data["circuit"] == "sub-main" and data["found"] is True
     band_from_spec(data["device"])
-    result = runner.invoke(app, ["choose", str(path), "--board", "supply"])
+    result = cli("choose", str(path), "--board", "supply")
     assert result.exit_code == 0, result.output
     assert "sub-main" in result.stdout
-    result = runner.invoke(app, ["choose", str(path), "--circuit", "sub-main", "--family", "Q"])
+    result = cli("choose", str(path), "--circuit", "sub-main", "--family", "Q")
     assert result.exit_code == 2
 
 

@@ -542,14 +542,11 @@ iz_a = 110
 """
 
 
-def test_check_exits_1_on_a_selectivity_shortfall_alone(tmp_path):
+def test_check_exits_1_on_a_selectivity_shortfall_alone(cli, tmp_path):
     import json
-
-    from typer.testing import CliRunner
 
     import coordination
     from coordination import checks, faults, study
-    from coordination.cli import app
 
     s = study.loads(TWO_EQUAL_FUSES)
     levels = faults.compute(s)
@@ -560,12 +557,11 @@ def test_check_exits_1_on_a_selectivity_shortfall_alone(tmp_path):
     assert not engine.analyse(s, levels).ok
     path = tmp_path / "workshop.toml"
     path.write_text(TWO_EQUAL_FUSES, encoding="utf-8")
-    runner = CliRunner()
-    out = runner.invoke(app, ["check", str(path)])
+    out = cli("check", str(path))
     assert out.exit_code == 1, out.output
     assert coordination.CAUTION in out.output
     assert "Traceback" not in out.output
-    js = runner.invoke(app, ["check", str(path), "--json"])
+    js = cli("check", str(path), "--json")
     assert js.exit_code == 1
     data = json.loads(js.output)
     assert data["ok"] is False
