@@ -10,7 +10,6 @@ import copy
 import json
 import math
 import random
-import sys
 from collections.abc import Callable
 from pathlib import Path
 
@@ -19,8 +18,7 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 from typer.testing import Result
 
-sys.path.insert(0, str(Path(__file__).resolve().parent))
-from generate import chain, to_toml, wide
+from benchmarks.generate import chain, to_toml, wide
 
 #: The ``cli`` fixture (tests/conftest.py): runs a command in this process.
 Cli = Callable[..., Result]
