@@ -57,7 +57,7 @@ FINAL_CIRCUIT_SCOPE_A = 32.0
 
 #: IEC 60364-4-41:2005 Table 41.1, maximum disconnection times of final circuits, a.c. [s]:
 #: (U0 above [V], U0 up to [V], TN [s], TT [s]).
-#: Rows 120 < U0 <= 230 V and 230 < U0 <= 400 V: confirmed (REFERENCE.md);
+#: Rows 120 < U0 <= 230 V and 230 < U0 <= 400 V: confirmed;
 #: rows 50 < U0 <= 120 V and U0 > 400 V: from memory.
 TABLE_41_1 = (
     (50.0, 120.0, 0.8, 0.3),  # from memory
@@ -68,7 +68,7 @@ TABLE_41_1 = (
 TABLE_41_1_SOURCE = "IEC 60364-4-41 Table 41.1"
 
 #: Distribution circuits (and final circuits beyond the scope of Table 41.1) [s]:
-#: TN 5 s (IEC 60364-4-41, 411.3.2.3), TT 1 s (411.3.2.4). Confirmed (REFERENCE.md).
+#: TN 5 s (IEC 60364-4-41, 411.3.2.3), TT 1 s (411.3.2.4). Confirmed.
 DISTRIBUTION_TIME_S = {"TN": 5.0, "TT": 1.0}
 
 #: The earthing systems the checks know, and the row of Table 41.1 they read.
@@ -77,7 +77,7 @@ EARTHING_KIND = {"TN-S": "TN", "TN-C-S": "TN", "TN-C": "TN", "TN": "TN", "TT": "
 #: k for the adiabatic rule [A s^0.5 / mm2]: (material, insulation) -> (k up to 300 mm2,
 #: k above 300 mm2). IEC 60364-4-43 Table 43A (line conductors) and IEC 60364-5-54 Table A.54.3
 #: (a protective conductor that is a core of the cable). Copper PVC 115 / 103, copper XLPE/EPR
-#: 143, aluminium PVC 76, aluminium XLPE 94: confirmed (REFERENCE.md); aluminium PVC above
+#: 143, aluminium PVC 76, aluminium XLPE 94: confirmed; aluminium PVC above
 #: 300 mm2 (68): from memory.
 K_TABLE = {
     ("copper", "pvc"): (115.0, 103.0),

@@ -63,8 +63,8 @@ from curves.mcb import DEFAULT_ICN_A
 #: thermal-magnetic and electronic breakers.
 FAMILIES = ("B", "C", "D", "gG", "tm", "electronic")
 
-#: Rated short-circuit capacities Icn of MCBs [A] (IEC 60898-1 preferred values; from memory,
-#: REFERENCE.md). Used only to raise a candidate MCB's Icn to the board's fault level.
+#: Rated short-circuit capacities Icn of MCBs [A] (IEC 60898-1 preferred values; from memory).
+#: Used only to raise a candidate MCB's Icn to the board's fault level.
 MCB_ICN_SERIES_A = (1500.0, 3000.0, 4500.0, 6000.0, 10000.0, 15000.0, 20000.0, 25000.0)
 
 #: Ultimate breaking capacities Icu offered for breakers [A] (common practice). A chosen breaker

@@ -561,8 +561,8 @@ def from_dict(data: Any, source: str | None = None) -> Study:
 
     References
     ----------
-    Study-file contract, version 1 (DESIGN.md), with the extensions listed in the module
-    docstring.
+    Our study-file format, version 1 (README.md, "The study file"), with the extensions listed
+    in the module docstring.
 
     Examples
     --------
@@ -684,7 +684,7 @@ def loads(text: str, source: str | None = None) -> Study:
     References
     ----------
     TOML 1.0 (parsed by rtoml, a compiled parser: DEVELOPERS.md, "Set-up and checks");
-    study-file contract, version 1 (DESIGN.md).
+    our study-file format, version 1 (README.md, "The study file").
 
     Examples
     --------
@@ -715,7 +715,7 @@ def load(path: str | Path) -> Study:
 
     References
     ----------
-    Study-file contract, version 1 (DESIGN.md).
+    Our study-file format, version 1 (README.md, "The study file").
 
     Examples
     --------

@@ -18,7 +18,7 @@ from curves.fuse import GG_RATINGS_A, gg_band
 from curves.mcb import MCB_INSTANTANEOUS, MCB_RATINGS_A, class_applies, mcb_band
 
 BASES = ("typical", "envelope")
-#: IEC 60898-1 standard values of rated short-circuit capacity Icn [A] (REFERENCE.md, from memory).
+#: IEC 60898-1 standard values of rated short-circuit capacity Icn [A] (from memory).
 ICN_STANDARD_A = (1500.0, 3000.0, 4500.0, 6000.0, 10000.0, 15000.0, 20000.0, 25000.0)
 #: Relative floating-point rounding allowed where an edge is compared with itself.
 ROUNDING = 1e-12
@@ -100,7 +100,7 @@ def test_larger_gg_rating_never_left(index: int, basis: str) -> None:
     assert np.all(large.t_max(GRID_A) >= small.t_max(GRID_A))
 
 
-# DESIGN.md "The band": the envelope (widest band the standard allows) contains the typical band
+# Our modelling choice: the envelope (widest band the standard allows) contains the typical band
 @settings(max_examples=50, deadline=None)
 @given(kw=mcb_kwargs, current=currents)
 def test_mcb_envelope_contains_typical(kw: dict, current: np.ndarray) -> None:
@@ -113,7 +113,7 @@ def test_mcb_envelope_contains_typical(kw: dict, current: np.ndarray) -> None:
     assert typical.pickup_max_a <= envelope.pickup_max_a
 
 
-# DESIGN.md "The band": the envelope contains the typical band (every gG rating, dense grid)
+# Our modelling choice: the envelope contains the typical band (every gG rating, dense grid)
 @pytest.mark.parametrize("rating_a", GG_RATINGS_A)
 def test_gg_envelope_contains_typical(rating_a: float) -> None:
     typical = gg_band(rating_a, basis="typical")

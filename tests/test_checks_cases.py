@@ -14,10 +14,8 @@ from dataclasses import dataclass
 from pathlib import Path
 
 import pytest
-from typer.testing import CliRunner
 
 from coordination import checks, faults, study
-from coordination.cli import app
 from coordination.devices import band_for
 from coordination.model import Cable, Circuit, Study, Supply
 from curves.band import Band
@@ -257,10 +255,10 @@ def test_overload_in_above_iz_offers_a_smaller_device_that_carries_ib() -> None:
     assert r.details["smaller_device"] == "B25"
 
 
-# IEC 60364-4-43 433.1 with IEC 60947-2 (thermal setting 0.7..1.0 In, REFERENCE.md; I2 = 1.30 Ir):
-# a TM250 at Ir 0.8 In = 200 A on Iz 100 A would need Ir <= 100 A, below its lowest setting
-# 0.7 x 250 = 175 A, so no lower setting is offered; on Iz 180 A, Ir <= min(180, 1.45 x 180 /
-# 1.30) = 180 A >= 175 A: offered. Hand-worked.
+# IEC 60364-4-43 433.1 with IEC 60947-2 (I2 = 1.30 Ir; thermal setting 0.7..1.0 In, common
+# practice): a TM250 at Ir 0.8 In = 200 A on Iz 100 A would need Ir <= 100 A, below its lowest
+# setting 0.7 x 250 = 175 A, so no lower setting is offered; on Iz 180 A,
+# Ir <= min(180, 1.45 x 180 / 1.30) = 180 A >= 175 A: offered. Hand-worked.
 @pytest.mark.parametrize(("iz_a", "offered"), [(100.0, False), (180.0, True)])
 def test_overload_lower_setting_only_within_the_units_range(iz_a: float, offered: bool) -> None:
     device = {"family": "tm", "In_a": 250, "Ir_x": 0.8, "Ii_x": 10, "icu_a": 36000}
@@ -382,8 +380,8 @@ def test_fault_energy_minimum_line_fault_with_overload_protection(iz_a: float | 
     assert r.ok is ok
 
 
-# EN 60898-1 Annex ZA class 3, type B, 16 < In <= 32 A (REFERENCE.md: 45 000 A2s at 6 kA, from
-# memory) and IEC 60364-5-54 543.1.2 / Table A.54.3 (k 115): an earth fault of 6 kA at the board
+# EN 60898-1 Annex ZA class 3, type B, 16 < In <= 32 A (45 000 A2s at 6 kA, from memory)
+# and IEC 60364-5-54 543.1.2 / Table A.54.3 (k 115): an earth fault of 6 kA at the board
 # needs sqrt(45 000) / 115 = 1.845 mm2 of protective conductor, so 1.5 mm2 fails, although the
 # 218 A at the far end (Zs 1.0 ohm) needs only sqrt(18 000) / 115 = 1.167 mm2; 2.5 mm2 passes.
 @pytest.mark.parametrize(("cpc_mm2", "ok"), [(1.5, False), (2.5, True)])
@@ -440,7 +438,7 @@ def test_breaking_capacity_counts_the_largest_earth_fault() -> None:
     assert r.details["fault"] == "earth"
 
 
-# IEC 60364-4-43 Table 43A and IEC 60364-5-54 Table A.54.3 (REFERENCE.md, confirmed): copper
+# IEC 60364-4-43 Table 43A and IEC 60364-5-54 Table A.54.3 (confirmed): copper
 # XLPE 143, aluminium XLPE 94, copper PVC 115 (103 above 300 mm2). Sizes by hand: two 240 mm2
 # per phase = 480 mm2; a 120 mm2 aluminium cpc in each cable = 240 mm2, or 120 mm2 when the
 # study says one cpc (cpc_parallel = 1).
@@ -514,8 +512,8 @@ def test_format_table_marks_failures_and_sums_up() -> None:
 
 
 def test_safety_checks_use_the_envelope_whatever_the_study_basis() -> None:
-    # DESIGN.md: safety checks take the worst case a compliant device allows (the envelope),
-    # whatever basis the study chose for selectivity.
+    # Our modelling choice: safety checks take the worst case a compliant device allows (the
+    # envelope), whatever basis the study chose for selectivity.
     s = Study(title="invented", supply=Supply(u0_v=U0, earthing="TN-C-S", pfc_a=6000.0),
               circuits=(Circuit(id="c1", parent="supply", device="B32", phases=1),),
               basis="typical")
@@ -584,10 +582,10 @@ def test_end_to_end_disconnection(text: str, cid: str, ok: bool) -> None:
 
 
 @pytest.mark.parametrize(("text", "code"), [(FAILING, 1), (PASSING, 0)])
-def test_check_command_exit_code(tmp_path, text: str, code: int) -> None:
+def test_check_command_exit_code(cli, tmp_path, text: str, code: int) -> None:
     path = tmp_path / "installation.toml"
     path.write_text(text, encoding="utf-8")
-    result = CliRunner().invoke(app, ["check", str(path), "--json"])
+    result = cli("check", str(path), "--json")
     assert result.exit_code == code, result.output
     payload = json.loads(result.stdout)
     names = {c["check"] for c in payload["checks"]}

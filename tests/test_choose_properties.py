@@ -15,10 +15,8 @@ import numpy as np
 import pytest
 from hypothesis import HealthCheck, assume, example, given, settings
 from hypothesis import strategies as st
-from typer.testing import CliRunner
 
 from coordination import checks, choose, engine, faults, study
-from coordination.cli import app
 from coordination.devices import device_band
 from curves import breaker
 from curves.errors import InputError
@@ -360,7 +358,7 @@ TM = '{{family = "tm", In_a = {In}, Ir_x = {Ir_x}, Ii_x = {Ii_x}, icu_a = 36000}
 
 # The engine meets a requirement with a limit equal to it, and a limit set by an upstream
 # instantaneous pickup equals that pickup (common practice: at equal values the pair is
-# selective). Thermal-magnetic magnetic pickup +/-20 % (IEC 60947-2 7.2.1.2.4 a), REFERENCE.md
+# selective). Thermal-magnetic magnetic pickup +/-20 % (IEC 60947-2 7.2.1.2.4 a),
 # from memory), of which the typical basis takes the middle half: Ii 5 x 200 A = 1000 A picks up
 # from 0.9 x 1000 = 900 A, and Ii 10 x 250 A = 2500 A from 2250 A. Below: the final's
 # requirement of 900 A equals the pickup of TM200 Ii=5In (Ib 170 A: on the grid 0.85 x 200 A is
@@ -524,19 +522,18 @@ def test_bad_input_names_what_is_allowed():
         choose.choose_board(s, "final-1")
 
 
-def test_cli_choose(tmp_path):
+def test_cli_choose(cli, tmp_path):
     path = tmp_path / "shop.toml"
     path.write_text(shop(6000.0, 30.0, 250.0, ["B16", "B32"]), encoding="utf-8")
-    runner = CliRunner()
-    result = runner.invoke(app, ["choose", str(path), "--circuit", "sub-main", "--json"])
+    result = cli("choose", str(path), "--circuit", "sub-main", "--json")
     assert result.exit_code == 0, result.output
     data = json.loads(result.stdout)
     assert data["circuit"] == "sub-main" and data["found"] is True
     band_from_spec(data["device"])
-    result = runner.invoke(app, ["choose", str(path), "--board", "supply"])
+    result = cli("choose", str(path), "--board", "supply")
     assert result.exit_code == 0, result.output
     assert "sub-main" in result.stdout
-    result = runner.invoke(app, ["choose", str(path), "--circuit", "sub-main", "--family", "Q"])
+    result = cli("choose", str(path), "--circuit", "sub-main", "--family", "Q")
     assert result.exit_code == 2
 
 

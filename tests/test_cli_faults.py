@@ -4,13 +4,16 @@ from __future__ import annotations
 
 import json
 import math
+from collections.abc import Callable
 from pathlib import Path
 
 import pytest
-from typer.testing import CliRunner
+from typer.testing import Result
 
 from coordination import faults, study
-from coordination.cli import app
+
+#: The ``cli`` fixture (tests/conftest.py): runs a command in this process.
+Cli = Callable[..., Result]
 
 STUDY = """[study]
 title = "Invented bakery"
@@ -62,12 +65,8 @@ def study_file(tmp_path: Path) -> Path:
     return path
 
 
-def run(*args: str):
-    return CliRunner().invoke(app, list(args))
-
-
-def test_table(study_file: Path) -> None:
-    result = run("faults", str(study_file))
+def test_table(cli: Cli, study_file: Path) -> None:
+    result = cli("faults", str(study_file))
     assert result.exit_code == 0, result.stderr
     out = result.stdout
     assert "Fault levels: Invented bakery" in out
@@ -82,8 +81,8 @@ def test_table(study_file: Path) -> None:
     assert all(len(line) <= 100 for line in out.splitlines())
 
 
-def test_json_matches_the_api(study_file: Path) -> None:
-    result = run("faults", str(study_file), "--json")
+def test_json_matches_the_api(cli: Cli, study_file: Path) -> None:
+    result = cli("faults", str(study_file), "--json")
     assert result.exit_code == 0, result.stderr
     data = json.loads(result.stdout)
     levels = faults.compute(study.load(study_file))
@@ -114,11 +113,11 @@ def test_json_matches_the_api(study_file: Path) -> None:
     assert by_id["incomer"]["ief_max_board_a"] == pytest.approx(16000.0, rel=1e-9)
 
 
-def test_json_has_null_for_values_that_do_not_exist(tmp_path: Path) -> None:
+def test_json_has_null_for_values_that_do_not_exist(cli: Cli, tmp_path: Path) -> None:
     path = tmp_path / "flat.toml"
     path.write_text('[supply]\nphases = 1\npfc_a = 6000\nze_ohm = 0.8\nearthing = "TN-S"\n'
                     '[[circuit]]\nid = "a"\nfrom = "supply"\ndevice = "B32"\n')
-    data = json.loads(run("faults", str(path), "--json").stdout)
+    data = json.loads(cli("faults", str(path), "--json").stdout)
     assert data["nodes"][0]["ik3_max_a"] is None
     assert data["origin"]["ik3_max_a"] is None
     assert all(v is None or not isinstance(v, float) or math.isfinite(v)
@@ -131,11 +130,11 @@ def test_json_has_null_for_values_that_do_not_exist(tmp_path: Path) -> None:
     (b"[supply\npfc_a = 1\n", "not valid TOML"),
     (b"[supply]\npfc_a = 16000 # \xe9t\xe9\n", "not UTF-8"),
 ])
-def test_file_level_errors(content: bytes | None, fragment: str, tmp_path: Path) -> None:
+def test_file_level_errors(cli: Cli, content: bytes | None, fragment: str, tmp_path: Path) -> None:
     path = tmp_path / "the-study.toml"
     if content is not None:
         path.write_bytes(content)
-    result = run("faults", str(path))
+    result = cli("faults", str(path))
     assert result.exit_code == 2
     lines = result.stderr.strip().splitlines()
     assert len(lines) == 1 and lines[0].startswith("error: ")
@@ -143,7 +142,7 @@ def test_file_level_errors(content: bytes | None, fragment: str, tmp_path: Path)
     assert "Traceback" not in result.stderr and result.stdout == ""
 
 
-def test_folder_instead_of_a_file(tmp_path: Path) -> None:
-    result = run("faults", str(tmp_path))
+def test_folder_instead_of_a_file(cli: Cli, tmp_path: Path) -> None:
+    result = cli("faults", str(tmp_path))
     assert result.exit_code == 2
     assert "is a folder" in result.stderr

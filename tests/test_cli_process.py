@@ -12,23 +12,17 @@ import sys
 from pathlib import Path
 
 import pytest
-from typer.testing import CliRunner
 
-from coordination.cli import BLAS_THREADS, app
+from coordination.cli import BLAS_THREADS
 
 ROOT = Path(__file__).resolve().parents[1]
 OFFICE = ROOT / "examples" / "office-building.toml"
 
 
-def _process(*args: str) -> subprocess.CompletedProcess[bytes]:
-    return subprocess.run([sys.executable, "-m", "coordination", *args], capture_output=True,
-                          cwd=ROOT, timeout=120, check=False)
-
-
-def test_check_json_complete_through_the_process() -> None:
+def test_check_json_complete_through_the_process(cli_process, cli) -> None:
     # the whole JSON reaches stdout, the same as in process, with the same exit code
-    proc = _process("check", str(OFFICE), "--json")
-    inside = CliRunner().invoke(app, ["check", str(OFFICE), "--json"])
+    proc = cli_process("check", str(OFFICE), "--json")
+    inside = cli("check", str(OFFICE), "--json")
     assert proc.stderr == b""
     assert proc.returncode == inside.exit_code
     assert proc.returncode in (0, 1)
@@ -38,32 +32,32 @@ def test_check_json_complete_through_the_process() -> None:
     assert len(out["pairs"]) > 10 and len(out["checks"]) > 10
 
 
-def test_check_table_complete_through_the_process() -> None:
-    proc = _process("check", str(OFFICE))
+def test_check_table_complete_through_the_process(cli_process) -> None:
+    proc = cli_process("check", str(OFFICE))
     text = proc.stdout.decode("utf-8")
     assert proc.returncode in (0, 1)
     # the caution is the last line written; a lost buffer would cut it
     assert text.rstrip().splitlines()[-1].startswith("Design aid only")
 
 
-def test_bare_command_prints_its_help_once() -> None:
-    proc = _process()
+def test_bare_command_prints_its_help_once(cli_process) -> None:
+    proc = cli_process()
     assert proc.returncode == 0
     assert proc.stdout.decode("utf-8").count("Usage") == 1
 
 
-def test_unknown_command_is_one_line_exit_2() -> None:
-    proc = _process("bogus")
+def test_unknown_command_is_one_line_exit_2(cli_process) -> None:
+    proc = cli_process("bogus")
     assert proc.returncode == 2
     assert proc.stdout == b""
     err = proc.stderr.decode("utf-8").strip()
     assert err.startswith("error: ") and "\n" not in err and "bogus" in err
 
 
-def test_bad_study_is_one_line_exit_2(tmp_path: Path) -> None:
+def test_bad_study_is_one_line_exit_2(cli_process, tmp_path: Path) -> None:
     bad = tmp_path / "bad.toml"
     bad.write_text("[supply]\npfc_a = \n", encoding="utf-8")
-    proc = _process("faults", str(bad), "--json")
+    proc = cli_process("faults", str(bad), "--json")
     assert proc.returncode == 2
     assert proc.stdout == b""
     err = proc.stderr.decode("utf-8").strip()
@@ -113,19 +107,20 @@ def test_output_that_cannot_be_written_is_one_line_exit_2():
 
 
 @pytest.mark.parametrize("block", [1, 2, 7, 500, 100_000])
-def test_json_written_a_block_at_a_time_is_the_whole(block, monkeypatch):
+def test_json_written_a_block_at_a_time_is_the_whole(cli, block, monkeypatch):
     # the same bytes as the payload built whole and encoded at once, whatever the block size
-    from coordination import checks, cli, engine, faults, study
+    from coordination import checks, engine, faults, study
+    from coordination import cli as module
 
-    monkeypatch.setattr(cli, "JSON_BLOCK", block)
-    streamed = CliRunner().invoke(app, ["check", str(OFFICE), "--json"]).stdout_bytes
+    monkeypatch.setattr(module, "JSON_BLOCK", block)
+    streamed = cli("check", str(OFFICE), "--json").stdout_bytes
     s = study.load(OFFICE)
     levels = faults.compute(s)
     analysis = engine.analyse(s, levels)
     results = checks.run(s, levels)
     whole = {**analysis.to_json(), "checks": [r.to_json() for r in results],
-             "ok": analysis.ok and all(r.ok for r in results), "caution": cli.CAUTION}
-    assert streamed == cli.json_bytes(whole) + b"\n"
+             "ok": analysis.ok and all(r.ok for r in results), "caution": module.CAUTION}
+    assert streamed == module.json_bytes(whole) + b"\n"
 
 
 def test_empty_records_are_an_empty_list(capsys):
@@ -137,13 +132,14 @@ def test_empty_records_are_an_empty_list(capsys):
 
 
 @pytest.mark.parametrize("block", [1, 500])
-def test_faults_json_written_a_block_at_a_time_is_the_whole(block, monkeypatch):
-    from coordination import cli, faults, study
+def test_faults_json_written_a_block_at_a_time_is_the_whole(cli, block, monkeypatch):
+    from coordination import cli as module
+    from coordination import faults, study
 
-    monkeypatch.setattr(cli, "JSON_BLOCK", block)
-    streamed = CliRunner().invoke(app, ["faults", str(OFFICE), "--json"]).stdout_bytes
+    monkeypatch.setattr(module, "JSON_BLOCK", block)
+    streamed = cli("faults", str(OFFICE), "--json").stdout_bytes
     whole = faults.compute(study.load(OFFICE)).to_json()
-    assert streamed == cli.json_bytes(whole) + b"\n"
+    assert streamed == module.json_bytes(whole) + b"\n"
 
 
 @pytest.mark.skipif(sys.platform == "win32", reason="closes a descriptor before the start")

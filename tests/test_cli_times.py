@@ -4,26 +4,15 @@ from __future__ import annotations
 
 import json
 import math
-import subprocess
-import sys
-from pathlib import Path
 
 import pytest
-from typer.testing import CliRunner
 
-from coordination.cli import app
-
-runner = CliRunner()
 TM = "{family = 'tm', In_a = 250, Ir_x = 0.8, Ii_x = 10}"
 ELECTRONIC = ("{family = 'electronic', In_a = 400, Ir_x = 0.8, tr_s = 4, Isd_x = 5, "
               "tsd_s = 0.2, Ii_x = 12}")
 # Invented datasheet curve.
 DATASHEET = ("{family = 'datasheet', name = 'invented', In_a = 100, "
              "lower = [[120, 3600], [1000, 0.5]], upper = [[150, 7200], [1500, 1.0]]}")
-
-
-def run(*args: str):
-    return runner.invoke(app, ["times", *args])
 
 
 def currents(*values: float) -> list[str]:
@@ -33,9 +22,9 @@ def currents(*values: float) -> list[str]:
     return out
 
 
-def test_json_contract_and_null_for_never():
+def test_json_contract_and_null_for_never(cli):
     # below 1.05 Ir (IEC 60947-2, Table 6) the breaker never trips: null in JSON
-    result = run(TM, *currents(150, 1000, 5000), "--json")
+    result = cli("times", TM, *currents(150, 1000, 5000), "--json")
     assert result.exit_code == 0, result.output
     data = json.loads(result.stdout)
     assert data["device"] == "TM250 Ir=200A Ii=10In"
@@ -49,14 +38,14 @@ def test_json_contract_and_null_for_never():
         assert p["t_min_s"] <= p["t_max_s"]
 
 
-# Our design (DESIGN.md command-line contract): the JSON carries the band's own edges.
+# Our design (the command line's JSON output): the JSON carries the band's own edges.
 @pytest.mark.parametrize("spec", [TM, ELECTRONIC, DATASHEET, "B32"])
-def test_json_matches_the_band(spec):
+def test_json_matches_the_band(cli, spec):
     from curves.spec import band_from_spec, parse_inline
 
     band = band_from_spec(parse_inline(spec), basis="envelope")
     values = (40, 200, 700, 2500, 9000)
-    result = run(spec, *currents(*values), "--json", "--basis", "envelope")
+    result = cli("times", spec, *currents(*values), "--json", "--basis", "envelope")
     assert result.exit_code == 0, result.output
     points = json.loads(result.stdout)["points"]
     for p, i in zip(points, values, strict=True):
@@ -68,14 +57,14 @@ def test_json_matches_the_band(spec):
                 assert p[key] is None
 
 
-def test_datasheet_basis_in_json():
-    result = run(DATASHEET, *currents(500), "--json", "--basis", "envelope")
+def test_datasheet_basis_in_json(cli):
+    result = cli("times", DATASHEET, *currents(500), "--json", "--basis", "envelope")
     assert result.exit_code == 0, result.output
     assert json.loads(result.stdout)["basis"] == "datasheet"
 
 
-def test_readable_table():
-    result = run(ELECTRONIC, *currents(300, 2000, 7000))
+def test_readable_table(cli):
+    result = cli("times", ELECTRONIC, *currents(300, 2000, 7000))
     assert result.exit_code == 0, result.output
     lines = result.stdout.splitlines()
     assert lines[0].startswith("E400") and "typical" in lines[0]
@@ -87,7 +76,7 @@ def test_readable_table():
     assert "Traceback" not in result.output
 
 
-# Our design (BRIEF, DESIGN.md): bad input gets one line and exit code 2; the series and grids
+# Our design: bad input gets one line and exit code 2; the series and grids
 # are IEC 60898-1 / IEC 60947-2 values or common practice, the Icn values IEC 60898-1 standard
 # values (from memory).
 @pytest.mark.parametrize(("args", "words"), [
@@ -108,8 +97,8 @@ def test_readable_table():
      ["icn_a", "allowed", "1500", "25000"]),
     (["B32 7kA", "-i", "100"], ["icn_a", "allowed"]),
 ])
-def test_bad_input_one_line_exit_2(args, words):
-    result = run(*args)
+def test_bad_input_one_line_exit_2(cli, args, words):
+    result = cli("times", *args)
     assert result.exit_code == 2
     assert result.stdout == ""
     err = result.stderr.strip()
@@ -122,12 +111,9 @@ def test_bad_input_one_line_exit_2(args, words):
 
 # IEC 60898-1 standard values of rated short-circuit capacity Icn (from memory): the module
 # entry point refuses 7000 A on one line with exit code 2.
-def test_non_standard_icn_through_python_m():
-    root = Path(__file__).resolve().parents[1]
-    proc = subprocess.run(
-        [sys.executable, "-m", "coordination", "times",
-         '{family="mcb", type="B", In_a=32, icn_a=7000}', "-i", "100"],
-        capture_output=True, text=True, cwd=root, check=False)
+def test_non_standard_icn_through_python_m(cli_process):
+    proc = cli_process("times", '{family="mcb", type="B", In_a=32, icn_a=7000}', "-i", "100",
+                       text=True)
     assert proc.returncode == 2
     assert proc.stdout == ""
     err = proc.stderr.strip()

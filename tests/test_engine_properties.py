@@ -80,8 +80,8 @@ def test_raising_upstream_mcb_never_lowers_is(down_kind, up_kind, data, top, bas
     assert effective_limit(large) >= effective_limit(small) * (1 - 1e-9)
 
 
-# DESIGN.md: the envelope is the widest band a compliant device may have, so it is never more
-# selective than the typical band of the same devices (over the same window)
+# Our modelling choice: the envelope is the widest band a compliant device may have, so it is never
+# more selective than the typical band of the same devices (over the same window)
 @settings(max_examples=40, deadline=None)
 @given(up_kind=st.sampled_from(("gG", "C", "D")), down_kind=st.sampled_from(("gG", "B", "C")),
        data=st.data(), top=TOPS_A)
@@ -98,7 +98,7 @@ def test_envelope_never_more_selective_than_typical(up_kind, down_kind, data, to
     assert effective_limit(env) <= effective_limit(typ) * (1 + 1e-9)
 
 
-# DESIGN.md: a tested limit given for a pair overrides the curves and says so
+# Our modelling choice: a tested limit given for a pair overrides the curves and says so
 @settings(max_examples=40, deadline=None)
 @given(up_rating=st.sampled_from(GG_SERIES[6:]), d_rating=st.sampled_from(MCB_SERIES[:9]),
        d_kind=st.sampled_from(("B", "C")), tested=st.floats(min_value=200.0, max_value=50_000.0),
@@ -167,8 +167,8 @@ def test_raising_upstream_breaker_never_lowers_is(up_kind, down_kind, data, top,
     assert effective_limit(large) >= effective_limit(small) * (1 - 1e-9)
 
 
-# DESIGN.md (IEC 60947-2 tolerances): the envelope band of a breaker is the widest a compliant
-# unit with those settings may have, so over the same downstream device it is never more
+# Our modelling choice (IEC 60947-2 tolerances): the envelope band of a breaker is the widest a
+# compliant unit with those settings may have, so over the same downstream device it is never more
 # selective than the typical band
 @settings(max_examples=40, deadline=None)
 @given(up_kind=st.sampled_from(("tm", "electronic")), down_kind=st.sampled_from(("gG", "B", "C")),
@@ -223,7 +223,7 @@ def run_members(study, pair):
     return ids
 
 
-# DESIGN.md: every ancestor of a circuit is paired with it, not only its direct parent
+# Our modelling choice: every ancestor of a circuit is paired with it, not only its direct parent
 @settings(max_examples=30, deadline=None)
 @given(tree=trees(), basis=st.sampled_from((None, *BASES)))
 def test_every_ancestor_pair_present(tree, basis):

@@ -141,7 +141,7 @@ def test_step_in_upstream_edge_is_converged_to():
 
 def test_declared_instantaneous_caps_the_limit():
     # an upstream instantaneous release withstands no energy above its pickup, even where the
-    # edges themselves would still be selective (common practice; DESIGN.md)
+    # edges themselves would still be selective (common practice; our modelling choice)
     up = power_band("inst-up", k_lo=4e6, k_hi=1e7, pickup_min=105.0, pickup_max=130.0,
                     instantaneous_a=2500.0)
     r = engine.compare(up, DOWN, (21.0, 50_000.0))
@@ -366,9 +366,9 @@ FAST_DOWN = power_band("fast-down", k_lo=1e4, k_hi=5e4, pickup_min=21.0, pickup_
     (FAST_DOWN, 5e4 / 5000.0**2 + 1e-3),  # 3 ms: below it
 ])
 def test_instantaneous_limit_is_time_current_whatever_the_downstream_time(down, t_down_s):
-    # DESIGN.md: above an upstream instantaneous release no energy is withstood, so the limit is
-    # its pickup (5,000 A), where U's edge 4e6/I^2 = 0.16 s is still above D's: the release's
-    # current pickup decides, not a comparison of energies
+    # Our modelling choice: above an upstream instantaneous release no energy is withstood, so the
+    # limit is its pickup (5,000 A), where U's edge 4e6/I^2 = 0.16 s is still above D's: the
+    # release's current pickup decides, not a comparison of energies
     up = power_band("inst-5k", k_lo=4e6, k_hi=1e7, pickup_min=105.0, pickup_max=130.0,
                     instantaneous_a=5000.0)
     assert float(down.t_max(5000.0)) == pytest.approx(t_down_s, rel=1e-12)
@@ -542,14 +542,11 @@ iz_a = 110
 """
 
 
-def test_check_exits_1_on_a_selectivity_shortfall_alone(tmp_path):
+def test_check_exits_1_on_a_selectivity_shortfall_alone(cli, tmp_path):
     import json
-
-    from typer.testing import CliRunner
 
     import coordination
     from coordination import checks, faults, study
-    from coordination.cli import app
 
     s = study.loads(TWO_EQUAL_FUSES)
     levels = faults.compute(s)
@@ -560,12 +557,11 @@ def test_check_exits_1_on_a_selectivity_shortfall_alone(tmp_path):
     assert not engine.analyse(s, levels).ok
     path = tmp_path / "workshop.toml"
     path.write_text(TWO_EQUAL_FUSES, encoding="utf-8")
-    runner = CliRunner()
-    out = runner.invoke(app, ["check", str(path)])
+    out = cli("check", str(path))
     assert out.exit_code == 1, out.output
     assert coordination.CAUTION in out.output
     assert "Traceback" not in out.output
-    js = runner.invoke(app, ["check", str(path), "--json"])
+    js = cli("check", str(path), "--json")
     assert js.exit_code == 1
     data = json.loads(js.output)
     assert data["ok"] is False

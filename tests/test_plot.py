@@ -11,10 +11,8 @@ from pathlib import Path
 
 import numpy as np
 import pytest
-from typer.testing import CliRunner
 
 from coordination import engine, faults, study
-from coordination.cli import app
 from coordination.plot import (
     MIN_ZONE_PT,
     PALETTE,
@@ -280,16 +278,15 @@ def test_save_figure_refuses_unknown_format(workshop, tmp_path):
     assert not list(tmp_path.iterdir())
 
 
-def test_cli_plot_writes_the_file_and_refuses_the_study_as_output(tmp_path):
+def test_cli_plot_writes_the_file_and_refuses_the_study_as_output(cli, tmp_path):
     path = tmp_path / "workshop.toml"
     path.write_text(STUDY, encoding="utf-8")
-    runner = CliRunner()
     out = tmp_path / "final.svg"
-    result = runner.invoke(app, ["plot", str(path), "--circuit", "final", "-o", str(out)])
+    result = cli("plot", str(path), "--circuit", "final", "-o", str(out))
     assert result.exit_code == 0, result.output
     assert out.read_bytes().startswith(b"<?xml")
     before = path.read_bytes()
-    result = runner.invoke(app, ["plot", str(path), "--circuit", "final", "-o", str(path)])
+    result = cli("plot", str(path), "--circuit", "final", "-o", str(path))
     assert result.exit_code == 2
     assert path.read_bytes() == before
 

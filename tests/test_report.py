@@ -12,10 +12,8 @@ from pathlib import Path
 
 import pytest
 from pypdf import PdfReader
-from typer.testing import CliRunner
 
 from coordination import CAUTION, checks, engine, faults, study
-from coordination.cli import app
 from coordination.report import (
     DEMO_REPORT_NAME,
     STANDARDS,
@@ -29,7 +27,6 @@ from curves.errors import InputError
 EXAMPLES = Path(__file__).resolve().parents[1] / "examples"
 SHOP = EXAMPLES / "small-shop.toml"
 
-runner = CliRunner()
 
 
 def squeeze(text: str) -> str:
@@ -229,32 +226,32 @@ device = "B33"
 """
 
 
-def test_bad_study_leaves_no_file(tmp_path):
+def test_bad_study_leaves_no_file(cli, tmp_path):
     path = tmp_path / "bad.toml"
     path.write_text(BAD, encoding="utf-8")
     out = tmp_path / "bad.pdf"
-    result = runner.invoke(app, ["report", str(path), "-o", str(out)])
+    result = cli("report", str(path), "-o", str(out))
     assert result.exit_code == 2
     assert "lights" in result.stderr
     assert sorted(p.name for p in tmp_path.iterdir()) == ["bad.toml"]
 
 
-def test_bad_study_leaves_an_existing_report_untouched(tmp_path):
+def test_bad_study_leaves_an_existing_report_untouched(cli, tmp_path):
     path = tmp_path / "bad.toml"
     path.write_text(BAD, encoding="utf-8")
     out = tmp_path / "report.pdf"
     earlier = b"%PDF-1.4 an earlier report\n" + bytes(range(256))
     out.write_bytes(earlier)
-    result = runner.invoke(app, ["report", str(path), "-o", str(out), "--csv"])
+    result = cli("report", str(path), "-o", str(out), "--csv")
     assert result.exit_code == 2
     assert out.read_bytes() == earlier
     assert sorted(p.name for p in tmp_path.iterdir()) == ["bad.toml", "report.pdf"]
 
 
-def test_output_equal_to_input_is_refused(tmp_path):
+def test_output_equal_to_input_is_refused(cli, tmp_path):
     path = tmp_path / "shop.toml"
     path.write_bytes(SHOP.read_bytes())
-    result = runner.invoke(app, ["report", str(path), "-o", str(path)])
+    result = cli("report", str(path), "-o", str(path))
     assert result.exit_code == 2
     assert path.read_bytes() == SHOP.read_bytes()
     s = study.load(path)
@@ -263,9 +260,9 @@ def test_output_equal_to_input_is_refused(tmp_path):
     assert path.read_bytes() == SHOP.read_bytes()
 
 
-def test_cli_report_with_csv(tmp_path):
+def test_cli_report_with_csv(cli, tmp_path):
     out = tmp_path / "shop.pdf"
-    result = runner.invoke(app, ["report", str(SHOP), "-o", str(out), "--csv"])
+    result = cli("report", str(SHOP), "-o", str(out), "--csv")
     # the shop has non-selective pairs on purpose: exit 1 (a requirement not met)
     assert result.exit_code == 1, result.output
     assert out.read_bytes().startswith(b"%PDF")
@@ -287,10 +284,10 @@ def test_demo_writes_its_report_and_touches_nothing_else(tmp_path, capsys):
     assert sorted(p.name for p in folder.iterdir()) == sorted([DEMO_REPORT_NAME, "notes.txt"])
 
 
-def test_demo_refuses_a_file_as_folder(tmp_path):
+def test_demo_refuses_a_file_as_folder(cli, tmp_path):
     target = tmp_path / "not-a-folder"
     target.write_text("x", encoding="utf-8")
-    result = runner.invoke(app, ["demo", "-o", str(target)])
+    result = cli("demo", "-o", str(target))
     assert result.exit_code == 2
     assert target.read_text(encoding="utf-8") == "x"
 

@@ -10,20 +10,18 @@ import copy
 import json
 import math
 import random
-import sys
+from collections.abc import Callable
 from pathlib import Path
 
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
-from typer.testing import CliRunner
+from typer.testing import Result
 
-from coordination.cli import app
+from benchmarks.generate import chain, to_toml, wide
 
-sys.path.insert(0, str(Path(__file__).resolve().parent))
-from generate import chain, to_toml, wide
-
-runner = CliRunner()
+#: The ``cli`` fixture (tests/conftest.py): runs a command in this process.
+Cli = Callable[..., Result]
 
 BASE = {
     "study": {"title": "Invented corner shop"},
@@ -47,10 +45,6 @@ def write(tmp_path: Path, doc: dict | str, name: str = "study.toml") -> Path:
     return path
 
 
-def run(*args: str):
-    return runner.invoke(app, [str(a) for a in args])
-
-
 def assert_refused(result, *fragments: str) -> str:
     """Exit code 2, one line on stderr, no traceback, every fragment named."""
     assert result.exit_code == 2, (result.exit_code, result.output, result.exception)
@@ -70,9 +64,9 @@ def mutated(change) -> dict:
     return doc
 
 
-def test_base_study_is_valid(tmp_path):
+def test_base_study_is_valid(cli, tmp_path):
     # common practice: the reference installation must itself pass the loader
-    result = run("faults", write(tmp_path, BASE))
+    result = cli("faults", write(tmp_path, BASE))
     assert result.exit_code == 0, result.output
 
 
@@ -121,46 +115,46 @@ BAD_DOCUMENTS = [
 @pytest.mark.parametrize(("label", "doc", "fragments"), BAD_DOCUMENTS,
                          ids=[b[0] for b in BAD_DOCUMENTS])
 @pytest.mark.parametrize("command", ["faults", "check"])
-def test_bad_study_is_refused_in_one_line(tmp_path, label, doc, fragments, command):
+def test_bad_study_is_refused_in_one_line(cli, tmp_path, label, doc, fragments, command):
     path = write(tmp_path, doc)
     before = path.read_bytes()
-    assert_refused(run(command, path), *fragments)
+    assert_refused(cli(command, path), *fragments)
     assert path.read_bytes() == before  # the input is never modified
 
 
-def test_missing_file_is_refused(tmp_path):
-    assert_refused(run("check", tmp_path / "absent.toml"), "absent.toml")
+def test_missing_file_is_refused(cli, tmp_path):
+    assert_refused(cli("check", tmp_path / "absent.toml"), "absent.toml")
 
 
-def test_output_path_in_missing_folder_is_refused(tmp_path):
+def test_output_path_in_missing_folder_is_refused(cli, tmp_path):
     path = write(tmp_path, BASE)
     target = tmp_path / "no-such-folder" / "plot.png"
-    assert_refused(run("plot", path, "--circuit", "lights", "-o", target), "no-such-folder")
+    assert_refused(cli("plot", path, "--circuit", "lights", "-o", target), "no-such-folder")
     assert not target.exists()
 
 
 @pytest.mark.parametrize("command", ["plot", "report"])
-def test_output_path_equal_to_input_is_refused(tmp_path, command):
+def test_output_path_equal_to_input_is_refused(cli, tmp_path, command):
     path = write(tmp_path, BASE, name="study.pdf")
     before = path.read_bytes()
     extra = ["--circuit", "lights"] if command == "plot" else []
-    assert_refused(run(command, path, *extra, "-o", path), "input")
+    assert_refused(cli(command, path, *extra, "-o", path), "input")
     assert path.read_bytes() == before
 
 
-def test_bad_study_leaves_existing_report_untouched(tmp_path):
+def test_bad_study_leaves_existing_report_untouched(cli, tmp_path):
     bad = write(tmp_path, mutated(lambda d: d["circuit"][1].update(device="B33")))
     report = tmp_path / "report.pdf"
     report.write_bytes(b"%PDF-1.4 the designer's earlier report")
-    assert_refused(run("report", bad, "-o", report), "lights")
+    assert_refused(cli("report", bad, "-o", report), "lights")
     assert report.read_bytes() == b"%PDF-1.4 the designer's earlier report"
     assert sorted(p.name for p in tmp_path.iterdir()) == ["report.pdf", "study.toml"]
 
 
-def test_unknown_circuit_for_choose_and_plot(tmp_path):
+def test_unknown_circuit_for_choose_and_plot(cli, tmp_path):
     path = write(tmp_path, BASE)
-    assert_refused(run("choose", path, "--circuit", "attic"), "attic")
-    assert_refused(run("plot", path, "--circuit", "attic", "-o", tmp_path / "p.png"), "attic")
+    assert_refused(cli("choose", path, "--circuit", "attic"), "attic")
+    assert_refused(cli("plot", path, "--circuit", "attic", "-o", tmp_path / "p.png"), "attic")
     assert not (tmp_path / "p.png").exists()
 
 
@@ -211,14 +205,14 @@ def _clean(doc):
     return doc
 
 
-def _invoke_quietly(tmp_path: Path, doc: dict, command: list[str]):
+def _invoke_quietly(cli: Cli, tmp_path: Path, doc: dict, command: list[str]):
     try:
         text = to_toml(_clean(doc))
     except TypeError:
         return None
     path = tmp_path / "fuzz.toml"
     path.write_text(text, encoding="utf-8")
-    return run(command[0], path, *command[1:])
+    return cli(command[0], path, *command[1:])
 
 
 FIXTURE_OK = [HealthCheck.function_scoped_fixture]
@@ -235,8 +229,8 @@ def assert_no_crash(result):
 @given(doc=broken_documents(), command=st.sampled_from(
     [["faults"], ["check"], ["faults", "--json"], ["check", "--json"],
      ["choose", "--circuit", "sockets"], ["choose", "--circuit", "incomer"]]))
-def test_fuzz_text_commands_raise_only_input_errors(tmp_path, doc, command):
-    result = _invoke_quietly(tmp_path, doc, command)
+def test_fuzz_text_commands_raise_only_input_errors(cli, tmp_path, doc, command):
+    result = _invoke_quietly(cli, tmp_path, doc, command)
     if result is None:
         return
     assert_no_crash(result)
@@ -246,11 +240,11 @@ def test_fuzz_text_commands_raise_only_input_errors(tmp_path, doc, command):
 
 @settings(max_examples=8, deadline=None, suppress_health_check=FIXTURE_OK)
 @given(doc=broken_documents(), command=st.sampled_from(["plot", "report"]))
-def test_fuzz_output_commands_raise_only_input_errors(tmp_path, doc, command):
+def test_fuzz_output_commands_raise_only_input_errors(cli, tmp_path, doc, command):
     out = tmp_path / ("fuzz.png" if command == "plot" else "fuzz.pdf")
     out.unlink(missing_ok=True)
     extra = ["--circuit", "sockets"] if command == "plot" else []
-    result = _invoke_quietly(tmp_path, doc, [command, *extra, "-o", str(out)])
+    result = _invoke_quietly(cli, tmp_path, doc, [command, *extra, "-o", str(out)])
     if result is None:
         return
     assert_no_crash(result)
@@ -259,27 +253,27 @@ def test_fuzz_output_commands_raise_only_input_errors(tmp_path, doc, command):
 
 
 # -- properties across the pipeline ----------------------------------------------------------------
-def _pairs_json(path: Path) -> list[dict]:
-    result = run("check", path, "--json")
+def _pairs_json(cli: Cli, path: Path) -> list[dict]:
+    result = cli("check", path, "--json")
     assert result.exit_code in (0, 1), result.output
     return json.loads(result.stdout)["pairs"]
 
 
 @settings(max_examples=10, deadline=None, suppress_health_check=FIXTURE_OK)
 @given(order=st.permutations(range(len(BASE["circuit"]))))
-def test_verdicts_stable_when_circuits_are_reordered(tmp_path, order):
+def test_verdicts_stable_when_circuits_are_reordered(cli, tmp_path, order):
     reordered = copy.deepcopy(BASE)
     reordered["circuit"] = [reordered["circuit"][i] for i in order]
 
     def key(p):
         return (p["upstream"], p["downstream"])
 
-    original = sorted(_pairs_json(write(tmp_path, BASE, "a.toml")), key=key)
-    shuffled = sorted(_pairs_json(write(tmp_path, reordered, "b.toml")), key=key)
+    original = sorted(_pairs_json(cli, write(tmp_path, BASE, "a.toml")), key=key)
+    shuffled = sorted(_pairs_json(cli, write(tmp_path, reordered, "b.toml")), key=key)
     assert shuffled == original
 
 
-def test_python_api_and_json_agree(tmp_path):
+def test_python_api_and_json_agree(cli, tmp_path):
     from coordination import engine, faults, study
     from coordination.cli import to_json
 
@@ -287,14 +281,14 @@ def test_python_api_and_json_agree(tmp_path):
     s = study.load(path)
     levels = faults.compute(s)
     api_pairs = json.loads(to_json(engine.analyse(s, levels).to_json()))["pairs"]
-    assert _pairs_json(path) == api_pairs
+    assert _pairs_json(cli, path) == api_pairs
     api_nodes = json.loads(to_json(levels.to_json()))["nodes"]
-    cli_nodes = json.loads(run("faults", path, "--json").stdout)["nodes"]
+    cli_nodes = json.loads(cli("faults", path, "--json").stdout)["nodes"]
     assert cli_nodes == api_nodes
 
 
 def test_json_writes_never_as_null_and_plain_values_of_any_kind():
-    # DESIGN.md, JSON contract: a time that does not exist ("never") is null
+    # Our JSON output: a time that does not exist ("never") is null
     from types import MappingProxyType
 
     import numpy as np
@@ -319,23 +313,24 @@ def test_deep_chain_of_5000_loads_and_computes_faults(tmp_path):
     assert len(s.ancestors("n4999")) == 4999
 
 
-def test_wide_board_of_5000_checks(tmp_path):
-    result = run("check", write(tmp_path, wide(5000)), "--json")
+def test_wide_board_of_5000_checks(cli, tmp_path):
+    result = cli("check", write(tmp_path, wide(5000)), "--json")
     assert result.exit_code in (0, 1), result.output
     assert len(json.loads(result.stdout)["pairs"]) == 5000
 
 
-def test_deep_chain_of_5000_alike_devices_checks_in_one_row_per_circuit(tmp_path, monkeypatch):
-    # every ancestor is paired (DESIGN.md): n (n - 1) / 2 pairs in a chain of n. Alike devices in
-    # a row give alike results, so the engine decides one pair per circuit and lists one row
-    # standing for the run: work and output linear in the chain's length
+def test_deep_chain_of_5000_alike_devices_checks_in_one_row_per_circuit(cli, tmp_path,
+                                                                         monkeypatch):
+    # every ancestor is paired (our modelling choice): n (n - 1) / 2 pairs in a chain of n. Alike
+    # devices in a row give alike results, so the engine decides one pair per circuit and lists one
+    # row standing for the run: work and output linear in the chain's length
     from coordination import engine
 
     depth = 5000
     decided = []
     compare = engine._compare  # what analyse() calls for each pair it decides
     monkeypatch.setattr(engine, "_compare", lambda *a, **k: decided.append(1) or compare(*a, **k))
-    result = run("check", write(tmp_path, chain(depth)), "--json")
+    result = cli("check", write(tmp_path, chain(depth)), "--json")
     assert result.exit_code in (0, 1), result.output
     out = json.loads(result.stdout)
     assert len(out["pairs"]) == depth - 1
@@ -347,28 +342,29 @@ def test_deep_chain_of_5000_alike_devices_checks_in_one_row_per_circuit(tmp_path
             deepest["upstream_count"]) == ("n4999", "n4998", "n0", 4999)
 
 
-def test_the_table_names_both_ends_of_a_run_and_counts_every_pair(tmp_path):
+def test_the_table_names_both_ends_of_a_run_and_counts_every_pair(cli, tmp_path):
     # our design (README, What the tool assumes): one row for a run of alike ancestors
-    result = run("check", write(tmp_path, chain(4)))
+    result = cli("check", write(tmp_path, chain(4)))
     assert result.exit_code in (0, 1), result.output
     assert "n2 to n0 (3 x gG100)" in result.stdout
     assert "selectivity: 6 pairs" in result.stdout  # 1 + 2 + 3, in three rows
 
 
-def test_chain_of_differing_devices_lists_every_pair(tmp_path):
-    # DESIGN.md: every ancestor is paired; no two devices in a row alike, so one row per pair
+def test_chain_of_differing_devices_lists_every_pair(cli, tmp_path):
+    # Our modelling choice: every ancestor is paired; no two devices in a row alike, so one row per
+    # pair
     depth = 40
-    result = run("check", write(tmp_path, chain(depth, ("gG160", "gG125"))), "--json")
+    result = cli("check", write(tmp_path, chain(depth, ("gG160", "gG125"))), "--json")
     assert result.exit_code in (0, 1), result.output
     pairs = json.loads(result.stdout)["pairs"]
     assert len(pairs) == depth * (depth - 1) // 2
     assert {p["upstream_count"] for p in pairs} == {1}
 
 
-def test_a_tested_limit_splits_a_run_of_alike_devices(tmp_path):
-    # DESIGN.md: a tested limit belongs to one pair and overrides the curves for it alone
+def test_a_tested_limit_splits_a_run_of_alike_devices(cli, tmp_path):
+    # Our modelling choice: a tested limit belongs to one pair and overrides the curves for it alone
     text = chain(8) + '\n[circuit.tested_limits_a]\nn3 = 2500\n'  # for n7, under n6 .. n0
-    result = run("check", write(tmp_path, text), "--json")
+    result = cli("check", write(tmp_path, text), "--json")
     assert result.exit_code in (0, 1), result.output
     rows = [(p["upstream"], p["upstream_last"], p["upstream_count"], p["basis"])
             for p in json.loads(result.stdout)["pairs"] if p["downstream"] == "n7"]
@@ -376,8 +372,8 @@ def test_a_tested_limit_splits_a_run_of_alike_devices(tmp_path):
                     ("n2", "n0", 3, "time-current")]
 
 
-def test_a_tree_too_deep_to_list_is_refused_in_one_line(tmp_path):
+def test_a_tree_too_deep_to_list_is_refused_in_one_line(cli, tmp_path):
     # our design (README): more than 500,000 rows are refused in one line, not left to exhaust
     # memory; 1,100 circuits in a chain of alternating devices need 604,450
-    result = run("check", write(tmp_path, chain(1100, ("gG160", "gG125"))), "--json")
+    result = cli("check", write(tmp_path, chain(1100, ("gG160", "gG125"))), "--json")
     assert_refused(result, "n1099", "from", "500,000")

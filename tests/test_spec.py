@@ -16,7 +16,7 @@ DATASHEET = {"family": "datasheet", "name": "invented feeder", "In_a": 630,
 
 
 # -- parse_inline ------------------------------------------------------------------------------
-# Our design (DESIGN.md): text starting with "{" is an inline TOML table, else trade shorthand.
+# Our design: text starting with "{" is an inline TOML table, else trade shorthand.
 @pytest.mark.parametrize(("text", "expected"), [
     ("B32", "B32"),
     ("  gG100 \n", "gG100"),
@@ -39,7 +39,7 @@ def test_parse_inline_refuses_bad_text(text):
 
 # -- shorthand ---------------------------------------------------------------------------------
 # IEC 60898-1, instantaneous bands (confirmed): the lower instantaneous multiple is B 3 In,
-# C 5 In, D 10 In; shorthand MCBs are class 3, Icn 6 kA (our default, BRIEF).
+# C 5 In, D 10 In; shorthand MCBs are class 3, Icn 6 kA (our default).
 @pytest.mark.parametrize(("text", "curve_type", "rating", "inst_x"), [
     ("B32", "B", 32, 3), ("C16", "C", 16, 5), ("D10", "D", 10, 10), ("c6", "C", 6, 5),
 ])
@@ -131,14 +131,14 @@ def test_inline_text_is_accepted_by_band_from_spec():
     assert band_from_spec(text) == band_from_spec(TM)
 
 
-# Our design (DESIGN.md): a datasheet device has its own basis, whatever the study asks.
+# Our design: a datasheet device has its own basis, whatever the study asks.
 @pytest.mark.parametrize("basis", ["typical", "envelope", "datasheet"])
 def test_datasheet_basis_whatever_is_asked(basis):
     band = band_from_spec(DATASHEET, basis=basis)
     assert (band.family, band.basis, band.name) == ("datasheet", "datasheet", "invented feeder")
 
 
-# Our design (BRIEF): bad tables name the key and what is allowed; the grids and series are
+# Our design: bad tables name the key and what is allowed; the grids and series are
 # IEC 60947-2 / IEC 60898-1 / IEC 60269 values or common practice, as in curves/.
 @pytest.mark.parametrize(("spec", "key", "words"), [
     ({"In_a": 250}, "family", ["allowed", "tm"]),
@@ -180,7 +180,7 @@ def test_table_errors_name_key_and_what_is_allowed(spec, key, words):
         assert word in message
 
 
-# Our design (DESIGN.md): the two bases are "typical" and "envelope", spelled so.
+# Our design: the two bases are "typical" and "envelope", spelled so.
 @pytest.mark.parametrize("basis", ["nominal", "", None, "Typical"])
 def test_unknown_basis(basis):
     with pytest.raises(InputError, match="typical, envelope"):

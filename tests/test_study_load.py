@@ -3,15 +3,11 @@ command line: the message names circuit, key and what is allowed; exit code 2; n
 
 from __future__ import annotations
 
-import subprocess
-import sys
 from pathlib import Path
 
 import pytest
-from typer.testing import CliRunner
 
 from coordination import faults, study
-from coordination.cli import app
 from coordination.model import SUPPLY_ID
 from curves.errors import InputError
 
@@ -185,11 +181,11 @@ def test_bad_input_api(label: str, text: str, circuit: str | None, key: str,
 
 @pytest.mark.parametrize(("label", "text", "circuit", "key", "fragments"), BAD,
                          ids=[b[0] for b in BAD])
-def test_bad_input_cli(label: str, text: str, circuit: str | None, key: str,
+def test_bad_input_cli(cli, label: str, text: str, circuit: str | None, key: str,
                        fragments: list[str], tmp_path: Path) -> None:
     path = tmp_path / "bad.toml"
     path.write_text(text, encoding="utf-8")
-    result = CliRunner().invoke(app, ["faults", str(path)])
+    result = cli("faults", str(path))
     assert result.exit_code == 2
     assert result.stdout == ""
     lines = result.stderr.strip().splitlines()
@@ -203,7 +199,6 @@ def test_bad_input_cli(label: str, text: str, circuit: str | None, key: str,
                                                                      SystemExit)
 
 
-ROOT = Path(__file__).resolve().parents[1]
 TRANSFORMER = "[supply.transformer]\nrating_kva = 500\nimpedance_pct = 4\n"
 CABLE = "length_m = 25\ncsa_mm2 = 4\ncpc_mm2 = 1.5\n"
 
@@ -291,13 +286,12 @@ def test_misplaced_key_names_its_table_api(label: str, text: str, circuit: str |
 
 @pytest.mark.parametrize(("label", "text", "circuit", "key", "fragments", "absent"), MISPLACED,
                          ids=[m[0] for m in MISPLACED])
-def test_misplaced_key_names_its_table_cli(label: str, text: str, circuit: str | None,
-                                           key: str, fragments: list[str], absent: list[str],
-                                           tmp_path: Path) -> None:
+def test_misplaced_key_names_its_table_cli(cli_process, label: str, text: str,
+                                           circuit: str | None, key: str, fragments: list[str],
+                                           absent: list[str], tmp_path: Path) -> None:
     path = tmp_path / "misplaced.toml"
     path.write_text(text, encoding="utf-8")
-    result = subprocess.run([sys.executable, "-m", "coordination", "check", str(path)],
-                            capture_output=True, text=True, cwd=ROOT, timeout=120)
+    result = cli_process("check", str(path), text=True)
     assert result.returncode == 2
     assert result.stdout == ""
     lines = result.stderr.strip().splitlines()

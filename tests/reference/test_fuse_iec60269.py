@@ -1,7 +1,8 @@
 """gG fuse-link bands against the IEC 60269-1/-2 gates, conventional currents and I2t limits.
 
-The check values are typed in here from /work/shared/REFERENCE.md (and, for 2..12 A, the gates as
-recalled), not read from the code's data files, so a wrong data file fails these tests.
+The check values are typed in here from IEC 60269-1/-2 with each value's status beside it (and,
+for 2..12 A, the gates as recalled), not read from the code's data files, so a wrong data file
+fails these tests.
 """
 
 from __future__ import annotations
@@ -20,7 +21,7 @@ REL = 1e-9
 BASES = ("envelope", "typical")
 
 # IEC 60269-2, gG gates (A): In, Imin(10 s), Imax(5 s), Imin(0.1 s), Imax(0.1 s)
-# (REFERENCE.md: Imax(5 s) for 16..100 A confirmed, the rest from memory)
+# (Imax(5 s) for 16..100 A confirmed, the rest from memory)
 GATES = [
     (16, 33, 65, 85, 150),
     (20, 42, 85, 110, 200),
@@ -43,8 +44,8 @@ GATES = [
     (1000, 4000, 9500, 14140, 24000),
     (1250, 5000, 13000, 19000, 35000),
 ]
-# IEC 60269-2, gG gates below 16 A (from memory: recalled, not in REFERENCE.md and not found in
-# a public copy; a search of published sources confirmed none of these rows)
+# IEC 60269-2, gG gates below 16 A (from memory: recalled, not found in a
+# public copy; a search of published sources confirmed none of these rows)
 SMALL_GATES = [
     (2, 3.7, 9.2, 6.0, 23.0),  # from memory
     (4, 7.8, 18.5, 14.0, 47.0),  # from memory
@@ -82,8 +83,8 @@ I2T = [
 
 
 def conventional(rating_a: float) -> tuple[float, float, float]:
-    """IEC 60269-1 conventional non-fusing and fusing multiples and time [s] (REFERENCE.md:
-    currents from memory; times from memory within the confirmed 1..4 h range)."""
+    """IEC 60269-1 conventional non-fusing and fusing multiples and time [s] (currents
+    from memory; times from memory within the confirmed 1..4 h range)."""
     if rating_a <= 4:
         k_nf, k_f = 1.5, 2.1
     elif rating_a < 16:
@@ -114,7 +115,7 @@ def check_gates(
 
 
 # IEC 60269-2, gG gates Imin(10 s), Imax(5 s), Imin(0.1 s), Imax(0.1 s)
-# (REFERENCE.md: Imax(5 s) for 16..100 A confirmed, the rest from memory)
+# (Imax(5 s) for 16..100 A confirmed, the rest from memory)
 @pytest.mark.parametrize("basis", BASES)
 @pytest.mark.parametrize(("rating_a", "imin_10s", "imax_5s", "imin_0_1s", "imax_0_1s"), GATES)
 def test_gates(
@@ -228,7 +229,7 @@ def test_default_breaking_capacity() -> None:
     assert band.family == "gG" and band.name == "gG63"
 
 
-# IEC 60269 gG ratings (REFERENCE.md series); bad input names the key
+# IEC 60269-2 gG ratings (the series of its gate table); bad input names the key
 @pytest.mark.parametrize(
     ("kwargs", "key"),
     [

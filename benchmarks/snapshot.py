@@ -2,12 +2,12 @@
 
 Run from the repository root (not collected by pytest)::
 
-    python tests/snapshot.py /tmp/before      # on the commit before the change
-    python tests/snapshot.py /tmp/after       # with the change
-    diff -r /tmp/before /tmp/after            # a change meant to be faster leaves no difference
+    python -m benchmarks.snapshot /tmp/before   # on the commit before the change
+    python -m benchmarks.snapshot /tmp/after    # with the change
+    diff -r /tmp/before /tmp/after              # a change meant to be faster leaves no difference
 
 The studies: the bundled examples, the same installations under TT (invented variants), and
-the benchmark's generated building (``tests/generate.py``). Each command's output goes to
+the benchmark's generated building (``benchmarks/generate.py``). Each command's output goes to
 ``<study>.<command>.json`` and its exit code to ``<study>.<command>.exit``.
 """
 
@@ -21,9 +21,9 @@ from pathlib import Path
 
 HERE = Path(__file__).resolve().parent
 ROOT = HERE.parent
-sys.path.insert(0, str(HERE))
+sys.path.insert(0, str(ROOT))
 
-from generate import building  # noqa: E402
+from benchmarks.generate import building  # noqa: E402
 
 
 def _as_tt(text: str) -> str:
@@ -50,7 +50,7 @@ def studies(folder: Path) -> dict[str, tuple[Path, list[list[str]]]]:
 
 def main() -> None:
     if len(sys.argv) != 2:
-        sys.exit("usage: python tests/snapshot.py FOLDER")
+        sys.exit("usage: python -m benchmarks.snapshot FOLDER")
     target = Path(sys.argv[1])
     target.mkdir(parents=True, exist_ok=True)
     with tempfile.TemporaryDirectory() as tmp:

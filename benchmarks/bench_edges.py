@@ -2,7 +2,7 @@
 
 Run from the repository root::
 
-    python tests/bench_edges.py [--points 1000000] [--repeat 5]
+    python -m benchmarks.bench_edges [--points 1000000] [--repeat 5]
 
 Prints, per family, the best time of ``--repeat`` runs for ``t_min`` and ``t_max`` over
 ``--points`` currents spread log-uniformly from 1 A to 100 kA. Families whose module is missing

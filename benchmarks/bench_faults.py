@@ -2,7 +2,7 @@
 
 Run from the repository root::
 
-    python tests/bench_faults.py
+    python -m benchmarks.bench_faults
 
 Times loading (TOML parsing, validation, band building) and ``faults.compute`` separately; the
 fault computation itself should take well under a second. A 5,000-deep chain is timed too.
@@ -17,11 +17,9 @@ import time
 from pathlib import Path
 
 HERE = Path(__file__).resolve().parent
-sys.path.insert(0, str(HERE))
 sys.path.insert(0, str(HERE.parent))
 
-from generate import building, chain  # noqa: E402
-
+from benchmarks.generate import building, chain  # noqa: E402
 from coordination import faults, study  # noqa: E402
 
 REPEATS = 7

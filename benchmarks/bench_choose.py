@@ -2,7 +2,7 @@
 
 Run from the repository root (not collected by pytest)::
 
-    python tests/bench_choose.py
+    python -m benchmarks.bench_choose
 
 Two invented installations: an incomer with an electronic trip unit over one gG160 sub-main,
 and the same over a board of 40 final circuits (more devices below it to clear). For each it

@@ -2,7 +2,7 @@
 
 Run from the repository root (not collected by pytest)::
 
-    python tests/bench_all.py
+    python -m benchmarks.bench_all
 
 It generates an invented building (an incomer, 10 risers, 5 boards each, 40 final circuits per
 board: 2,061 circuits) and a quarter-size one, then times as whole processes ``--help``, ``times``,
@@ -31,10 +31,9 @@ import time
 from pathlib import Path
 
 HERE = Path(__file__).resolve().parent
-sys.path.insert(0, str(HERE))
 sys.path.insert(0, str(HERE.parent))
 
-from generate import building, chain, wide  # noqa: E402
+from benchmarks.generate import building, chain, wide  # noqa: E402
 
 REPEATS = 5
 #: Rounds of the commands measured in turns.

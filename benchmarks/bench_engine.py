@@ -2,11 +2,11 @@
 
 Run from the repository root::
 
-    python tests/bench_engine.py [--risers 10 --boards 5 --finals 40 --repeats 5]
+    python -m benchmarks.bench_engine [--risers 10 --boards 5 --finals 40 --repeats 5]
 
 The building (an incomer, risers, boards on each riser, final circuits on each board) is invented
-(tests/generate.py). It is loaded through ``coordination.study.loads`` and its fault levels come
-from ``coordination.faults.compute``; where those modules are not importable yet, the study is
+(benchmarks/generate.py). It is loaded through ``coordination.study.loads`` and its fault levels
+come from ``coordination.faults.compute``; where those modules are not importable yet, the study is
 built from the model dataclasses directly and the fault levels are an invented stand-in falling
 with depth, so that the engine alone can still be timed.
 """
@@ -21,7 +21,6 @@ from pathlib import Path
 from types import SimpleNamespace
 
 HERE = Path(__file__).resolve().parent
-sys.path.insert(0, str(HERE))
 sys.path.insert(0, str(HERE.parent))
 
 from coordination import engine  # noqa: E402
@@ -55,8 +54,7 @@ def stand_in_levels(study: Study) -> SimpleNamespace:
 
 def make_study(risers: int, boards: int, finals: int) -> tuple[Study, object, str]:
     try:
-        from generate import building
-
+        from benchmarks.generate import building
         from coordination import study as loader
 
         s = loader.loads(building(risers, boards, finals))
