@@ -63,3 +63,15 @@ def band_for(study: Study, circuit_id: str, basis: str | None = None) -> Band:
         return device_band(circuit.device, chosen)
     except InputError as error:
         raise error.within(circuit=circuit_id, key="device") from None
+
+
+def compact_labels(study: Study, basis: str | None = None) -> dict[str, str]:
+    """Each circuit's device in the compact form for narrow table cells, by circuit id.
+
+    ``"B32"``, ``"gG100"``, ``"electronic 1600 A, Ir 1440 A"`` (:func:`curves.spec.device_label`);
+    the full label is the band's ``name``.
+    """
+    from curves.spec import device_label
+
+    return {c.id: device_label(band_for(study, c.id, basis), compact=True)
+            for c in study.circuits}

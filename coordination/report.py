@@ -538,12 +538,15 @@ def _fault_table(study: Study, levels: Any) -> TableSpec:
 BASIS_SHORT = {"typical": "typ", "envelope": "env", "datasheet": "data"}
 
 
-def _pair_table(analysis: Any) -> TableSpec:
+def _pair_table(study: Study, analysis: Any) -> TableSpec:
+    from coordination.devices import compact_labels
+
+    label = compact_labels(study, analysis.basis)  # the register has every setting
     rows, flags = [], []
     for p in analysis.pairs:
         bases = "/".join(BASIS_SHORT.get(b, b) for b in (p.downstream_basis, p.upstream_basis))
         rows.append((
-            p.downstream, p.upstream_span, f"{p.downstream_device} / {p.upstream_device}",
+            p.downstream, p.upstream_span, f"{label[p.downstream]} / {label[p.upstream]}",
             p.verdict, "-" if p.verdict == "total" else _ka(p.limit_a),
             f"{_ka(p.window_a[0])}-{_ka(p.window_a[1])}", p.decided_by, bases,
             "total" if p.required_a is None else _ka(p.required_a), "yes" if p.ok else "NO"))
@@ -945,7 +948,7 @@ def build_pages(study: Study, basis: str | None = None) -> tuple[list[PageBuilde
         "Devices and bases downstream/upstream (typ: typical, env: envelope, data: datasheet; "
         "full device settings in the register). Need: the selectivity the study requires "
         "('total' unless it gives selective_to_a). Rows that miss it are marked NO.",
-    ], _pair_table(analysis))
+    ], _pair_table(study, analysis))
     pages += _table_pages(study, "Protection checks", [
         "Disconnection time (IEC 60364-4-41 Table 41.1), overload (IEC 60364-4-43, 433: the "
         "device's conventional tripping current I2 against 1.45 Iz), fault energy "
