@@ -24,6 +24,7 @@ import functools
 import logging
 import math
 import os
+import re
 import sys
 import textwrap
 from collections.abc import Callable, Iterable, Sequence
@@ -538,10 +539,23 @@ def _fault_table(study: Study, levels: Any) -> TableSpec:
 BASIS_SHORT = {"typical": "typ", "envelope": "env", "datasheet": "data"}
 
 
+def _keep_together(label: str) -> str:
+    """A label whose numbers stay with their units and setting names when a cell wraps.
+
+    Examples
+    --------
+    >>> _keep_together("electronic 1600 A, Ir 1440 A").replace("\u00a0", "_")
+    'electronic 1600_A, Ir_1440_A'
+    """
+    label = re.sub(r"(?<=\d) (?=[A-Za-z])", "\u00a0", label)
+    return re.sub(r"\b(In|Ir|tr|Isd|tsd|Ii) (?=\d)", "\\1\u00a0", label)
+
+
 def _pair_table(study: Study, analysis: Any) -> TableSpec:
     from coordination.devices import compact_labels
 
-    label = compact_labels(study, analysis.basis)  # the register has every setting
+    # the register has every setting; a breaker's compact label wraps between its parts
+    label = {k: _keep_together(v) for k, v in compact_labels(study, analysis.basis).items()}
     rows, flags = [], []
     for p in analysis.pairs:
         bases = "/".join(BASIS_SHORT.get(b, b) for b in (p.downstream_basis, p.upstream_basis))
@@ -554,7 +568,7 @@ def _pair_table(study: Study, analysis: Any) -> TableSpec:
     return TableSpec(("downstream", "upstream", "devices", "verdict", "Is kA", "window kA",
                       "decided by", "bases", "need kA", "met"),
                      (0.0, 0.0, 1.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0), tuple(rows),
-                     "llllrlllrr", fit=(0, 1, 3, 4, 5, 6, 7, 8), flags=tuple(flags))
+                     "llllrlllrr", wrap=(2,), fit=(0, 1, 3, 4, 5, 6, 7, 8), flags=tuple(flags))
 
 
 CHECK_COLUMNS = (("disconnection", "disconnection"), ("overload", "overload"),

@@ -22,7 +22,7 @@ from coordination import choose, engine, faults, study
 from coordination.cli import app
 from coordination.devices import band_for, compact_labels
 from coordination.plot import plot_circuit
-from coordination.report import _device_table, _pair_table
+from coordination.report import _column_chars, _device_table, _pair_table, _row_lines
 from curves.breaker import (
     BREAKER_RATINGS_A,
     ELECTRONIC_II_X,
@@ -202,3 +202,29 @@ def test_electronic_label_for_any_setting(rating, ir_x, tr, isd_x, tsd, ramp, ii
     assert band.name.split(", ") == expected
     assert breaker_label(band.family, band.settings, compact=True) == ", ".join(expected[:2])
     assert_our_own(band.name)
+
+
+def test_the_examples_readme_quotes_the_labels_as_printed():
+    s = study.load(EXAMPLES / "office-building.toml")
+    readme = " ".join((EXAMPLES / "README.md").read_text(encoding="utf-8").split())
+    compact = compact_labels(s)
+    for circuit in ("incomer", "sm-plant"):
+        assert f"`{band_for(s, circuit).name}`" in readme
+        assert f"`{compact[circuit]}`" in readme
+
+
+def test_the_report_pair_table_shows_each_compact_label_whole():
+    # the devices cell wraps rather than cut a label short; a number keeps its unit on its line
+    s = study.load(EXAMPLES / "office-building.toml")
+    levels = faults.compute(s)
+    analysis = engine.analyse(s, levels)
+    spec = _pair_table(s, analysis)
+    chars = _column_chars(spec)
+    compact = compact_labels(s)
+    assert len(spec.rows) == len(analysis.pairs)
+    for row, pair in zip(spec.rows, analysis.pairs, strict=True):
+        lines = _row_lines(spec, row, chars)[2]
+        assert all(len(line) <= chars[2] and "\u2026" not in line for line in lines)
+        shown = " ".join(lines).replace("\u00a0", " ")
+        assert shown == f"{compact[pair.downstream]} / {compact[pair.upstream]}"
+        assert not any(re.match(r"^(?:A|s)\b", line) for line in lines[1:]), lines
