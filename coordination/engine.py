@@ -866,7 +866,7 @@ def format_table(study: Study, levels: Any, analysis: Analysis) -> str:
     """
     from coordination.text import format_current, table
 
-    label = compact_labels(study, analysis.basis)
+    label = compact_labels(study, analysis.basis, band_of=band_for)
     groups: dict[str, list[PairResult]] = {}
     for p in analysis.pairs:
         groups.setdefault(study.board_name(p.downstream), []).append(p)
