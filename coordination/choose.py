@@ -1230,6 +1230,9 @@ REMEDY_EXPLAINED_GRIDS = 8
 FAMILY_WORDS = {"B": "a type B MCB", "C": "a type C MCB", "D": "a type D MCB",
                 "gG": "a gG fuse-link", "tm": "a thermal-magnetic breaker",
                 "electronic": "an electronic breaker with a short-time delay"}
+#: What a candidate of a family is called in the chooser's answers (``--family`` takes the codes).
+FAMILY_NOUNS = {"B": "type B MCB", "C": "type C MCB", "D": "type D MCB", "gG": "gG fuse-link",
+                "tm": "thermal-magnetic breaker", "electronic": "electronic breaker"}
 
 
 def _ceil_sig(x: float, digits: int = 4) -> float:
@@ -1280,7 +1283,7 @@ def _summary(problem: _Problem, failures: Iterable[tuple[Candidate, Failure]], *
     settings are searched grid by grid, by kind of failure, each with its closest setting)."""
     named = _named(problem, failures)
     if not named:
-        return f"every {problem.family} candidate is below the design current"
+        return f"every {FAMILY_NOUNS[problem.family]} candidate is below the design current"
     if problem.family in ("tm", "electronic"):
         kinds: dict[tuple[str, str | None], list[Failure]] = {}
         for f in named:
@@ -1715,14 +1718,16 @@ def _explain(problem: _Problem, failures: list[tuple[Candidate, Failure]], group
         return reason, tuple(helps), tuple(short)
     past_load = _named(problem, failures)
     if not past_load:
-        reason = (f"every {family} candidate is below the design current Ib {ib:g} A"
-                  if ib is not None else f"no {family} candidate could be built")
+        noun = FAMILY_NOUNS[family]
+        reason = (f"every {noun} candidate is below the design current Ib {ib:g} A"
+                  if ib is not None else f"no {noun} candidate could be built")
         for other in ("tm", "electronic"):
             if other != family:
                 add(_remedy_family(problem, other, current))
         return reason, tuple(helps), tuple(short)
     stages = {f.stage for f in past_load}
-    reason = f"no {family} candidate meets every requirement: " + _summary(problem, failures)
+    reason = (f"no {FAMILY_NOUNS[family]} candidate meets every requirement: "
+              + _summary(problem, failures))
     if "overload" in stages:
         add(_remedy_cable(problem, groups))
     if "breaking-capacity" in stages:
@@ -1854,8 +1859,8 @@ def choose(study: Study, circuit_id: str, *, family: str | None = None,
                       problem.family, None, suggestions, problem.searched, previous,
                       insufficient=insufficient)
     if binding is None:
-        reason = f"{band.name} is the smallest {problem.family} candidate and meets every " \
-                 f"requirement"
+        reason = f"{band.name} is the smallest {FAMILY_NOUNS[problem.family]} candidate and " \
+                 f"meets every requirement"
     else:
         reason = f"{band.name} meets every requirement; the next smaller candidate " \
                  f"({binding.device}) fails {binding.text}"
@@ -1975,7 +1980,8 @@ def format_results(results: Iterable[Choice]) -> str:
                      f"  was:      device = {r.previous}",
                      f"  study:    device = {spec_text(r.device)}"]
         else:
-            lines = [f"circuit {r.circuit!r}: nothing in family {r.family} fits",
+            lines = [f"circuit {r.circuit!r}: no {FAMILY_NOUNS[r.family]} fits "
+                     f"(--family {r.family})",
                      f"  {r.reason}"]
             lines += [f"  would help: {s}" for s in r.suggestions]
             lines += [f"  ruled out: {s}" for s in r.insufficient]

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from collections.abc import Mapping
+from collections.abc import Callable, Mapping
 from functools import lru_cache
 from typing import Any
 
@@ -63,3 +63,18 @@ def band_for(study: Study, circuit_id: str, basis: str | None = None) -> Band:
         return device_band(circuit.device, chosen)
     except InputError as error:
         raise error.within(circuit=circuit_id, key="device") from None
+
+
+def compact_labels(study: Study, basis: str | None = None, *,
+                   band_of: Callable[[Study, str, str | None], Band] = band_for
+                   ) -> dict[str, str]:
+    """Each circuit's device in the compact form for narrow table cells, by circuit id.
+
+    ``"B32"``, ``"gG100"``, ``"electronic 1600 A, Ir 1440 A"`` (:func:`curves.spec.device_label`);
+    the full label is the band's ``name``. ``band_of``: where the bands come from (the caller's
+    own lookup, so that a table names the bands its results were computed on).
+    """
+    from curves.spec import device_label
+
+    return {c.id: device_label(band_of(study, c.id, basis), compact=True)
+            for c in study.circuits}

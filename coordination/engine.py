@@ -53,7 +53,7 @@ from typing import TYPE_CHECKING, Any, Literal
 
 import numpy as np
 
-from coordination.devices import band_for
+from coordination.devices import band_for, compact_labels
 from coordination.frozen import quick_init
 from coordination.model import Study
 from coordination.roots import find_crossing
@@ -847,7 +847,8 @@ def format_table(study: Study, levels: Any, analysis: Analysis) -> str:
     """The pairs grouped by the board the downstream device sits on, and a summary line.
 
     Columns: circuit, device, above (the upstream circuit and device), verdict, Is [kA], window
-    (A or kA), decided by, band bases (downstream/upstream), required [kA], ok.
+    (A or kA), decided by, band bases (downstream/upstream), required [kA], ok. Devices are in
+    their compact form (an adjustable breaker's kind, rating and Ir; the JSON has the rest).
 
     Examples
     --------
@@ -872,6 +873,7 @@ def format_table(study: Study, levels: Any, analysis: Analysis) -> str:
     """
     from coordination.text import format_current, table
 
+    label = compact_labels(study, analysis.basis, band_of=band_for)
     groups: dict[str, list[PairResult]] = {}
     for p in analysis.pairs:
         groups.setdefault(study.board_name(p.downstream), []).append(p)
@@ -887,9 +889,9 @@ def format_table(study: Study, levels: Any, analysis: Analysis) -> str:
             first = p.downstream != previous
             previous = p.downstream
             rows.append([
-                p.downstream if first else "", p.downstream_device if first else "",
-                f"{p.upstream} ({p.upstream_device})" if p.upstream_count == 1 else
-                f"{p.upstream} to {p.upstream_last} ({p.upstream_count} x {p.upstream_device})",
+                p.downstream if first else "", label[p.downstream] if first else "",
+                f"{p.upstream} ({label[p.upstream]})" if p.upstream_count == 1 else
+                f"{p.upstream} to {p.upstream_last} ({p.upstream_count} x {label[p.upstream]})",
                 _VERDICT_TEXT[p.verdict], _ka(p.limit_a) if p.verdict != "total" else "-",
                 f"{format_current(p.window_a[0])} - {format_current(p.window_a[1])}",
                 p.decided_by, bases,

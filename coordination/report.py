@@ -24,6 +24,7 @@ import functools
 import logging
 import math
 import os
+import re
 import sys
 import textwrap
 from collections.abc import Callable, Iterable, Sequence
@@ -538,12 +539,28 @@ def _fault_table(study: Study, levels: Any) -> TableSpec:
 BASIS_SHORT = {"typical": "typ", "envelope": "env", "datasheet": "data"}
 
 
-def _pair_table(analysis: Any) -> TableSpec:
+def _keep_together(label: str) -> str:
+    """A label whose numbers stay with their units and setting names when a cell wraps.
+
+    Examples
+    --------
+    >>> _keep_together("electronic 1600 A, Ir 1440 A").replace("\u00a0", "_")
+    'electronic 1600_A, Ir_1440_A'
+    """
+    label = re.sub(r"(?<=\d) (?=[A-Za-z])", "\u00a0", label)
+    return re.sub(r"\b(In|Ir|tr|Isd|tsd|Ii) (?=\d)", "\\1\u00a0", label)
+
+
+def _pair_table(study: Study, analysis: Any) -> TableSpec:
+    from coordination.devices import compact_labels
+
+    # the register has every setting; a breaker's compact label wraps between its parts
+    label = {k: _keep_together(v) for k, v in compact_labels(study, analysis.basis).items()}
     rows, flags = [], []
     for p in analysis.pairs:
         bases = "/".join(BASIS_SHORT.get(b, b) for b in (p.downstream_basis, p.upstream_basis))
         rows.append((
-            p.downstream, p.upstream_span, f"{p.downstream_device} / {p.upstream_device}",
+            p.downstream, p.upstream_span, f"{label[p.downstream]} / {label[p.upstream]}",
             p.verdict, "-" if p.verdict == "total" else _ka(p.limit_a),
             f"{_ka(p.window_a[0])}-{_ka(p.window_a[1])}", p.decided_by, bases,
             "total" if p.required_a is None else _ka(p.required_a), "yes" if p.ok else "NO"))
@@ -551,7 +568,7 @@ def _pair_table(analysis: Any) -> TableSpec:
     return TableSpec(("downstream", "upstream", "devices", "verdict", "Is kA", "window kA",
                       "decided by", "bases", "need kA", "met"),
                      (0.0, 0.0, 1.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0), tuple(rows),
-                     "llllrlllrr", fit=(0, 1, 3, 4, 5, 6, 7, 8), flags=tuple(flags))
+                     "llllrlllrr", wrap=(2,), fit=(0, 1, 3, 4, 5, 6, 7, 8), flags=tuple(flags))
 
 
 CHECK_COLUMNS = (("disconnection", "disconnection"), ("overload", "overload"),
@@ -945,7 +962,7 @@ def build_pages(study: Study, basis: str | None = None) -> tuple[list[PageBuilde
         "Devices and bases downstream/upstream (typ: typical, env: envelope, data: datasheet; "
         "full device settings in the register). Need: the selectivity the study requires "
         "('total' unless it gives selective_to_a). Rows that miss it are marked NO.",
-    ], _pair_table(analysis))
+    ], _pair_table(study, analysis))
     pages += _table_pages(study, "Protection checks", [
         "Disconnection time (IEC 60364-4-41 Table 41.1), overload (IEC 60364-4-43, 433: the "
         "device's conventional tripping current I2 against 1.45 Iz), fault energy "

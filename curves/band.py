@@ -103,7 +103,9 @@ class Band:
     Parameters
     ----------
     name : str
-        What a person reads, e.g. ``"B32"``, ``"gG100"``, ``"TM250 Ir=200 A"``.
+        What a person reads, e.g. ``"B32"``, ``"gG100"``,
+        ``"thermal-magnetic 250 A, Ir 200 A, Ii 10 In"`` (an adjustable breaker's label,
+        :func:`curves.breaker.breaker_label`).
     family : str
         ``"mcb"``, ``"gG"``, ``"breaker-tm"``, ``"breaker-electronic"`` or ``"datasheet"``.
     basis : str

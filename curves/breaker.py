@@ -327,6 +327,62 @@ def _basis(basis: str) -> str:
     return basis
 
 
+#: What a label calls each kind of adjustable breaker, after the releases IEC 60947-2 describes
+#: (thermal and magnetic releases; electronic over-current releases).
+KIND_WORDS: dict[str, str] = {"breaker-tm": "thermal-magnetic", "breaker-electronic": "electronic"}
+
+
+def breaker_label(family: str, settings: Any, *, compact: bool = False) -> str:
+    """The label of an adjustable breaker: its kind, its rating and its settings in words.
+
+    The one place that builds the label a person reads for a thermal-magnetic or electronic
+    breaker, in tables, plots, the report and JSON (a band's ``name``). The settings keep IEC
+    60947-2's names (Ir, tr, Isd, tsd, Ii); a multiple names the current it multiplies
+    (``Isd 4 Ir``, ``Ii 10 In``).
+
+    Parameters
+    ----------
+    family : str
+        ``"breaker-tm"`` or ``"breaker-electronic"``.
+    settings : mapping
+        A breaker band's settings (``In_a``, ``Ir_a``, ``tr_s``, ``Isd_x``, ``tsd_s``,
+        ``sd_i2t``, ``Ii_x``; those of an element the unit lacks are absent).
+    compact : bool
+        For narrow table cells: the kind, the rating and Ir only (the register and the JSON
+        carry the rest).
+
+    Returns
+    -------
+    str
+        E.g. ``"thermal-magnetic 250 A, Ir 200 A, Ii 10 In"``; compact
+        ``"thermal-magnetic 250 A, Ir 200 A"``.
+
+    References
+    ----------
+    IEC 60947-2:2016, 7.2.1.2.4 (the settings of over-current releases; from memory).
+
+    Examples
+    --------
+    >>> print(breaker_label("breaker-electronic", {"In_a": 1600, "Ir_a": 1440, "tr_s": 12,
+    ...                                            "Isd_x": 4, "tsd_s": 0.3, "sd_i2t": False}))
+    electronic 1600 A, Ir 1440 A, tr 12 s, Isd 4 Ir, tsd 0.3 s
+    >>> print(breaker_label("breaker-tm", {"In_a": 250, "Ir_a": 200, "Ii_x": 10}, compact=True))
+    thermal-magnetic 250 A, Ir 200 A
+    """
+    parts = [f"{KIND_WORDS[family]} {settings['In_a']:g} A", f"Ir {settings['Ir_a']:g} A"]
+    if not compact:
+        if "tr_s" in settings:
+            parts.append(f"tr {settings['tr_s']:g} s")
+        if "Isd_x" in settings:
+            parts.append(f"Isd {settings['Isd_x']:g} Ir")
+            parts.append(f"tsd {settings['tsd_s']:g} s")
+            if settings.get("sd_i2t"):
+                parts.append("I2t ramp")
+        if "Ii_x" in settings:
+            parts.append(f"Ii {settings['Ii_x']:g} In")
+    return ", ".join(parts)
+
+
 # -- thermal-magnetic --------------------------------------------------------------------------
 def thermal_magnetic_band(
     *,
@@ -420,7 +476,7 @@ def thermal_magnetic_band(
     if icu is None:
         notes.append("Icu not given: breaking capacity unknown")
     return Band(
-        name=f"TM{rating:g} Ir={ir:g}A Ii={ii_x:g}In",
+        name=breaker_label("breaker-tm", settings),
         family="breaker-tm",
         basis=basis,
         rating_a=rating,
@@ -665,13 +721,10 @@ def electronic_band(
         notes.append(f"instantaneous release may act from {p_lo * ii:g} A: no energy withstand "
                      "above it")
     settings: dict[str, Any] = {"In_a": rating, "Ir_x": ir_x, "Ir_a": ir, "tr_s": tr}
-    name = f"E{rating:g} Ir={ir:g}A tr={tr:g}s"
     if isd_x is not None:
         settings.update(Isd_x=isd_x, Isd_a=isd, tsd_s=tsd, sd_i2t=bool(sd_i2t))
-        name += f" Isd={isd_x:g}Ir tsd={tsd:g}s" + (" I2t" if sd_i2t else "")
     if ii_x is not None:
         settings.update(Ii_x=ii_x, Ii_a=ii)
-        name += f" Ii={ii_x:g}In"
     else:
         notes.append("no instantaneous release (Ii off)")
     if icu is not None:
@@ -679,7 +732,7 @@ def electronic_band(
     else:
         notes.append("Icu not given: breaking capacity unknown")
     return Band(
-        name=name,
+        name=breaker_label("breaker-electronic", settings),
         family="breaker-electronic",
         basis=basis,
         rating_a=rating,

@@ -290,3 +290,38 @@ def band_from_spec(spec: str | Mapping[str, Any], basis: str = "typical") -> Ban
     if isinstance(spec, Mapping):
         return _from_table(spec, basis)
     raise InputError(f"a device must be text or a table, not {spec!r}; give {_HELP}")
+
+
+def device_label(band: Band, *, compact: bool = False) -> str:
+    """What a person reads for a device: its band's name, or the compact form for narrow cells.
+
+    An MCB or a fuse-link is its standard designation (``"B32"``, ``"gG100"``) in both forms; a
+    datasheet device its given name; an adjustable breaker its kind, rating and settings in
+    words (:func:`curves.breaker.breaker_label`), compact: kind, rating and Ir.
+
+    Parameters
+    ----------
+    band : Band
+        The device.
+    compact : bool
+        The short form, for table cells beside the circuit's id.
+
+    References
+    ----------
+    IEC 60898-1 (types B, C, D), IEC 60269-1 (gG), IEC 60947-2 (Ir, tr, Isd, tsd, Ii).
+
+    Examples
+    --------
+    >>> band = band_from_spec({"family": "tm", "In_a": 250, "Ir_x": 0.8})
+    >>> print(device_label(band))
+    thermal-magnetic 250 A, Ir 200 A, Ii 10 In
+    >>> print(device_label(band, compact=True))
+    thermal-magnetic 250 A, Ir 200 A
+    >>> print(device_label(band_from_spec("gG100"), compact=True))
+    gG100
+    """
+    from curves.breaker import KIND_WORDS, breaker_label
+
+    if compact and band.family in KIND_WORDS:
+        return breaker_label(band.family, band.settings, compact=True)
+    return band.name

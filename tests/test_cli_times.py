@@ -27,7 +27,7 @@ def test_json_contract_and_null_for_never(cli):
     result = cli("times", TM, *currents(150, 1000, 5000), "--json")
     assert result.exit_code == 0, result.output
     data = json.loads(result.stdout)
-    assert data["device"] == "TM250 Ir=200A Ii=10In"
+    assert data["device"] == "thermal-magnetic 250 A, Ir 200 A, Ii 10 In"
     assert [p["current_a"] for p in data["points"]] == [150, 1000, 5000]
     assert set(data["points"][0]) >= {"current_a", "t_min_s", "t_max_s"}
     assert data["points"][0]["t_min_s"] is None
@@ -67,7 +67,7 @@ def test_readable_table(cli):
     result = cli("times", ELECTRONIC, *currents(300, 2000, 7000))
     assert result.exit_code == 0, result.output
     lines = result.stdout.splitlines()
-    assert lines[0].startswith("E400") and "typical" in lines[0]
+    assert lines[0].startswith("electronic 400 A, Ir 320 A") and "typical" in lines[0]
     assert "t_min" in lines[1] and "t_max" in lines[1]
     body = lines[3:6]
     assert len(body) == 3
