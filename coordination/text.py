@@ -34,20 +34,52 @@ def positive_or_none(value: Any) -> float | None:
     return v if v is not None and v > 0 else None
 
 
+def significant(x: float, figures: int) -> str:
+    """``x`` to ``figures`` significant figures in plain decimal notation (never an exponent).
+
+    Examples
+    --------
+    >>> print(significant(999.89, 3), significant(0.1, 3), significant(12345.6, 4))
+    1000 0.1 12350
+    """
+    if x == 0 or not math.isfinite(x):
+        return f"{x:g}"
+    decimals = figures - 1 - math.floor(math.log10(abs(x)))
+    text = f"{round(x, decimals):.{max(decimals, 0)}f}"
+    return text.rstrip("0").rstrip(".") if "." in text else text
+
+
 def format_seconds(t: float | None) -> str:
-    """A time for people: 'never', ms below 1 s, s above."""
+    """A time for people: 'never', ms below 1 s, s above; never in exponent notation.
+
+    Examples
+    --------
+    >>> print(format_seconds(0.99989), format_seconds(0.0001), format_seconds(12345.6))
+    0.9999 s 0.1 ms 12350 s
+    """
     if t is None or not math.isfinite(t):
         return "never"
     if t < 1.0:
-        return f"{t * 1000:.3g} ms"
-    return f"{t:.4g} s"
+        ms = significant(t * 1000, 3)
+        if float(ms) < 1000:
+            return f"{ms} ms"
+    return f"{significant(t, 4)} s"
 
 
 def format_current(i_a: float | None) -> str:
-    """A current for people: A below 1 kA, kA above."""
+    """A current for people: A below 1 kA, kA above; never in exponent notation.
+
+    Examples
+    --------
+    >>> print(format_current(999.96), format_current(1234567.0))
+    1 kA 1230 kA
+    """
     if i_a is None or not math.isfinite(i_a):
         return "-"
-    return f"{i_a / 1000:.3g} kA" if i_a >= 1000 else f"{i_a:.4g} A"
+    amperes = significant(i_a, 4)
+    if float(amperes) < 1000:
+        return f"{amperes} A"
+    return f"{significant(i_a / 1000, 3)} kA"
 
 
 def table(headers: Sequence[str], rows: Sequence[Sequence[str]], align: str | None = None) -> str:
@@ -76,7 +108,7 @@ def format_times(band: Band, points: Sequence[dict]) -> str:
     """The `times` table: earliest and latest operating time per current."""
     head = f"{band.name}  basis: {band.basis}"
     rows = [
-        [format_current(p["current_a"]), f"{p['current_a'] / band.rating_a:.3g}",
+        [format_current(p["current_a"]), significant(p["current_a"] / band.rating_a, 3),
          format_seconds(p["t_min_s"]), format_seconds(p["t_max_s"])]
         for p in points
     ]
