@@ -2,9 +2,10 @@
 
 A thermal (or electronic) overload relay trips a contactor; it is meant for overloads only, and
 a short-circuit device (an aM fuse-link, a gG fuse-link, a breaker) upstream of the contactor
-takes the faults. :func:`relay_band` builds the relay alone, :func:`combined_band` the relay and
-its short-circuit device as one protective band (element-wise minimum of the edges, as a breaker's
-elements are combined).
+takes the faults. :func:`relay_band` builds the relay alone (its edges are the relay's operating
+times; it clears through a contactor), :func:`combined_band` the relay, its contactor and its
+short-circuit device as one protective band (element-wise minimum of the edges, as a breaker's
+elements are combined, the relay counting only up to the contactor's breaking capacity).
 
 Current is the motor-circuit current; ``x = I / Ir`` with Ir the relay's current setting.
 IEC 60947-4-1 states, for a relay energized on all poles (firm values):
@@ -265,11 +266,21 @@ def relay_band(trip_class_name: str | int, Ir_a: float, *, basis: str = "typical
     )
 
 
-def combined_band(relay: Band, short_circuit: Band) -> Band:
-    """An overload relay and its short-circuit device as one protective band.
+#: Breaking capacity of a contactor in utilization category AC-3, multiple of its rated
+#: operational current Ie (IEC 60947-4-1, making and breaking capacities, from memory).
+AC3_BREAKING_X = 8.0
 
-    Each edge is the element-wise minimum of the two devices' edges: whichever acts first
-    clears (the relay through its contactor, the short-circuit device by itself).
+
+def combined_band(relay: Band, short_circuit: Band, *,
+                  contactor_breaking_a: float | None = None) -> Band:
+    """An overload relay, its contactor and its short-circuit device as one protective band.
+
+    Lower edge: the element-wise minimum of the two devices' lower edges (either may act first).
+    Upper edge: the element-wise minimum of the upper edges up to the contactor's breaking
+    capacity (the relay clears through its contactor); above it the short-circuit device's alone
+    (the contactor cannot break there). Up to that current the edge is held no lower than the
+    short-circuit device's time just above it, so that it never rises with current (a small
+    overstatement of the clearing time near the contactor's limit, on the safe side).
 
     Parameters
     ----------
@@ -278,6 +289,10 @@ def combined_band(relay: Band, short_circuit: Band) -> Band:
     short_circuit : Band
         The short-circuit device (an aM fuse-link, a gG fuse-link, an MCB or a breaker), on the
         same basis as the relay.
+    contactor_breaking_a : float, optional
+        Largest current the contactor breaks [A]. Default: 8 Ir, the AC-3 breaking capacity of a
+        contactor whose Ie equals the relay's setting (IEC 60947-4-1, from memory; a larger
+        contactor breaks more, so this is the safe side), noted on the band.
 
     Returns
     -------
@@ -289,19 +304,20 @@ def combined_band(relay: Band, short_circuit: Band) -> Band:
     ------
     InputError
         ``relay`` is not an overload relay (key ``relay``), ``short_circuit`` is one (key
-        ``short_circuit``), or the bases differ (key ``basis``).
+        ``short_circuit``), the bases differ (key ``basis``), or a bad
+        ``contactor_breaking_a``.
 
     References
     ----------
-    IEC 60947-4-1 (relay limits; the contactor and the short-circuit device coordinated,
-    coordination types 1 and 2, which this function does not check).
+    IEC 60947-4-1 (relay limits; contactor breaking capacity in AC-3, from memory; coordination
+    types 1 and 2 of the contactor with the short-circuit device, which are not checked).
 
     Examples
     --------
     >>> from curves.mcb import mcb_band
     >>> both = combined_band(relay_band("10", 12.0), mcb_band("D", 16))
-    >>> print(float(both.t_max(1000.0)) <= 0.1, float(both.t_max(24.0)) < 7200)
-    True True
+    >>> print(float(both.t_max(1000.0)), float(both.t_max(24.0)) < 7200)
+    0.1 True
     """
     if not isinstance(relay, Band) or relay.family != "overload-relay":
         raise InputError("relay must be an overload-relay band (curves.relay.relay_band)",
@@ -312,20 +328,32 @@ def combined_band(relay: Band, short_circuit: Band) -> Band:
     if relay.basis != short_circuit.basis:
         raise InputError(f"the relay is on basis {relay.basis!r} and the short-circuit device on "
                          f"{short_circuit.basis!r}; give both on the same basis", key="basis")
+    notes = [*relay.notes, *short_circuit.notes]
+    if contactor_breaking_a is None:
+        i_break = AC3_BREAKING_X * relay.rating_a
+        notes.append(f"contactor breaking capacity not given: {AC3_BREAKING_X:g} Ir = "
+                     f"{i_break:g} A assumed (AC-3, Ie = Ir; IEC 60947-4-1, from memory)")
+    else:
+        i_break = positive_number("contactor_breaking_a", contactor_breaking_a)
+    # the short-circuit device's time just above the contactor's limit (non-increasing edge)
+    t_sc_above = float(short_circuit.upper(np.array(i_break * (1 + 1e-12))))
+    if math.isinf(t_sc_above):
+        notes.append(f"GAP: just above the contactor's breaking capacity ({i_break:g} A) the "
+                     f"{short_circuit.name} may never operate, so no current is shown cleared up "
+                     "to its operating range; choose a smaller short-circuit device or a larger "
+                     "contactor")
 
     def lower(i: np.ndarray) -> np.ndarray:
         return np.minimum(relay.lower(i), short_circuit.lower(i))
 
     def upper(i: np.ndarray) -> np.ndarray:
-        return np.minimum(relay.upper(i), short_circuit.upper(i))
+        t_sc = short_circuit.upper(i)
+        both = np.maximum(np.minimum(relay.upper(i), t_sc), t_sc_above)  # <= t_sc up to i_break
+        return np.where(i <= i_break, both, t_sc)
 
-    notes = (
-        *relay.notes,
-        *short_circuit.notes,
-        "combined: the earlier of the relay and the short-circuit device; the contactor must "
-        "break what the relay clears (its breaking capacity and the IEC 60947-4-1 coordination "
-        "type are not checked)",
-    )
+    notes.append(f"combined: the earlier of relay and short-circuit device, the relay only up to "
+                 f"the contactor's breaking capacity {i_break:g} A; the IEC 60947-4-1 "
+                 "coordination type is not checked")
     return Band(
         name=f"{relay.name} with {short_circuit.name}",
         family="motor-circuit",
@@ -339,7 +367,8 @@ def combined_band(relay: Band, short_circuit: Band) -> Band:
         let_through=short_circuit.let_through,
         instantaneous_a=short_circuit.instantaneous_a,
         breaking_capacity_a=short_circuit.breaking_capacity_a,
-        settings={"relay": dict(relay.settings), "short_circuit": dict(short_circuit.settings)},
-        key=("motor-circuit", relay.key, short_circuit.key),
-        notes=notes,
+        settings={"relay": dict(relay.settings), "short_circuit": dict(short_circuit.settings),
+                  "contactor_breaking_a": i_break},
+        key=("motor-circuit", relay.key, short_circuit.key, i_break),
+        notes=tuple(notes),
     )
