@@ -51,6 +51,7 @@ IEC 60364-5-53 (selectivity between RCDs in series, from memory).
 from __future__ import annotations
 
 import math
+import numbers
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass, field
 from types import MappingProxyType
@@ -361,7 +362,7 @@ def rcd_band(idn_ma: float, selective: bool = False, waveform: str = "A",
     >>> print(float(band.t_max(0.03)), float(band.t_max(0.06)), float(band.t_min(0.015)))
     0.3 0.15 inf
     """
-    if isinstance(idn_ma, bool) or not isinstance(idn_ma, int | float):
+    if isinstance(idn_ma, bool) or not isinstance(idn_ma, numbers.Real):
         raise InputError(f"idn_ma must be a number of milliamperes, not {idn_ma!r}; allowed: "
                          + ", ".join(f"{v:g}" for v in RCD_IDN_MA) + " mA", key="idn_ma")
     s = RcdSettings(idn_a=float(idn_ma) / 1000.0, selective=selective, waveform=waveform,
