@@ -13,7 +13,8 @@ from curves.errors import InputError
 
 def check_output_path(out: str | os.PathLike, *, inputs: tuple[str | os.PathLike, ...] = (),
                       key: str = "output") -> Path:
-    """Refuse an output path that is an input file or whose folder does not exist.
+    """Refuse an output path that is an input file, a folder, an existing file that is not a
+    regular file (a FIFO, a device), or whose folder does not exist or is not writable.
 
     Raises
     ------
@@ -32,6 +33,10 @@ def check_output_path(out: str | os.PathLike, *, inputs: tuple[str | os.PathLike
                          key=key)
     if path.is_dir():
         raise InputError(f"{str(path)!r} is a folder; give a file name", key=key)
+    if path.exists() and not path.is_file():
+        # a FIFO, a device or a socket: replacing it would remove something that is not ours
+        raise InputError(f"{str(path)!r} exists and is not a regular file (a device, pipe or "
+                         "socket); give a file name", key=key)
     if not os.access(parent, os.W_OK):
         raise InputError(f"folder {str(parent)!r} is not writable", key=key)
     return path
@@ -42,6 +47,8 @@ def atomic_path(out: str | os.PathLike) -> Iterator[Path]:
     """A temporary path beside ``out`` that replaces ``out`` only if the block succeeds.
 
     On any exception the temporary file is removed and ``out`` (if it existed) is untouched.
+    The command line turns SIGTERM into an exception (``cli.Terminated``), so a terminated
+    command cleans up here too.
     """
     target = Path(out)
     fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=target.suffix or ".tmp",

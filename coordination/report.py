@@ -1014,6 +1014,8 @@ def write_report(study: Study, path: str | os.PathLike, *, csv: bool = False,
     import matplotlib
     from matplotlib.backends.backend_pdf import PdfPages
 
+    from coordination.plot import LITERAL_TEXT
+
     target = check_output_path(path, inputs=(study.source,) if study.source else (), key="-o")
     if target.suffix.lower() != ".pdf":
         raise InputError(f"the report is a PDF; give a file ending in .pdf, not {target.name!r}",
@@ -1041,7 +1043,9 @@ def write_report(study: Study, path: str | os.PathLike, *, csv: bool = False,
                 extra.append(out)
         metadata = {"Title": f"Selectivity report: {study.title}",
                     "Creator": f"coordination {__version__}", "Subject": CAUTION}
-        with matplotlib.rc_context({"pdf.fonttype": 42, "font.family": "DejaVu Sans"}), \
+        # LITERAL_TEXT: a "$" in the study's text is printed as written, never as a formula
+        with matplotlib.rc_context({"pdf.fonttype": 42, "font.family": "DejaVu Sans",
+                                    **LITERAL_TEXT}), \
                 PdfPages(pdf_tmp, metadata=metadata) as pdf:
             _progress(progress, 0, total)
             for number, build in enumerate(pages, start=1):
