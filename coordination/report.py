@@ -752,9 +752,10 @@ def _sentence(text: str) -> str:
 MAX_TABLE_ROWS = 1500
 
 
-def _capped(spec: TableSpec, limit: int = MAX_TABLE_ROWS) -> tuple[TableSpec, str | None]:
-    """The table cut to ``limit`` rows (failing rows first, kept in order) and a sentence
-    saying what was left out; ``(spec, None)`` when it fits."""
+def _capped(spec: TableSpec, limit: int | None = None) -> tuple[TableSpec, str | None]:
+    """The table cut to ``limit`` rows (default :data:`MAX_TABLE_ROWS`; failing rows first,
+    kept in order) and a sentence saying what was left out; ``(spec, None)`` when it fits."""
+    limit = MAX_TABLE_ROWS if limit is None else limit
     n = len(spec.rows)
     if n <= limit:
         return spec, None

@@ -383,6 +383,17 @@ def _supply(data: Any) -> Supply:
     )
 
 
+def _check_floor(pfc_a: float | None, pfc_ln_a: float | None) -> None:
+    """Refuse a declared fault level below :data:`MIN_FAULT_A`."""
+    for key, value in (("pfc_a", pfc_a), ("pfc_ln_a", pfc_ln_a)):
+        if value is not None and value < MIN_FAULT_A:
+            slip = (f" (was it written in kA? {key} = {_g(value * 1000)} for {_g(value)} kA)"
+                    if MIN_FAULT_A <= value * 1000 <= MAX_CURRENT_A else "")
+            raise InputError(f"{key} = {_g(value)} A is below {_g(MIN_FAULT_A)} A, no supply's "
+                             f"fault level{slip}; allowed: at least {_g(MIN_FAULT_A)} A",
+                             key=f"supply.{key}")
+
+
 def _check_source(u0_v: float, pfc_a: float | None, pfc_ln_a: float | None,
                   ze_ohm: float | None, earthing: str, phases: int) -> None:
     """Refuse a supply whose fault level and Ze cannot both be true.
@@ -404,14 +415,8 @@ def _check_source(u0_v: float, pfc_a: float | None, pfc_ln_a: float | None,
     IEC 60364-4-41, 411.4.4 (TN: Zs x Ia <= U0, the loop through the supply's line and
     protective conductors); common practice (a supply's declared Ze and fault level are limits).
     """
-    for key, value in (("pfc_a", pfc_a), ("pfc_ln_a", pfc_ln_a)):
-        if value is not None and value < MIN_FAULT_A:
-            slip = (f"; was it written in kA ({key} = {_g(value * 1000)} for {_g(value)} kA)?"
-                    if MIN_FAULT_A <= value * 1000 <= MAX_CURRENT_A else "")
-            raise InputError(f"{key} = {_g(value)} A is below {_g(MIN_FAULT_A)} A, no supply's "
-                             f"fault level{slip}; allowed: at least {_g(MIN_FAULT_A)} A",
-                             key=f"supply.{key}")
     if ze_ohm is None:
+        _check_floor(pfc_a, pfc_ln_a)
         return
     implied = u0_v / ze_ohm
     if implied > MAX_CURRENT_A:
@@ -427,12 +432,14 @@ def _check_source(u0_v: float, pfc_a: float | None, pfc_ln_a: float | None,
                          f"{_g(u0_v / MIN_FAULT_A)} ohm in TN", key="supply.ze_ohm")
     line_key, line_a = ("pfc_ln_a", pfc_ln_a) if pfc_ln_a is not None else ("pfc_a", pfc_a)
     if line_a is not None and implied > ZE_PFC_TOLERANCE * line_a:
+        in_ka = implied <= ZE_PFC_TOLERANCE * line_a * 1000 and line_a * 1000 <= MAX_CURRENT_A
+        slip = (f"was {line_key} written in kA ({_g(line_a * 1000)} for {_g(line_a)} kA) or "
+                "ze_ohm in the wrong unit?" if in_ka else "is one of them in the wrong unit?")
         raise InputError(f"supply.{line_key} = {_g(line_a)} A is below the earth fault that "
                          f"supply.ze_ohm = {_g(ze_ohm)} ohm implies ({_g(implied)} A at "
-                         f"{_g(u0_v)} V), which it cannot be; was {line_key} written in kA "
-                         f"({_g(line_a * 1000)} for {_g(line_a)} kA) or ze_ohm in the wrong "
-                         f"unit? allowed: U0 / ze_ohm at most {_g(ZE_PFC_TOLERANCE)} x "
-                         f"{line_key}", key=f"supply.{line_key}")
+                         f"{_g(u0_v)} V), which it cannot be; {slip} allowed: U0 / ze_ohm at "
+                         f"most {_g(ZE_PFC_TOLERANCE)} x {line_key}", key=f"supply.{line_key}")
+    _check_floor(pfc_a, pfc_ln_a)
     if tn and pfc_a is not None and pfc_a > PFC_ZE_TOLERANCE * implied:
         raise InputError(f"supply.pfc_a = {_g(pfc_a)} A is over {_g(PFC_ZE_TOLERANCE)} times "
                          f"the earth fault that supply.ze_ohm = {_g(ze_ohm)} ohm implies "
