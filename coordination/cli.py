@@ -21,7 +21,7 @@ from typing import Annotated, Any, NoReturn
 import orjson
 import typer
 
-from coordination import CAUTION, __version__
+from coordination import CAUTION, __version__, io
 from curves.errors import InputError
 
 app = typer.Typer(
@@ -48,11 +48,6 @@ def fail(message: str) -> None:
     """Print one line on stderr and exit with code 2."""
     typer.echo(f"error: {message}", err=True)
     raise typer.Exit(2)
-
-
-class Terminated(BaseException):
-    """Raised in the command by SIGTERM (see :func:`main`), so that every ``finally`` and
-    :func:`coordination.io.atomic_path` clean up as for any other error: no partial file."""
 
 
 #: The exit code a command has decided before it prints (its verdict): a reader that closes the
@@ -492,8 +487,10 @@ def main() -> NoReturn:
 
 
 def _terminate(signum: int, frame: Any) -> None:
-    """SIGTERM: unwind the command as for an error, so that no partial file stays behind."""
-    raise Terminated()
+    """SIGTERM: unwind the command as for an error, so that no partial file stays behind
+    (``coordination.io.Terminated``; the flag covers an exception Python only reports)."""
+    io.terminated = True
+    raise io.Terminated()
 
 
 def _run() -> int:
@@ -503,8 +500,8 @@ def _run() -> int:
     except typer.Abort:
         typer.echo("error: interrupted", err=True)
         return 130
-    except Terminated:
-        typer.echo("error: terminated; nothing was written", err=True)
+    except io.Terminated:
+        typer.echo("error: terminated", err=True)
         return 128 + signal.SIGTERM
     except BrokenPipeError:  # the help or the version into a pipe closed early
         _quiet_stdout()
@@ -526,6 +523,11 @@ def _run() -> int:
         hint = f" (see '{ctx.command_path} --help')" if ctx is not None else ""
         typer.echo(f"error: {error.format_message()}{hint}", err=True)
         return int(error.exit_code)
+    finally:  # the command is over: a SIGTERM from here on ends the process at once
+        signal.signal(signal.SIGTERM, signal.SIG_DFL)
+    if io.terminated:  # the signal's exception was swallowed; the command ended regardless
+        typer.echo("error: terminated", err=True)
+        return 128 + signal.SIGTERM
     return code if isinstance(code, int) else 0
 
 

@@ -209,7 +209,7 @@ def test_sigterm_during_report_leaves_no_partial_file(tmp_path):
     assert proc.poll() is None, "the report ended before it could be interrupted"
     proc.send_signal(signal.SIGTERM)
     _, err = proc.communicate(timeout=60)
-    assert proc.returncode == 128 + signal.SIGTERM
+    assert proc.returncode == 128 + signal.SIGTERM, err
     assert "terminated" in one_line(err)
     assert sorted(p.name for p in tmp_path.iterdir()) == ["board.toml"]
 
