@@ -371,3 +371,28 @@ def test_the_report_names_what_it_left_out(tmp_path, monkeypatch):
     assert result.exit_code in (0, 1), result.output
     text = re.sub(r"\s+", " ", "\n".join(p.extract_text() for p in PdfReader(out).pages))
     assert "to keep the report to a readable size it sets out" in text
+
+
+# -- choose on a tiny study with an extreme supply ----------------------------------------------
+EXTREME = st.floats(1e-300, 1e300).filter(lambda v: v > 0) | st.sampled_from(
+    [1e-300, 1e-3, 16.0, 0.35, 23.0, 2000.0, 1e6, 1e300])
+
+
+@settings(max_examples=25, deadline=None)
+@given(pfc_a=st.none() | EXTREME, ze_ohm=st.none() | EXTREME,
+       earthing=st.sampled_from(["TN-C-S", "TT"]))
+def test_choose_on_an_extreme_supply_is_refused_or_gives_plausible_advice(pfc_a, ze_ohm,
+                                                                          earthing):
+    from coordination import choose
+
+    supply = {k: v for k, v in (("pfc_a", pfc_a), ("ze_ohm", ze_ohm)) if v is not None}
+    try:
+        s = study.from_dict(_supply_doc(earthing=earthing, **supply))
+    except InputError as error:
+        assert "supply" in str(error)
+        return
+    text = choose.format_results([choose.choose(s, "oven"), choose.choose(s, "incomer")])
+    # any current the advice asks for is a current a supply can have (10 A to 1 MA)
+    for number, unit in re.findall(r"at least ([0-9.e+-]+) (k?A)\b", text):
+        amps = float(number) * (1000 if unit == "kA" else 1)
+        assert 1.0 <= amps <= 1e7, (number, unit, text)
