@@ -90,12 +90,14 @@ def _os_error(error: BaseException) -> OSError | None:
 
 
 def _os_message(error: OSError) -> str:
-    """One line for an operating-system error; a failed write says that the output is lost."""
+    """One line for an operating-system error; a failed write (full disk, file too large,
+    quota, I/O error) says that the output could not be written."""
     reason = error.strerror or str(error) or type(error).__name__
     where = getattr(error, "filename", None)
     if where:
         return f"{where}: {reason}"
-    if error.errno in (errno.ENOSPC, errno.EFBIG, errno.EDQUOT, errno.EIO):
+    if error.errno in (errno.ENOSPC, errno.EFBIG, getattr(errno, "EDQUOT", errno.ENOSPC),
+                       errno.EIO):
         return f"the output could not be written: {reason}"
     return reason
 
@@ -124,7 +126,7 @@ def guarded(command: Callable[..., Any]) -> Callable[..., Any]:
         except RecursionError:  # pragma: no cover - the code is iterative; a last guard
             fail("the study is nested too deeply to process")
         except Exception as error:  # an error raised while cleaning up after a failed write
-            cause = _os_error(error)
+            cause = None if isinstance(error, typer.Exit | typer.Abort) else _os_error(error)
             if cause is None:
                 raise
             fail(_os_message(cause))

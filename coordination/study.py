@@ -368,7 +368,7 @@ def _supply(data: Any) -> Supply:
                          "short-circuit levels; give pfc_a [A] or a [supply.transformer] too",
                          key="supply")
     u0_v = t.number("u0_v", unit="V", lo=50.0, hi=1000.0, default=230.0)
-    _check_source(u0_v, pfc_a, pfc_ln_a, ze_ohm, earthing, phases)
+    _check_source(u0_v, pfc_a, pfc_ln_a, ze_ohm, earthing)
     return Supply(
         u0_v=u0_v,
         phases=phases,
@@ -395,11 +395,12 @@ def _check_floor(pfc_a: float | None, pfc_ln_a: float | None) -> None:
 
 
 def _check_source(u0_v: float, pfc_a: float | None, pfc_ln_a: float | None,
-                  ze_ohm: float | None, earthing: str, phases: int) -> None:
+                  ze_ohm: float | None, earthing: str) -> None:
     """Refuse a supply whose fault level and Ze cannot both be true.
 
-    Rules (stated in the constants above): every declared fault level and the earth fault that
-    Ze implies (U0 / Ze) are at least :data:`MIN_FAULT_A`, and at most :data:`MAX_CURRENT_A`;
+    Rules (stated in the constants above): every declared fault level is at least
+    :data:`MIN_FAULT_A`; the earth fault that Ze implies (U0 / Ze) is at most
+    :data:`MAX_CURRENT_A` and, in TN, at least :data:`MIN_FAULT_A`;
     U0 / Ze is at most :data:`ZE_PFC_TOLERANCE` times the declared line-neutral fault level
     (``pfc_ln_a``, else ``pfc_a``); in TN the declared ``pfc_a`` is at most
     :data:`PFC_ZE_TOLERANCE` times U0 / Ze (in TT, Ze includes the earth electrode and may be
