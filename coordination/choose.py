@@ -1020,7 +1020,7 @@ def screen_grid(problem: _Problem, grid: SettingsGrid) -> np.ndarray:
             lt, st, inst = (np.all(np.minimum(part, TIME_CEILING_S) >= need, axis=-1)
                             for part in lower)
             ok &= st[:, :, None, None] & lt[:, None, :, None] & inst[None, None, None, :]
-        if problem.above:
+        if problem.above and ok.any():  # (a grid ruled out below needs no test above)
             pickup = b.tolerance(*b.CONVENTIONAL_X, problem.basis)[0] * grid.ir_a
             for k in _distinct_above(problem):  # tested pairs by their curves, as above
                 p = problem.above[k]
