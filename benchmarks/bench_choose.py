@@ -2,7 +2,8 @@
 
 Run from the repository root (not collected by pytest)::
 
-    python -m benchmarks.bench_choose
+    python -m benchmarks.bench_choose            # candidate settings per second
+    python -m benchmarks.bench_choose --scale    # choose against check: flat boards, deep chains
 
 Two invented installations: an incomer with an electronic trip unit over one gG160 sub-main,
 and the same over a board of 40 final circuits (more devices below it to clear). For each it
@@ -118,7 +119,67 @@ def bench(name: str, text: str) -> None:
           f"Iz, a whole (In, Ir) grid at a time); answer: {choice.name}")
 
 
+# -- scale: choose against check of the same study, as whole processes --------------------------
+SCALE_ROUNDS = 3
+
+
+def _scale_studies() -> list[tuple[str, str, str]]:
+    """(label, study text, circuit to choose for): invented flat boards and deep chains.
+
+    The flat boards' incomer cable is limited to Iz 100 A, so that no fuse meets every
+    requirement and the chooser tries each remedy (the lower let-through below among them);
+    the plain boards find their answer at once.
+    """
+    from generate import chain, wide
+
+    limited = 'insulation = "xlpe"\niz_a = 100'
+    out = []
+    for n in (1000, 5000, 20000):
+        out.append((f"flat board of {n:,}, nothing fits", wide(n).replace(
+            'insulation = "xlpe"', limited, 1), "incomer"))
+    out.append(("flat board of 20,000, found", wide(20000), "incomer"))
+    for devices in (("gG100",), ("gG100", "C32")):
+        text = chain(200, devices)
+        for cid in ("n0", "n100", "n198"):
+            out.append((f"chain of 200 ({'/'.join(devices)}), {cid}", text, cid))
+    return out
+
+
+def _wall(args: list[str]) -> tuple[float, int]:
+    import subprocess
+
+    start = time.perf_counter()
+    proc = subprocess.run([sys.executable, "-m", "coordination", *args],
+                          stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, check=False)
+    return time.perf_counter() - start, proc.returncode
+
+
+def scale() -> None:
+    """Whole-process wall time of ``choose`` and of ``check`` on the same study (median of
+    :data:`SCALE_ROUNDS`, in turns)."""
+    import tempfile
+
+    sys.path.insert(0, str(HERE))
+    print(f"\nscale: whole processes, median of {SCALE_ROUNDS} rounds in turns")
+    print(f"{'study':44s} {'choose s':>9s} {'check s':>8s} {'ratio':>6s}")
+    with tempfile.TemporaryDirectory() as folder:
+        for label, text, cid in _scale_studies():
+            path = Path(folder) / "study.toml"
+            path.write_text(text, encoding="utf-8")
+            chosen, checked = [], []
+            for _ in range(SCALE_ROUNDS):
+                chosen.append(_wall(["choose", str(path), "--circuit", cid]))
+                checked.append(_wall(["check", str(path), "--json"]))
+            t_choose = statistics.median(t for t, _ in chosen)
+            t_check = statistics.median(t for t, _ in checked)
+            print(f"{label:44s} {t_choose:9.2f} {t_check:8.2f} {t_choose / t_check:6.1f}"
+                  f"  (exit {chosen[0][1]})")
+
+
 def main() -> None:
+    if "--scale" in sys.argv[1:]:
+        scale()
+        return
     print(f"numpy {np.__version__}, Python {sys.version.split()[0]}; median of {REPEATS}")
     for name, text in installations().items():
         bench(name, text)

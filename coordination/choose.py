@@ -768,6 +768,23 @@ def _cheap_failure(problem: _Problem, cand: Candidate, band: Band) -> Failure | 
     return None
 
 
+def _distinct_above(problem: _Problem) -> list[int]:
+    """Indices of the pairs above that the screens must test: the first of each set of alike
+    pairs (one band, requirement, margin, interval, adjustability). The screens judge tested
+    pairs by their curves, so alike ancestors give the same answer; a chain of n alike devices
+    is one test, not n (screening every ancestor cost choose on a 200-deep chain over a
+    minute)."""
+    seen: set[tuple] = set()
+    keep = []
+    for k, p in enumerate(problem.above):
+        key = (p.band.key, p.required_a, p.margin, p.interval_s,
+               bool(problem.above_adjustable[k]))
+        if key not in seen:
+            seen.add(key)
+            keep.append(k)
+    return keep
+
+
 def screen(problem: _Problem, bands: Sequence[Band]) -> np.ndarray:
     """Vectorised selectivity screen of many candidate bands at once.
 
@@ -801,7 +818,8 @@ def screen(problem: _Problem, bands: Sequence[Band]) -> np.ndarray:
         lo = np.array([b.pickup_min_a for b in bands])
         p0 = problem.above[0]
         inside = (grid[None, :] >= lo[:, None]) & _short_of(grid, p0.required_a)[None, :]
-        for k, p in enumerate(problem.above):  # tested pairs by their curves, as above
+        for k in _distinct_above(problem):  # tested pairs by their curves, as above
+            p = problem.above[k]
             need = _need_of(t_max, p.margin, p.interval_s, bool(problem.above_adjustable[k]))
             bad = inside & (problem.above_tmin[k][None, :] < need * (1 - 1e-6))
             if problem.testable_above:  # a remedy's search: only where a test cannot decide
@@ -1006,9 +1024,10 @@ def screen_grid(problem: _Problem, grid: SettingsGrid) -> np.ndarray:
             lt, st, inst = (np.all(np.minimum(part, TIME_CEILING_S) >= need, axis=-1)
                             for part in lower)
             ok &= st[:, :, None, None] & lt[:, None, :, None] & inst[None, None, None, :]
-        if problem.above:
+        if problem.above and ok.any():  # (a grid ruled out below needs no test above)
             pickup = b.tolerance(*b.CONVENTIONAL_X, problem.basis)[0] * grid.ir_a
-            for k, p in enumerate(problem.above):  # tested pairs by their curves, as above
+            for k in _distinct_above(problem):  # tested pairs by their curves, as above
+                p = problem.above[k]
                 inside = (currents >= pickup) & _short_of(currents, p.required_a)
                 t_up = problem.above_tmin[k][inside] * (1 + 1e-6)
                 adjustable = bool(problem.above_adjustable[k])
@@ -1525,9 +1544,11 @@ def _lower_let_through(problem: _Problem, p: _Pair) -> tuple[str | Mapping[str, 
 
     def passed(spec: Any) -> list[set[str]]:
         envelope = device_band(spec, "envelope")
-        return [{r.check for r in checks.check_device(substitute(problem.study, d, spec),
-                                                      problem.levels, d, envelope) if r.ok}
-                for d in circuits]
+        # one copy of the study with every twin swapped, not one copy per twin: a board of n
+        # alike circuits cost n copies of n circuits (quadratic) before
+        swapped = _with_circuits(problem.study, {d: {"device": spec} for d in circuits})
+        return [{r.check for r in checks.check_device(swapped, problem.levels, d, envelope)
+                 if r.ok} for d in circuits]
 
     before: list[set[str]] | None = None
     best: tuple[float, str | Mapping[str, Any], Band] | None = None
@@ -1566,10 +1587,8 @@ def _remedy_let_through(problem: _Problem, groups: list[Any], band: Band,
             swaps[p] = alt
     if not swaps:
         return None
-    study = problem.study
-    for p, (spec, _) in swaps.items():
-        for d in (p.other, *p.twins):
-            study = substitute(study, d, spec)
+    study = _with_circuits(problem.study, {d: {"device": spec} for p, (spec, _) in swaps.items()
+                                           for d in (p.other, *p.twins)})
     variant = _rebuilt(problem, study)[0]
     winner, found, failures = _search_variant(problem, variant,
                                               _groups_where(problem, groups, {None}))

@@ -6,9 +6,11 @@ Heavy modules (matplotlib, the report) are imported only inside the commands tha
 
 from __future__ import annotations
 
+import errno
 import gc
 import math
 import os
+import signal
 import sys
 from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
@@ -19,7 +21,7 @@ from typing import Annotated, Any, NoReturn
 import orjson
 import typer
 
-from coordination import CAUTION, __version__
+from coordination import CAUTION, __version__, io
 from curves.errors import InputError
 
 app = typer.Typer(
@@ -48,21 +50,86 @@ def fail(message: str) -> None:
     raise typer.Exit(2)
 
 
+#: The exit code a command has decided before it prints (its verdict): a reader that closes the
+#: pipe early (``check ... | head -1``) leaves the command with this code, not an error's.
+_verdict: int | None = None
+
+
+def verdict(code: int | None) -> int | None:
+    """Record the command's exit code before its output is printed; returns ``code``."""
+    global _verdict
+    _verdict = code
+    return code
+
+
+def _quiet_stdout() -> None:
+    """After a failed write to stdout, point it at the null device (in its own process only):
+    what is left in its buffer is dropped instead of failing again at exit."""
+    if not _own_process or sys.stdout is None:
+        return
+    try:
+        null = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(null, sys.stdout.fileno())
+        os.close(null)
+    except (OSError, ValueError, AttributeError):
+        pass
+
+
+def _os_error(error: BaseException) -> OSError | None:
+    """The OSError behind an error, if any: a library that fails while cleaning up after a
+    failed write (matplotlib's PDF writer flushing its compressor on a full disk raises
+    ``zlib.error``) hides the write's own error in ``__context__``."""
+    seen: set[int] = set()
+    node: BaseException | None = error
+    while node is not None and id(node) not in seen:
+        if isinstance(node, OSError):
+            return node
+        seen.add(id(node))
+        node = node.__cause__ or node.__context__
+    return None
+
+
+def _os_message(error: OSError) -> str:
+    """One line for an operating-system error; a failed write (full disk, file too large,
+    quota, I/O error) says that the output could not be written."""
+    reason = error.strerror or str(error) or type(error).__name__
+    where = getattr(error, "filename", None)
+    if where:
+        return f"{where}: {reason}"
+    if error.errno in (errno.ENOSPC, errno.EFBIG, getattr(errno, "EDQUOT", errno.ENOSPC),
+                       errno.EIO):
+        return f"the output could not be written: {reason}"
+    return reason
+
+
 def guarded(command: Callable[..., Any]) -> Callable[..., Any]:
-    """Turn our input errors and unwritable paths into one line and exit code 2."""
+    """Turn our input errors and unwritable paths into one line and exit code 2.
+
+    A closed pipe on stdout ends the command quietly with its verdict (:func:`verdict`), or 0
+    when it had none yet.
+    """
 
     @wraps(command)
     def run(*args: Any, **kwargs: Any) -> Any:
+        verdict(None)
         try:
             return command(*args, **kwargs)
         except InputError as error:
             fail(str(error))
+        except BrokenPipeError:
+            _quiet_stdout()
+            done(_verdict if _verdict is not None else 0)
         except (OSError, UnicodeError) as error:
-            where = getattr(error, "filename", None)
-            reason = getattr(error, "strerror", None) or str(error)
-            fail(f"{where}: {reason}" if where else reason)
+            if isinstance(error, OSError):
+                fail(_os_message(error))
+            fail(str(error))
         except RecursionError:  # pragma: no cover - the code is iterative; a last guard
             fail("the study is nested too deeply to process")
+        except Exception as error:  # an error raised while cleaning up after a failed write
+            cause = None if isinstance(error, typer.Exit | typer.Abort) else _os_error(error)
+            if cause is None:
+                raise
+            fail(_os_message(cause))
 
     return run
 
@@ -260,6 +327,7 @@ def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption 
     analysis = engine.analyse(s, levels, basis=check_basis(basis))
     results = checks.run(s, levels)
     ok = analysis.ok and all(r.ok for r in results)
+    verdict(0 if ok else 1)
     if as_json:
         # held until done(): in its own process nothing is freed one object at a time
         payload = {"pairs": Records(analysis.pairs, engine.PairResult.to_json),
@@ -309,6 +377,7 @@ def choose(
         results = [result]
     else:
         results = list(chooser.choose_board(s, board, family=family))
+    verdict(0 if all(r.found for r in results) else 1)
     if as_json:
         payload = results[0].to_json() if circuit is not None else {
             "choices": [r.to_json() for r in results]}
@@ -372,6 +441,7 @@ def report(
     s = load_study(study_path)
     summary = reporting.write_report(s, output, csv=csv, basis=check_basis(basis),
                                      progress=sys.stderr.isatty())
+    verdict(0 if summary.ok else 1)
     typer.echo(f"wrote {output}")
     for extra in summary.extra_files:
         typer.echo(f"wrote {extra}")
@@ -414,7 +484,15 @@ def main() -> NoReturn:
     for name in BLAS_THREADS:
         os.environ.setdefault(name, "1")
     gc.disable()
+    signal.signal(signal.SIGTERM, _terminate)
     _leave(_run())
+
+
+def _terminate(signum: int, frame: Any) -> None:
+    """SIGTERM: unwind the command as for an error, so that no partial file stays behind
+    (``coordination.io.Terminated``; the flag covers an exception Python only reports)."""
+    io.terminated = True
+    raise io.Terminated()
 
 
 def _run() -> int:
@@ -424,6 +502,16 @@ def _run() -> int:
     except typer.Abort:
         typer.echo("error: interrupted", err=True)
         return 130
+    except io.Terminated:
+        typer.echo("error: terminated", err=True)
+        return 128 + signal.SIGTERM
+    except BrokenPipeError:  # the help or the version into a pipe closed early
+        _quiet_stdout()
+        return 0
+    except OSError as error:  # the help or the version onto a full device
+        _quiet_stdout()
+        typer.echo(f"error: {_os_message(error)}", err=True)
+        return 2
     except Exception as error:  # click's usage errors (vendored by newer typer releases)
         if not (hasattr(error, "format_message") and hasattr(error, "exit_code")):
             raise
@@ -437,6 +525,11 @@ def _run() -> int:
         hint = f" (see '{ctx.command_path} --help')" if ctx is not None else ""
         typer.echo(f"error: {error.format_message()}{hint}", err=True)
         return int(error.exit_code)
+    finally:  # the command is over: a SIGTERM from here on ends the process at once
+        signal.signal(signal.SIGTERM, signal.SIG_DFL)
+    if io.terminated:  # the signal's exception was swallowed; the command ended regardless
+        typer.echo("error: terminated", err=True)
+        return 128 + signal.SIGTERM
     return code if isinstance(code, int) else 0
 
 

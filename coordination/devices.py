@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from collections.abc import Callable, Mapping
+from dataclasses import dataclass
 from functools import lru_cache
 from typing import Any
 
@@ -11,8 +12,31 @@ from curves.band import Band
 from curves.errors import InputError
 
 
+@dataclass(frozen=True)
+class _Flag:
+    """A boolean in a frozen spec. ``True == 1`` and ``hash(True) == hash(1)``, so a bare
+    boolean would make ``energy_class = true`` the same cache key as ``energy_class = 1`` (and
+    ``sd_i2t = 0`` the same as ``sd_i2t = false``): the device built first would answer for
+    both, and the builder's refusal of a boolean where a number is meant (or the reverse) would
+    depend on the order of the study file."""
+
+    value: bool
+
+
 def freeze(value: Any) -> Any:
-    """A hashable copy of a device spec (nested mappings and lists become sorted tuples)."""
+    """A hashable copy of a device spec (nested mappings and lists become sorted tuples).
+
+    Booleans are kept apart from the numbers equal to them (:class:`_Flag`).
+
+    Examples
+    --------
+    >>> freeze({"energy_class": True}) == freeze({"energy_class": 1})
+    False
+    >>> thaw(freeze({"sd_i2t": False, "lower": [[1, 2]]}))
+    {'lower': [[1, 2]], 'sd_i2t': False}
+    """
+    if isinstance(value, bool):
+        return _Flag(value)
     if isinstance(value, Mapping):
         return tuple(sorted((str(k), freeze(v)) for k, v in value.items()))
     if isinstance(value, list | tuple):
@@ -22,6 +46,8 @@ def freeze(value: Any) -> Any:
 
 def thaw(value: Any) -> Any:
     """Undo :func:`freeze` for a spec that was a mapping."""
+    if isinstance(value, _Flag):
+        return value.value
     if isinstance(value, tuple) and all(isinstance(x, tuple) and len(x) == 2
                                         and isinstance(x[0], str) for x in value) and value:
         return {k: thaw(v) for k, v in value}

@@ -4,16 +4,27 @@ from __future__ import annotations
 
 import contextlib
 import os
-import tempfile
 from collections.abc import Callable, Iterator
 from pathlib import Path
 
 from curves.errors import InputError
 
 
+class Terminated(BaseException):
+    """The process was asked to stop (SIGTERM, see ``coordination.cli.main``): raised through
+    the command so that every ``finally`` and :func:`atomic_path` clean up as for an error."""
+
+
+#: Set when the process was asked to stop. Python runs a signal handler between any two
+#: steps, in a finaliser too, where its exception is only reported: :func:`atomic_path` looks
+#: at this flag before it moves a file into place, so a stop never ends in a new file.
+terminated = False
+
+
 def check_output_path(out: str | os.PathLike, *, inputs: tuple[str | os.PathLike, ...] = (),
                       key: str = "output") -> Path:
-    """Refuse an output path that is an input file or whose folder does not exist.
+    """Refuse an output path that is an input file, a folder, an existing file that is not a
+    regular file (a FIFO, a device), or whose folder does not exist or is not writable.
 
     Raises
     ------
@@ -32,6 +43,10 @@ def check_output_path(out: str | os.PathLike, *, inputs: tuple[str | os.PathLike
                          key=key)
     if path.is_dir():
         raise InputError(f"{str(path)!r} is a folder; give a file name", key=key)
+    if path.exists() and not path.is_file():
+        # a FIFO, a device or a socket: replacing it would remove something that is not ours
+        raise InputError(f"{str(path)!r} exists and is not a regular file (a device, pipe or "
+                         "socket); give a file name", key=key)
     if not os.access(parent, os.W_OK):
         raise InputError(f"folder {str(parent)!r} is not writable", key=key)
     return path
@@ -42,17 +57,23 @@ def atomic_path(out: str | os.PathLike) -> Iterator[Path]:
     """A temporary path beside ``out`` that replaces ``out`` only if the block succeeds.
 
     On any exception the temporary file is removed and ``out`` (if it existed) is untouched.
+    The command line turns SIGTERM into :class:`Terminated` (and sets :data:`terminated`), so
+    a terminated command cleans up here too.
     """
+    import tempfile  # here: every command imports this module for Terminated, few write files
+
     target = Path(out)
     fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=target.suffix or ".tmp",
                                dir=target.parent if str(target.parent) else ".")
-    os.close(fd)
     tmp_path = Path(tmp)
-    umask = os.umask(0)
-    os.umask(umask)
-    os.chmod(tmp_path, 0o666 & ~umask)  # an ordinary file, not mkstemp's private 0600
-    try:
+    try:  # from the moment the file exists: a signal may interrupt any line below
+        os.close(fd)
+        umask = os.umask(0)
+        os.umask(umask)
+        os.chmod(tmp_path, 0o666 & ~umask)  # an ordinary file, not mkstemp's private 0600
         yield tmp_path
+        if terminated:
+            raise Terminated()
         os.replace(tmp_path, target)
     except BaseException:
         with contextlib.suppress(OSError):

@@ -313,6 +313,26 @@ def pairs_in_chain(analysis: Any, chain: Sequence[str]) -> list[Any]:
 
 
 # -- the plot ----------------------------------------------------------------------------------
+#: matplotlib settings under which every text is drawn as written: a ``$`` in a title, a circuit
+#: id or a device name is a dollar sign, never the start of a formula (text.parse_math).
+LITERAL_TEXT = {"text.parse_math": False}
+
+
+def _literal_text(draw: Any) -> Any:
+    """Run a drawing function with :data:`LITERAL_TEXT`: matplotlib reads the setting when a
+    text is made, so every text of the figure keeps it, whenever the figure is saved."""
+
+    @functools.wraps(draw)
+    def run(*args: Any, **kwargs: Any) -> Any:
+        import matplotlib
+
+        with matplotlib.rc_context(LITERAL_TEXT):
+            return draw(*args, **kwargs)
+
+    return run
+
+
+@_literal_text
 def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
                  basis: str | None = None, ax: Axes | None = None,
                  title: str | None = None) -> Figure:

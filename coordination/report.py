@@ -29,7 +29,7 @@ import sys
 import textwrap
 from collections.abc import Callable, Iterable, Sequence
 from contextlib import ExitStack
-from dataclasses import dataclass, fields, is_dataclass
+from dataclasses import dataclass, fields, is_dataclass, replace
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
@@ -762,8 +762,45 @@ def _sentence(text: str) -> str:
     return text[:1].upper() + text[1:]
 
 
+#: The most rows of one table the PDF sets out (about 25 to 40 pages). A larger study's table
+#: keeps every row that misses a requirement first, then the others in study order up to the
+#: limit, and says so above the table; the CSV output (``--csv``) has every row. The report of a
+#: 20,000-circuit board is then 171 pages (11.7 s), not about 3,000.
+MAX_TABLE_ROWS = 1500
+
+
+def _capped(spec: TableSpec, limit: int | None = None) -> tuple[TableSpec, str | None]:
+    """The table cut to ``limit`` rows (default :data:`MAX_TABLE_ROWS`; failing rows first,
+    kept in order) and a sentence saying what was left out; ``(spec, None)`` when it fits."""
+    limit = MAX_TABLE_ROWS if limit is None else limit
+    n = len(spec.rows)
+    if n <= limit:
+        return spec, None
+    flags = spec.flags or (False,) * n
+    failing = [i for i in range(n) if flags[i]]
+    keep = failing[:limit]
+    keep += [i for i in range(n) if not flags[i]][:limit - len(keep)]
+    keep.sort()
+    if len(failing) >= limit:
+        which = (f"the first {limit:,} of the {len(failing):,} that miss a requirement "
+                 "(marked in red)")
+    elif failing:
+        which = (f"all {len(failing):,} that miss a requirement and the first "
+                 f"{limit - len(failing):,} of the others")
+    else:
+        which = f"the first {limit:,}"
+    note = (f"This table has {n:,} rows; to keep the report to a readable size it sets out "
+            f"{which}. The CSV output (--csv) has every row.")
+    cut = replace(spec, rows=tuple(spec.rows[i] for i in keep),
+                  flags=tuple(flags[i] for i in keep) if spec.flags else ())
+    return cut, note
+
+
 def _table_pages(study: Study, heading: str, intro: Sequence[str],
                  spec: TableSpec) -> list[PageBuilder]:
+    spec, note = _capped(spec)
+    if note is not None:
+        intro = (*intro, note)
     intro_in = (0.32 + 0.16 * sum(len(_wrap(t, 130)) for t in intro)) if intro else 0.3
     body_in = (TOP - BOTTOM) * PAGE_SIZE_IN[1]
     chunks = _paginate(spec, body_in - intro_in, body_in - 0.3)
@@ -1031,6 +1068,8 @@ def write_report(study: Study, path: str | os.PathLike, *, csv: bool = False,
     import matplotlib
     from matplotlib.backends.backend_pdf import PdfPages
 
+    from coordination.plot import LITERAL_TEXT
+
     target = check_output_path(path, inputs=(study.source,) if study.source else (), key="-o")
     if target.suffix.lower() != ".pdf":
         raise InputError(f"the report is a PDF; give a file ending in .pdf, not {target.name!r}",
@@ -1058,7 +1097,9 @@ def write_report(study: Study, path: str | os.PathLike, *, csv: bool = False,
                 extra.append(out)
         metadata = {"Title": f"Selectivity report: {study.title}",
                     "Creator": f"coordination {__version__}", "Subject": CAUTION}
-        with matplotlib.rc_context({"pdf.fonttype": 42, "font.family": "DejaVu Sans"}), \
+        # LITERAL_TEXT: a "$" in the study's text is printed as written, never as a formula
+        with matplotlib.rc_context({"pdf.fonttype": 42, "font.family": "DejaVu Sans",
+                                    **LITERAL_TEXT}), \
                 PdfPages(pdf_tmp, metadata=metadata) as pdf:
             _progress(progress, 0, total)
             for number, build in enumerate(pages, start=1):

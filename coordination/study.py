@@ -21,6 +21,8 @@ from __future__ import annotations
 
 import difflib
 import math
+import os
+import stat
 from collections.abc import Mapping, Sequence
 from functools import lru_cache
 from pathlib import Path
@@ -56,6 +58,18 @@ MAX_ZE_OHM = 2000.0  # a TT installation's earth electrode may reach a few hundr
 MAX_X_R = 100.0
 MAX_PARALLEL = 20
 MAX_ID_CHARS = 100
+#: The smallest fault level a supply may declare or its Ze imply [A]: below it no supply could
+#: operate the smallest protective device of the families modelled; such a value is a unit slip
+#: (kA written as A), not an installation.
+MIN_FAULT_A = 10.0
+#: How far a supply's declared fault level and its Ze may disagree (common practice: a declared
+#: Ze and a declared fault level are both limits, not measurements, so they rarely match).
+#: Refused: the earth fault that Ze implies (U0 / Ze) above ZE_PFC_TOLERANCE times the declared
+#: fault level (it cannot exceed the fault level), or, in TN, the declared fault level above
+#: PFC_ZE_TOLERANCE times that earth fault (a TN-S cable sheath can put the earth loop at
+#: several dozen times the impedance of the line loop; a thousand times is no supply).
+ZE_PFC_TOLERANCE = 2.0
+PFC_ZE_TOLERANCE = 1000.0
 
 
 # ---------------------------------------------------------------------------------------------
@@ -353,8 +367,10 @@ def _supply(data: Any) -> Supply:
         raise InputError("in TT, ze_ohm includes the earth electrode and says nothing about "
                          "short-circuit levels; give pfc_a [A] or a [supply.transformer] too",
                          key="supply")
+    u0_v = t.number("u0_v", unit="V", lo=50.0, hi=1000.0, default=230.0)
+    _check_source(u0_v, pfc_a, pfc_ln_a, ze_ohm, earthing)
     return Supply(
-        u0_v=t.number("u0_v", unit="V", lo=50.0, hi=1000.0, default=230.0),
+        u0_v=u0_v,
         phases=phases,
         earthing=earthing,
         pfc_a=pfc_a,
@@ -365,6 +381,73 @@ def _supply(data: Any) -> Supply:
         c_min=c_min,
         pfc_ln_a=pfc_ln_a,
     )
+
+
+def _check_floor(pfc_a: float | None, pfc_ln_a: float | None) -> None:
+    """Refuse a declared fault level below :data:`MIN_FAULT_A`."""
+    for key, value in (("pfc_a", pfc_a), ("pfc_ln_a", pfc_ln_a)):
+        if value is not None and value < MIN_FAULT_A:
+            slip = (f" (was it written in kA? {key} = {_g(value * 1000)} for {_g(value)} kA)"
+                    if MIN_FAULT_A <= value * 1000 <= MAX_CURRENT_A else "")
+            raise InputError(f"{key} = {_g(value)} A is below {_g(MIN_FAULT_A)} A, no supply's "
+                             f"fault level{slip}; allowed: at least {_g(MIN_FAULT_A)} A",
+                             key=f"supply.{key}")
+
+
+def _check_source(u0_v: float, pfc_a: float | None, pfc_ln_a: float | None,
+                  ze_ohm: float | None, earthing: str) -> None:
+    """Refuse a supply whose fault level and Ze cannot both be true.
+
+    Rules (stated in the constants above): every declared fault level is at least
+    :data:`MIN_FAULT_A`; the earth fault that Ze implies (U0 / Ze) is at most
+    :data:`MAX_CURRENT_A` and, in TN, at least :data:`MIN_FAULT_A`;
+    U0 / Ze is at most :data:`ZE_PFC_TOLERANCE` times the declared line-neutral fault level
+    (``pfc_ln_a``, else ``pfc_a``); in TN the declared ``pfc_a`` is at most
+    :data:`PFC_ZE_TOLERANCE` times U0 / Ze (in TT, Ze includes the earth electrode and may be
+    any size). A transformer's fault level is not compared here.
+
+    Raises
+    ------
+    InputError
+        Naming both keys and the unit slip that would explain the values.
+
+    References
+    ----------
+    IEC 60364-4-41, 411.4.4 (TN: Zs x Ia <= U0, the loop through the supply's line and
+    protective conductors); common practice (a supply's declared Ze and fault level are limits).
+    """
+    if ze_ohm is None:
+        _check_floor(pfc_a, pfc_ln_a)
+        return
+    implied = u0_v / ze_ohm
+    if implied > MAX_CURRENT_A:
+        raise InputError(f"ze_ohm = {_g(ze_ohm)} ohm implies an earth fault of "
+                         f"{_g(implied / 1000)} kA at u0_v = {_g(u0_v)} V, above "
+                         f"{_g(MAX_CURRENT_A / 1000)} kA, no supply's; allowed: "
+                         f"at least {_g(u0_v / MAX_CURRENT_A)} ohm", key="supply.ze_ohm")
+    tn = earthing != "TT"
+    if tn and implied < MIN_FAULT_A:
+        raise InputError(f"ze_ohm = {_g(ze_ohm)} ohm implies an earth fault of "
+                         f"{_g(implied)} A at u0_v = {_g(u0_v)} V, below {_g(MIN_FAULT_A)} A, "
+                         "which no TN supply has; was it written in milliohm? allowed: at most "
+                         f"{_g(u0_v / MIN_FAULT_A)} ohm in TN", key="supply.ze_ohm")
+    line_key, line_a = ("pfc_ln_a", pfc_ln_a) if pfc_ln_a is not None else ("pfc_a", pfc_a)
+    if line_a is not None and implied > ZE_PFC_TOLERANCE * line_a:
+        in_ka = implied <= ZE_PFC_TOLERANCE * line_a * 1000 and line_a * 1000 <= MAX_CURRENT_A
+        slip = (f"was {line_key} written in kA ({_g(line_a * 1000)} for {_g(line_a)} kA) or "
+                "ze_ohm in the wrong unit?" if in_ka else "is one of them in the wrong unit?")
+        raise InputError(f"supply.{line_key} = {_g(line_a)} A is below the earth fault that "
+                         f"supply.ze_ohm = {_g(ze_ohm)} ohm implies ({_g(implied)} A at "
+                         f"{_g(u0_v)} V), which it cannot be; {slip} allowed: U0 / ze_ohm at "
+                         f"most {_g(ZE_PFC_TOLERANCE)} x {line_key}", key=f"supply.{line_key}")
+    _check_floor(pfc_a, pfc_ln_a)
+    if tn and pfc_a is not None and pfc_a > PFC_ZE_TOLERANCE * implied:
+        raise InputError(f"supply.pfc_a = {_g(pfc_a)} A is over {_g(PFC_ZE_TOLERANCE)} times "
+                         f"the earth fault that supply.ze_ohm = {_g(ze_ohm)} ohm implies "
+                         f"({_g(implied)} A at {_g(u0_v)} V), which no TN supply has; was "
+                         "ze_ohm written in milliohm, or pfc_a in the wrong unit? allowed: "
+                         f"pfc_a at most {_g(PFC_ZE_TOLERANCE)} x U0 / ze_ohm in TN",
+                         key="supply.pfc_a")
 
 
 def _size(t: _Table, key: str, material: str, *, zero_ok: bool = False) -> float | None:
@@ -539,6 +622,34 @@ def _order(fields: dict[str, dict[str, Any]]) -> list[str]:
     return order
 
 
+def _check_boards(fields: Mapping[str, dict[str, Any]], order: Sequence[str]) -> None:
+    """Refuse a final circuit that feeds others, and one board name for two boards.
+
+    A board is named by its feeder's ``board`` key, else by the feeder's id (as printouts name
+    it); two feeders whose boards get one name would merge two boards under one heading.
+    """
+    named: dict[str, str] = {"origin": SUPPLY_ID}  # the supply's board (Study.board_name)
+    feeders: set[str] = set()
+    for cid in order:
+        parent = fields[cid]["parent"]
+        if parent != SUPPLY_ID and fields[parent]["final"] is True:
+            raise InputError(f"circuit {parent!r} is marked final = true but feeds {cid!r}; "
+                             "a final circuit feeds no board; allowed: final = false (or "
+                             "leave it out) on a circuit that feeds others",
+                             circuit=parent, key="final")
+        if parent == SUPPLY_ID or parent in feeders:
+            continue
+        feeders.add(parent)
+        name = fields[parent]["board"] or parent
+        other = named.get(name)
+        if other is not None:
+            first = "the origin" if other == SUPPLY_ID else f"the board fed by {other!r}"
+            raise InputError(f"{first} and the board fed by {parent!r} are both named "
+                             f"{name!r}; every board needs its own name (key 'board', else the "
+                             "feeder's id)", circuit=parent, key="board")
+        named[name] = parent
+
+
 def from_dict(data: Any, source: str | None = None) -> Study:
     """Validate a parsed study document and build the :class:`~coordination.model.Study`.
 
@@ -598,6 +709,7 @@ def from_dict(data: Any, source: str | None = None) -> Study:
     order = _order(fields)
     phases = {SUPPLY_ID: supply.phases}
     neutral = {SUPPLY_ID: None}  # None: the board has a neutral; else the circuit that lacks it
+    _check_boards(fields, order)
     for cid in order:
         f = fields[cid]
         parent = f["parent"]
@@ -625,7 +737,7 @@ def from_dict(data: Any, source: str | None = None) -> Study:
             while node != SUPPLY_ID and node != up:
                 chain.append(node)
                 node = fields[node]["parent"]
-            if node != up:
+            if node != up or up == SUPPLY_ID:  # the supply has no device to be selective
                 near = difflib.get_close_matches(up, chain, n=1, cutoff=0.6)
                 hint = f" (did you mean {near[0]!r}?)" if near else ""
                 shown = ", ".join(repr(c) for c in chain[:8]) + (", ..." if len(chain) > 8
@@ -704,6 +816,35 @@ def loads(text: str, source: str | None = None) -> Study:
     return from_dict(data, source=source)
 
 
+#: The largest study file read [bytes]. A 20,000-circuit study of the benchmark's kind is about
+#: 4 MB; anything beyond this limit is refused before it is read, so a wrong path (a device, a
+#: huge file) cannot exhaust memory.
+MAX_STUDY_BYTES = 64 * 1024 * 1024
+
+
+def _read_study_bytes(p: Path) -> bytes:
+    """The bytes of a regular file of at most :data:`MAX_STUDY_BYTES`, else an InputError.
+
+    A device (``/dev/zero``), a FIFO or a socket is refused without reading it: it may never
+    end. The size is checked on the open file, and at most one byte past the limit is read, so
+    a file that grows while read is refused too.
+    """
+    # without blocking: opening a FIFO for reading would wait for a writer
+    with os.fdopen(os.open(p, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0)), "rb") as handle:
+        info = os.fstat(handle.fileno())
+        if not stat.S_ISREG(info.st_mode):
+            raise InputError(f"{str(p)!r} is not a regular file (a device, pipe or socket); "
+                             "give a study file")
+        if info.st_size > MAX_STUDY_BYTES:
+            raise InputError(f"study file {str(p)!r} is {info.st_size / 1e6:.0f} MB; the limit "
+                             f"is {MAX_STUDY_BYTES // (1024 * 1024)} MiB")
+        raw = handle.read(MAX_STUDY_BYTES + 1)
+    if len(raw) > MAX_STUDY_BYTES:
+        raise InputError(f"study file {str(p)!r} is larger than the limit of "
+                         f"{MAX_STUDY_BYTES // (1024 * 1024)} MiB")
+    return raw
+
+
 def load(path: str | Path) -> Study:
     """Read and validate a study file.
 
@@ -728,7 +869,7 @@ def load(path: str | Path) -> Study:
     """
     p = Path(path)
     try:
-        raw = p.read_bytes()
+        raw = _read_study_bytes(p)
     except FileNotFoundError:
         raise InputError(f"study file {str(p)!r} does not exist") from None
     except IsADirectoryError:

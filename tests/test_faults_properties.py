@@ -22,8 +22,11 @@ def supplies(draw: Any) -> dict[str, Any]:
     kind = draw(st.sampled_from(["pfc", "pfc1", "ze", "transformer"]))
     x_r = draw(st.floats(0.0, 15.0))
     if kind == "pfc":
-        return {"pfc_a": draw(st.floats(500, 80000)), "ze_ohm": draw(st.floats(0.01, 2.0)),
-                "x_r": x_r}
+        # a declared fault level at least the earth fault its Ze implies at 230 V (within the
+        # loader's stated tolerance of 2, study.ZE_PFC_TOLERANCE): others are refused at load
+        ze_ohm = draw(st.floats(0.01, 2.0))
+        return {"pfc_a": draw(st.floats(max(500.0, 230.0 / ze_ohm / 2.0), 80000)),
+                "ze_ohm": ze_ohm, "x_r": x_r}
     if kind == "pfc1":
         return {"phases": 1, "pfc_a": draw(st.floats(500, 25000)), "x_r": x_r}
     if kind == "ze":
