@@ -417,17 +417,44 @@ def rcd_band(idn_ma: float, selective: bool = False, waveform: str = "A",
     )
 
 
-def residual_selective(upstream: ResidualBand, downstream: ResidualBand) -> tuple[str, str]:
+@dataclass(frozen=True)
+class ResidualSelectivity:
+    """The verdict on two RCDs in series.
+
+    Attributes
+    ----------
+    verdict : str
+        ``"total"`` or ``"none"`` (an RCD pair has no partial selectivity to report: a residual
+        current is not limited by the installation's fault level).
+    reason : str
+        One line saying why, naming its source.
+    decided_by : str
+        ``"limits"`` (the IEC 61008-1 / 61009-1 limit values show it at every residual current),
+        ``"rule"`` (the IEC 60364-5-53 conditions are met but the limit values alone do not show
+        it everywhere) or ``"conditions"`` (a condition of the rule is not met).
+    """
+
+    verdict: str
+    reason: str
+    decided_by: str
+
+
+def residual_selective(upstream: ResidualBand, downstream: ResidualBand) -> ResidualSelectivity:
     """Whether an upstream RCD stays closed while a downstream one clears any residual current.
 
-    Selective (``"total"``) when the upstream is type S or delayed, IΔn_up >= 3 IΔn_down
-    (IEC 60364-5-53, from memory) AND the upstream's minimum non-actuating time exceeds the
-    downstream's maximum break time at every residual current at which the upstream may operate.
-    Both edges are staircases, so checking at every step and just above it is exact.
+    IEC 60364-5-53 (from memory) makes two RCDs in series selective when the upstream is type S
+    or delayed and IΔn_up >= 3 IΔn_down. Where both hold, the limit values of IEC 61008-1 /
+    61009-1 are compared as well: the upstream's minimum non-actuating time against the
+    downstream's maximum break time at every residual current at which the upstream may operate
+    (both edges are staircases, so checking at every step and just above it is exact).
 
-    Note that the IEC 61008-1 limits alone do not prove the 3:1 rule for every pair: a general
-    30 mA device below a 100 mA type S may take 0.3 s at 50..60 mA, where the type S may act
-    after 0.13 s; such a pair is ``"none"`` here, and the reason names the residual currents.
+    * a condition of the rule not met: ``"none"``;
+    * the limit values show it everywhere: ``"total"``, decided by the limits;
+    * the rule met but the limits alone leave a range unproven (a general 30 mA device below a
+      100 mA type S may take 0.3 s at 50..60 mA where the type S may act after 0.13 s):
+      ``"total"`` by the installation rule, and the reason names the unproven range and asks
+      for the makers' data. Selectivity decides which device opens, never whether the fault is
+      cleared, so the rule the installation standard states is taken, and said.
 
     Parameters
     ----------
@@ -436,43 +463,49 @@ def residual_selective(upstream: ResidualBand, downstream: ResidualBand) -> tupl
 
     Returns
     -------
-    (verdict, reason) : tuple of str
-        ``"total"`` or ``"none"``, and one line saying why.
+    ResidualSelectivity
 
     References
     ----------
-    IEC 60364-5-53 (RCDs in series: time and IΔn conditions, from memory); IEC 61008-1 /
-    61009-1 limit values.
+    IEC 60364-5-53 (RCDs in series: type S or delayed, IΔn ratio at least 3; from memory);
+    IEC 61008-1 / 61009-1 limit values of break and non-actuating time.
 
     Examples
     --------
-    >>> print(residual_selective(rcd_band(500, selective=True), rcd_band(30))[0])
+    >>> print(residual_selective(rcd_band(500, selective=True), rcd_band(30)).verdict)
     total
+    >>> print(residual_selective(rcd_band(100, selective=True), rcd_band(30)).decided_by)
+    rule
     """
     up, down = upstream.settings, downstream.settings
     if not up.delayed:
-        return "none", (f"upstream {upstream.name} is a general type with no minimum "
-                        "non-actuating time (IEC 61008-1); selectivity needs type S or a delay "
-                        "(IEC 60364-5-53, from memory)")
+        return ResidualSelectivity("none", (
+            f"upstream {upstream.name} is a general type with no minimum non-actuating time "
+            "(IEC 61008-1); selectivity needs type S or a delay (IEC 60364-5-53, from memory)"),
+            "conditions")
     ratio = up.idn_a / down.idn_a
     if ratio < SELECTIVITY_RATIO * (1 - 1e-9):
-        return "none", (f"IΔn ratio {ratio:.3g} is below {SELECTIVITY_RATIO:g} "
-                        f"({upstream.name} over {downstream.name}; IEC 60364-5-53, from memory)")
+        return ResidualSelectivity("none", (
+            f"IΔn ratio {ratio:.3g} is below {SELECTIVITY_RATIO:g} ({upstream.name} over "
+            f"{downstream.name}; IEC 60364-5-53, from memory)"), "conditions")
     steps = np.array(upstream.breakpoints_a + downstream.breakpoints_a)
-    grid = sorted_unique(np.concatenate([steps, steps * (1 + 1e-9), [steps.max() * 10.0]]))
+    grid = np.unique(np.concatenate([steps, steps * (1 + 1e-9), [steps.max() * 10.0]]))
     t_up, t_down = upstream.t_min(grid), downstream.t_max(grid)
     ok = np.isinf(t_up) | (t_up > t_down)
     if ok.all():
-        return "total", (f"{upstream.name} waits longer than {downstream.name} takes to clear at "
-                         f"every residual current (IEC 61008-1 limits; IΔn ratio {ratio:.3g})")
+        return ResidualSelectivity("total", (
+            f"{upstream.name} waits longer than {downstream.name} takes to clear at every "
+            f"residual current (IEC 61008-1 limits; IΔn ratio {ratio:.3g})"), "limits")
     bad = np.flatnonzero(~ok)
     first, last = int(bad[0]), int(bad[-1])
-    # edges are constant between grid points: the failure runs up to the next point checked
+    # edges are constant between grid points: the gap runs up to the next point checked
     end = f"{grid[last + 1] * 1000:.4g} mA" if last + 1 < grid.size else "beyond"
-    return "none", (f"from just above {grid[first] * 1000:.4g} mA up to {end} residual "
-                    f"{upstream.name} may operate after {t_up[first]:g} s, before "
-                    f"{downstream.name} has surely cleared ({t_down[first]:g} s; "
-                    f"IEC 61008-1 limits); IΔn ratio {ratio:.3g}")
+    return ResidualSelectivity("total", (
+        f"selective by the IEC 60364-5-53 rule ({upstream.name} is time-delayed, IΔn ratio "
+        f"{ratio:.3g} >= {SELECTIVITY_RATIO:g}; from memory); the IEC 61008-1 limit values "
+        f"alone leave just above {grid[first] * 1000:.4g} mA to {end} unproven "
+        f"({upstream.name} may act after {t_up[first]:g} s, {downstream.name} may take "
+        f"{t_down[first]:g} s): confirm with the makers' data"), "rule")
 
 
 def touch_voltage_ok(ra_ohm: float, idn_a: float) -> tuple[bool, float]:
