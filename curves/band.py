@@ -77,25 +77,6 @@ def sorted_unique(values: Any) -> np.ndarray:
     return x[keep]
 
 
-def equivalent_time(i2t_a2s: Any, current_a: Any) -> np.ndarray:
-    """Equivalent time of an energy, ``t = I2t / I^2`` [s].
-
-    Parameters
-    ----------
-    i2t_a2s : array_like
-        Joule integral [A^2 s].
-    current_a : array_like
-        Prospective current [A], positive.
-
-    Examples
-    --------
-    >>> print(float(equivalent_time(70_000.0, 10_000.0)))
-    0.0007
-    """
-    current_a = as_current(current_a)
-    return as_current(i2t_a2s) / (current_a * current_a)
-
-
 @dataclass(frozen=True, eq=False)
 class Band:
     """A protective device with its settings, as a band between two edges.

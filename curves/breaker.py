@@ -113,6 +113,7 @@ import numpy as np
 
 from curves.band import TIME_FLOOR_S, Band
 from curves.errors import InputError, positive_number
+from curves.laws import i2t_time, thermal_tau, thermal_time
 
 #: Rated currents In of breakers and trip units [A], Renard R'10 series 16 .. 1600 A
 #: (IEC 60059 preferred ratings, from memory; common practice).
@@ -168,40 +169,6 @@ _T6_NOTE = f"nominal {TM_T6_NOMINAL_S:g} s at 6 Ir (modelling choice)"
 
 
 # -- pure models -------------------------------------------------------------------------------
-def thermal_time(x: np.ndarray, x0: float, tau_s: float) -> np.ndarray:
-    """Trip time of a thermal element started cold, ``tau * ln(x^2 / (x^2 - x0^2))`` [s].
-
-    Parameters
-    ----------
-    x : ndarray
-        Current as a multiple of the setting, ``I / Ir`` [-].
-    x0 : float
-        Pickup multiple: at or below it the element never trips [-].
-    tau_s : float
-        Thermal time constant [s].
-
-    Returns
-    -------
-    ndarray
-        Time [s]; ``inf`` where ``x <= x0``.
-
-    References
-    ----------
-    First-order heating of a bimetal from cold (common practice); pickup limits from
-    IEC 60947-2, Table 6.
-
-    Examples
-    --------
-    >>> print(round(float(thermal_time(np.array(6.0), 1.175, 255.7)), 2))
-    10.0
-    """
-    x = np.asarray(x, dtype=np.float64)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        ratio = (x0 / x) ** 2
-        t = -tau_s * np.log1p(-ratio)
-    return np.where(x > x0, t, np.inf)
-
-
 def nominal_tau_s(x0: float = TM_X0_NOMINAL, t6_s: float = TM_T6_NOMINAL_S) -> float:
     """The time constant [s] that puts the thermal law through ``t6_s`` at 6 Ir.
 
@@ -210,33 +177,7 @@ def nominal_tau_s(x0: float = TM_X0_NOMINAL, t6_s: float = TM_T6_NOMINAL_S) -> f
     >>> print(round(nominal_tau_s(), 1))
     255.7
     """
-    return t6_s / -math.log1p(-((x0 / 6.0) ** 2))
-
-
-def i2t_time(x: np.ndarray, t_ref_s: float, x_ref: float) -> np.ndarray:
-    """Time of an ``I^2 t = constant`` law through ``t_ref_s`` at ``x_ref`` [s].
-
-    Parameters
-    ----------
-    x : ndarray
-        Current as a multiple of the reference current [-], positive.
-    t_ref_s : float
-        Time at ``x_ref`` [s].
-    x_ref : float
-        Reference multiple (6 for an electronic long-time delay, 10 for a short-time ramp).
-
-    References
-    ----------
-    Electronic long-time delay stated at 6 Ir with I2t = constant (common practice).
-
-    Examples
-    --------
-    >>> print(float(i2t_time(np.array(3.0), 8.0, 6.0)))
-    32.0
-    """
-    x = np.asarray(x, dtype=np.float64)
-    with np.errstate(divide="ignore"):
-        return t_ref_s * (x_ref / x) ** 2
+    return thermal_tau(x0, 6.0, t6_s)
 
 
 def conventional_time_s(rating_a: float) -> float:

@@ -55,6 +55,7 @@ from itertools import pairwise
 import numpy as np
 
 from curves.band import Band, as_current
+from curves.laws import equivalent_time, loglog_interpolate
 from curves.mcb import (
     check_basis,
     check_positive,
@@ -248,9 +249,9 @@ def gg_envelope_lower(current_a: np.ndarray, env: GGEnvelope) -> np.ndarray:
     3600.0
     """
     i = np.asarray(current_a, dtype=np.float64)
+    t = loglog_interpolate(i, env.lower_ln_i, env.lower_ln_t)
     with np.errstate(divide="ignore", invalid="ignore"):
-        t = np.exp(np.interp(np.log(i), env.lower_ln_i, env.lower_ln_t))
-        t = np.where(i > env.i_pre_a, env.pre_min_a2s / (i * i), t)
+        t = np.where(i > env.i_pre_a, equivalent_time(env.pre_min_a2s, i), t)
     # exactly the conventional time at the first knot (no exp/log rounding there)
     t = np.where(i == env.non_fusing_a, env.conventional_time_s, t)
     return np.where(i < env.non_fusing_a, np.inf, t)
@@ -270,18 +271,17 @@ def gg_envelope_upper(current_a: np.ndarray, env: GGEnvelope) -> np.ndarray:
     5.0
     """
     i = np.asarray(current_a, dtype=np.float64)
+    t = loglog_interpolate(i, env.upper_ln_i, env.upper_ln_t)
     with np.errstate(divide="ignore", invalid="ignore"):
-        t = np.exp(np.interp(np.log(i), env.upper_ln_i, env.upper_ln_t))
-        t = np.where(i > env.i_op_a, env.op_max_a2s / (i * i), t)
+        t = np.where(i > env.i_op_a, equivalent_time(env.op_max_a2s, i), t)
     return np.where(i < env.fusing_a, np.inf, t)
 
 
 def _envelope_currents(env: GGEnvelope, t_s: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     """Currents [A] where the envelope's lower and upper edges reach times ``t_s`` in
     [I2T_TIME_S, conventional time]."""
-    ln_t = np.log(t_s)
-    i_lo = np.exp(np.interp(-ln_t, -env.lower_ln_t, env.lower_ln_i))
-    i_hi = np.exp(np.interp(-ln_t, -env.upper_ln_t, env.upper_ln_i))
+    i_lo = loglog_interpolate(t_s, env.lower_ln_t, env.lower_ln_i, descending=True)
+    i_hi = loglog_interpolate(t_s, env.upper_ln_t, env.upper_ln_i, descending=True)
     return i_lo, i_hi
 
 
@@ -334,8 +334,7 @@ def gg_nominal_time(current_a: np.ndarray, env: GGEnvelope, nom: GGNominal) -> n
     0.01
     """
     i = np.asarray(current_a, dtype=np.float64)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        t = np.exp(np.interp(np.log(i), nom.ln_i, nom.ln_t))
+    t = loglog_interpolate(i, nom.ln_i, nom.ln_t)
     t = np.where(i == nom.i_conv_a, env.conventional_time_s, t)
     t = np.where(i < nom.i_conv_a, np.inf, t)
     return np.where(i > nom.i_last_a, 0.0, t)
@@ -453,7 +452,7 @@ def gg_band(
         def upper(current_a: np.ndarray) -> np.ndarray:
             nominal = gg_nominal_time(current_a * widen, env, nom)
             with np.errstate(divide="ignore"):
-                energy = np.minimum(I2T_TIME_S, op / (current_a * current_a))
+                energy = np.minimum(I2T_TIME_S, equivalent_time(op, current_a))
             # from the nominal 0.01 s point: flat at 0.01 s, then the maximum operating I2t
             return np.maximum(nominal, energy)
 

@@ -62,6 +62,13 @@ import numpy as np
 
 from curves.band import TIME_FLOOR_S, Band, as_current
 from curves.errors import InputError
+from curves.laws import (
+    equivalent_time,
+    fit_thermal_law,
+    loglog_interpolate,
+    thermal_tau,
+    thermal_time,
+)
 
 DATA_DIR = Path(__file__).resolve().parent / "data"
 
@@ -184,93 +191,6 @@ def class_let_through_table(
     return None
 
 
-def thermal_time(x: np.ndarray, x0: float, tau_s: float) -> np.ndarray:
-    """Thermal law ``t = tau * ln(x^2 / (x^2 - x0^2))`` [s]; ``inf`` at and below ``x0``.
-
-    Parameters
-    ----------
-    x : ndarray
-        Current as a multiple of In [-].
-    x0 : float
-        Asymptote (pickup) as a multiple of In [-].
-    tau_s : float
-        Time constant [s].
-
-    References
-    ----------
-    Adiabatic-with-losses heating of a bimetal (first-order thermal model), the shape DESIGN.md
-    asks for; IEC 60898-1 sets only the points it must respect.
-
-    Examples
-    --------
-    >>> print(round(float(thermal_time(np.array(2.55), 1.13, 4.574)), 3))
-    1.0
-    """
-    x = np.asarray(x, dtype=np.float64)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        ratio = (x0 * x0) / (x * x)
-        t = -tau_s * np.log1p(-ratio)
-    return np.where(x > x0, t, np.inf)
-
-
-def thermal_tau(x0: float, x: float, t_s: float) -> float:
-    """Time constant [s] of the thermal law with asymptote ``x0`` through ``(x, t_s)``.
-
-    Examples
-    --------
-    >>> print(round(thermal_tau(1.13, 2.55, 1.0), 3))
-    4.574
-    """
-    return t_s / -math.log1p(-((x0 / x) ** 2))
-
-
-@lru_cache(maxsize=32)
-def fit_thermal_law(x1: float, t1_s: float, x2: float, t2_s: float) -> tuple[float, float]:
-    """The thermal law through two points ``(x1, t1)`` and ``(x2, t2)``, ``x1 < x2``, ``t1 > t2``.
-
-    Returns
-    -------
-    (x0, tau_s) : tuple of float
-        Asymptote [multiple of In] and time constant [s].
-
-    Notes
-    -----
-    Of all thermal laws with ``t(x1) <= t1`` and ``t(x2) <= t2`` this is the one with the
-    longest times everywhere between and beyond (the widest), which is why the envelope uses it.
-    With the IEC 60898-1 points (ratio 30..60) ``x0`` lands a hair below ``x1``: the upper edge
-    is nearly vertical at 1.45 In. The fit aims 1 ppm inside the first point.
-
-    References
-    ----------
-    IEC 60898-1 test points 1.45 In (conventional time) and 2.55 In (60 s or 120 s).
-
-    Examples
-    --------
-    >>> x0, tau = fit_thermal_law(1.45, 3600.0, 2.55, 60.0)
-    >>> print(round(float(thermal_time(np.array(1.45), x0, tau))))
-    3600
-    """
-    # Aim 1 ppm inside the first point so that rounding never puts t(x1) above t1.
-    ratio = t1_s / t2_s * (1.0 - 1e-6)
-    if not (x2 > x1 > 0 and ratio > (x2 / x1) ** 2):
-        raise ValueError("no thermal law through these points")
-
-    def excess(x0: float) -> float:
-        return math.log1p(-((x0 / x1) ** 2)) / math.log1p(-((x0 / x2) ** 2)) - ratio
-
-    lo, hi = 1e-9 * x1, x1 * (1 - 1e-15)
-    for _ in range(200):  # bisection: excess rises with x0 from below 0 to +inf
-        mid = 0.5 * (lo + hi)
-        if excess(mid) > 0:
-            hi = mid
-        else:
-            lo = mid
-        if hi - lo <= 1e-16 * x1:
-            break
-    # lo keeps t(x1) / t(x2) at or below the aim; tau from the second point keeps t(x2) = t2.
-    return lo, thermal_tau(lo, x2, t2_s)
-
-
 def loglog_let_through(
     points: tuple[tuple[float, float], ...], *, below: str = "hold"
 ) -> Callable[[np.ndarray], np.ndarray]:
@@ -311,10 +231,11 @@ def loglog_let_through(
 
     def let_through(current_a: np.ndarray) -> np.ndarray:
         i = as_current(current_a)
-        li = np.log(np.maximum(i, i_first))
-        y = np.interp(li, lx, ly)
-        y = np.where(li > last_x, last_y + 2.0 * (li - last_x), y)
-        i2t = np.exp(y)
+        clamped = np.maximum(i, i_first)
+        li = np.log(clamped)
+        # above the last point the equivalent time is held: log-log slope 2
+        i2t = np.where(li > last_x, np.exp(last_y + 2.0 * (li - last_x)),
+                       loglog_interpolate(clamped, lx, ly))
         if hold:
             return i2t
         return np.where(i < i_first, i2t_first * (i / i_first) ** TYPICAL_LET_THROUGH_EXPONENT,
@@ -667,7 +588,7 @@ def mcb_band(
             inst = inst_s
         else:
             with np.errstate(divide="ignore"):
-                inst = class_i2t(current_a) / (current_a * current_a)
+                inst = equivalent_time(class_i2t(current_a), current_a)
             # past the last table point the equivalent time is held: exactly, no rounding ripple
             inst = np.clip(np.where(current_a > i_last, t_last, inst), TIME_FLOOR_S, inst_s)
         return np.where(current_a < i_inst_up, t, inst)

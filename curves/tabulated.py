@@ -36,6 +36,7 @@ from typing import Any
 
 import numpy as np
 
+from curves import laws
 from curves.band import TIME_FLOOR_S, Band
 from curves.errors import InputError, positive_number
 
@@ -118,9 +119,7 @@ def loglog_interpolate(current_a: np.ndarray, xp: np.ndarray, fp: np.ndarray, *,
     1.0
     """
     i = np.asarray(current_a, dtype=np.float64)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        log_i = np.log(i)
-    y = np.exp(np.interp(log_i, np.log(xp), np.log(fp)))
+    y = laws.loglog_interpolate(i, np.log(xp), np.log(fp))
     y = np.where(i < xp[0], below, y)
     if above is not None:
         y = np.where(i > xp[-1], above, y)
