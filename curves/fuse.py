@@ -56,18 +56,17 @@ import numpy as np
 
 from curves.band import Band, as_current
 from curves.laws import equivalent_time, loglog_interpolate
-from curves.mcb import (
-    check_basis,
-    check_positive,
-    check_rating,
-    read_data_table,
-)
+from curves.mcb import read_data_table
+from curves.validate import in_series, known_basis, positive_number
 
 #: Rated currents In [A] of gG fuse-links (IEC 60269-1 preferred values, common practice).
 GG_RATINGS_A = (
     2, 4, 6, 8, 10, 12, 16, 20, 25, 32, 40, 50, 63, 80, 100, 125,
     160, 200, 250, 315, 400, 500, 630, 800, 1000, 1250,
 )  # fmt: skip
+
+#: The bases a standard-built gG band can have.
+GG_BASES = ("typical", "envelope")
 
 #: The time at which IEC 60269-2 gives the I2t limits of gG fuse-links [s] (from memory).
 I2T_TIME_S = 0.01
@@ -399,7 +398,8 @@ def gg_band(
     >>> print(round(float(band.t_min(290.0)), 6), band.pre_arcing_i2t_min_a2s)
     10.0 27000.0
     """
-    rating = check_rating(rating_a, GG_RATINGS_A, "IEC 60269 gG")
+    rating = in_series(rating_a, GG_RATINGS_A, key="In_a", what="rated current",
+                                standard="IEC 60269 gG")
     notes: list[str] = []
     if breaking_capacity_a is None:
         breaking = DEFAULT_BREAKING_CAPACITY_A
@@ -408,8 +408,8 @@ def gg_band(
             "industrial gG minimum, from memory)"
         )
     else:
-        breaking = check_positive(breaking_capacity_a, "breaking_capacity_a", "breaking capacity")
-    basis = check_basis(basis)
+        breaking = positive_number("breaking_capacity_a", breaking_capacity_a)
+    basis = known_basis(basis, GG_BASES)
 
     env = gg_envelope(rating)
     row = gg_table()[rating]

@@ -31,18 +31,20 @@ The band's basis is always ``"datasheet"``.
 
 from __future__ import annotations
 
-from collections.abc import Sequence
 from typing import Any
 
 import numpy as np
 
 from curves import laws
 from curves.band import TIME_FLOOR_S, Band
-from curves.errors import InputError, positive_number
+from curves.errors import InputError
+from curves.validate import curve_points, positive_number
 
 
 def check_points(key: str, points: Any, *, rising: bool = False) -> tuple[np.ndarray, np.ndarray]:
     """Validate ``[[current_a, value], ...]`` points; return (currents, values) arrays.
+
+    The rules and messages are :func:`curves.validate.curve_points`'s.
 
     Parameters
     ----------
@@ -64,32 +66,8 @@ def check_points(key: str, points: Any, *, rising: bool = False) -> tuple[np.nda
     >>> print(float(t[1]))
     0.1
     """
-    shape = "a list of [current_a, value] pairs, e.g. [[100, 10.0], [1000, 0.1]]"
-    if isinstance(points, str | bytes) or not isinstance(points, Sequence):
-        raise InputError(f"{key} must be {shape}, not {points!r}", key=key)
-    if len(points) < 2:
-        raise InputError(f"{key} needs at least two points; give {shape}", key=key)
-    rows = []
-    for n, pair in enumerate(points):
-        where = f"{key}[{n}]"
-        if isinstance(pair, str | bytes) or not isinstance(pair, Sequence) or len(pair) != 2:
-            raise InputError(f"{where} must be a [current_a, value] pair, not {pair!r}", key=key)
-        rows.append((positive_number(where, pair[0]), positive_number(where, pair[1])))
-    arr = np.array(rows, dtype=np.float64)
-    current, value = arr[:, 0], arr[:, 1]
-    bad = np.flatnonzero(np.diff(current) <= 0)
-    if bad.size:
-        n = int(bad[0]) + 1
-        raise InputError(f"{key}[{n}]: currents must strictly increase ({current[n - 1]:g} A "
-                         f"then {current[n]:g} A)", key=key)
-    step = np.diff(value)
-    bad = np.flatnonzero(step < 0 if rising else step > 0)
-    if bad.size:
-        n = int(bad[0]) + 1
-        word = "never fall" if rising else "never rise"
-        raise InputError(f"{key}[{n}]: values must {word} with current ({value[n - 1]:g} then "
-                         f"{value[n]:g})", key=key)
-    return current, value
+    arr = np.array(curve_points(key, points, rising=rising), dtype=np.float64)
+    return arr[:, 0], arr[:, 1]
 
 
 def loglog_interpolate(current_a: np.ndarray, xp: np.ndarray, fp: np.ndarray, *,
