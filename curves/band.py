@@ -52,31 +52,6 @@ def as_current(current_a: Any) -> np.ndarray:
     return np.asarray(current_a, dtype=np.float64)
 
 
-def sorted_unique(values: Any) -> np.ndarray:
-    """The distinct values of a float array, sorted, as ``np.unique`` gives them.
-
-    ``np.unique`` imports ``numpy.ma`` on its first call in numpy 2 (to ask whether the array
-    is masked), 10-20 ms of a command that otherwise never needs it; the grids of currents here
-    are plain float arrays.
-
-    Examples
-    --------
-    >>> print(sorted_unique([3.0, 1.0, 3.0, 2.0]))
-    [1. 2. 3.]
-    """
-    x = np.sort(np.asarray(values, dtype=np.float64).ravel())
-    if x.size < 2:
-        return x
-    keep = np.empty(x.size, dtype=bool)
-    keep[0] = True
-    np.not_equal(x[1:], x[:-1], out=keep[1:])
-    nan = np.isnan(x)
-    if nan.any():  # NaNs sort last and never equal each other: keep one, as np.unique does
-        keep &= ~nan
-        keep[int(np.argmax(nan))] = True
-    return x[keep]
-
-
 @dataclass(frozen=True, eq=False)
 class Band:
     """A protective device with its settings, as a band between two edges.
