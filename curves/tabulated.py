@@ -70,31 +70,17 @@ def check_points(key: str, points: Any, *, rising: bool = False) -> tuple[np.nda
     return arr[:, 0], arr[:, 1]
 
 
-def loglog_interpolate(current_a: np.ndarray, xp: np.ndarray, fp: np.ndarray, *,
-                       below: float, above: float | None = None) -> np.ndarray:
-    """Interpolate points in log-log space.
-
-    Parameters
-    ----------
-    current_a : ndarray
-        Currents to evaluate [A].
-    xp, fp : ndarray
-        Point currents [A] (strictly increasing) and values (positive).
-    below : float
-        Value below ``xp[0]`` (``inf`` for an edge that never operates there).
-    above : float, optional
-        Value above ``xp[-1]``; None holds the last value.
-
-    References
-    ----------
-    Straight lines between points on log-log axes: the way time-current curves are drawn and
-    read (common practice).
+def datasheet_curve(current_a: np.ndarray, xp: np.ndarray, fp: np.ndarray, *,
+                    below: float, above: float | None = None) -> np.ndarray:
+    """A datasheet curve at currents [A]: :func:`curves.laws.loglog_interpolate` between its
+    points ``xp`` [A] (strictly increasing) and values ``fp`` (positive), ``below`` under its
+    first current and ``above`` over its last (None holds the last value).
 
     Examples
     --------
     >>> xp, fp = np.array([100.0, 10000.0]), np.array([100.0, 0.01])
-    >>> print(round(float(loglog_interpolate(np.array(1000.0), xp, fp, below=np.inf)), 6))
-    1.0
+    >>> print(float(datasheet_curve(np.array([50.0, 20000.0]), xp, fp, below=np.inf)[0]))
+    inf
     """
     i = np.asarray(current_a, dtype=np.float64)
     y = laws.loglog_interpolate(i, np.log(xp), np.log(fp))
@@ -172,13 +158,13 @@ def datasheet_band(
     lt = None if let_through is None else check_points("let_through", let_through, rising=True)
 
     def lower_edge(i: np.ndarray) -> np.ndarray:
-        t = loglog_interpolate(i, lo_i, lo_t, below=np.inf)
+        t = datasheet_curve(i, lo_i, lo_t, below=np.inf)
         if inst is not None:
             t = np.where(i >= inst, np.minimum(t, TIME_FLOOR_S), t)
         return t
 
     def upper_edge(i: np.ndarray) -> np.ndarray:
-        return loglog_interpolate(i, hi_i, hi_t, below=np.inf)
+        return datasheet_curve(i, hi_i, hi_t, below=np.inf)
 
     probe = np.union1d(lo_i, hi_i)
     probe = probe[probe >= hi_i[0]]
@@ -195,7 +181,7 @@ def datasheet_band(
         lt_i, lt_e = lt
 
         def let_fn(i: np.ndarray) -> np.ndarray:
-            return loglog_interpolate(i, lt_i, lt_e, below=np.inf, above=np.inf)
+            return datasheet_curve(i, lt_i, lt_e, below=np.inf, above=np.inf)
 
     settings: dict[str, Any] = {"In_a": rating}
     if inst is not None:
