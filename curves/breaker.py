@@ -345,7 +345,7 @@ def thermal_magnetic_band(
     """
     basis = known_basis(basis, BASES)
     rating = in_series(In_a, BREAKER_RATINGS_A, key="In_a", what="rated current",
-                                standard="breaker")
+                       standard="breaker")
     if isinstance(Ii_x, str):
         raise InputError(f"Ii_x = {Ii_x!r} is not allowed (a magnetic release cannot be "
                          f"switched off); allowed: {values_text(II_X)} x In", key="Ii_x")
@@ -572,7 +572,7 @@ def electronic_band(
     """
     basis = known_basis(basis, BASES)
     rating = in_series(In_a, BREAKER_RATINGS_A, key="In_a", what="rated current",
-                                standard="breaker")
+                       standard="breaker")
     ir_x = _multiple("Ir", "In", rating, Ir_x, Ir_a, ELECTRONIC_IR_FRACTIONS, 1.0)
     ir = ir_x * rating
     notes: list[str] = []

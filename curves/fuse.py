@@ -399,7 +399,7 @@ def gg_band(
     10.0 27000.0
     """
     rating = in_series(rating_a, GG_RATINGS_A, key="In_a", what="rated current",
-                                standard="IEC 60269 gG")
+                       standard="IEC 60269 gG")
     notes: list[str] = []
     if breaking_capacity_a is None:
         breaking = DEFAULT_BREAKING_CAPACITY_A

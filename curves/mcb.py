@@ -301,7 +301,7 @@ def check_icn(icn_a: object) -> float:
     10000.0
     """
     return in_series(icn_a, MCB_ICN_A, key="icn_a",
-                              what="rated short-circuit capacity Icn", standard="IEC 60898-1")
+                     what="rated short-circuit capacity Icn", standard="IEC 60898-1")
 
 
 # -- the band ------------------------------------------------------------------------------------
@@ -371,7 +371,7 @@ def mcb_band(
         )
     typ = curve_type.strip().upper()
     rating = in_series(rating_a, MCB_RATINGS_A, key="In_a", what="rated current",
-                                standard="IEC 60898-1")
+                       standard="IEC 60898-1")
     given_points = None if let_through_a2s is None else let_through_points(let_through_a2s)
     if energy_class is None:
         cls = None if given_points is not None or not class_applies(typ, rating, 3) else 3
