@@ -19,7 +19,6 @@ from typing import Any
 import numpy as np
 
 import curves.data
-from coordination.frozen import quick_init
 from curves.errors import InputError
 
 #: Conductor materials the IEC 60228 table covers.
@@ -212,8 +211,7 @@ def max_operating_temperature_c(insulation: str) -> float:
                          "xlpe (90 degC, also for EPR)", key="insulation") from None
 
 
-@quick_init
-@dataclass(frozen=True, init=False)
+@dataclass(frozen=True)
 class RunImpedances:
     """Impedances of one cable run, whole length, all parallel conductors together [ohm].
 

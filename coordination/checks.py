@@ -39,7 +39,6 @@ from typing import Any
 
 import numpy as np
 
-from coordination.frozen import quick_init
 from coordination.model import Study
 from curves.band import Band
 from curves.errors import InputError
@@ -102,8 +101,7 @@ CAPACITY_KEYS = ("icn_a", "icu_a", "ics_a", "breaking_capacity_a")
 
 # -------------------------------------------------------------------------------------------
 # the result
-@quick_init
-@dataclass(frozen=True, init=False)
+@dataclass(frozen=True)
 class CheckResult:
     """One protection check of one circuit.
 
@@ -422,8 +420,7 @@ def k_factor(material: str, insulation: str, csa_mm2: float) -> float:
     return small if csa_mm2 <= 300.0 else large
 
 
-@quick_init
-@dataclass(frozen=True, init=False)
+@dataclass(frozen=True)
 class ConductorSizes:
     """Cross-sections and adiabatic factors of a cable's conductors.
 

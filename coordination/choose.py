@@ -55,7 +55,7 @@ import numpy as np
 from coordination.devices import device_band
 from coordination.engine import ADJUSTABLE_FAMILIES, EQUAL_RTOL
 from coordination.model import SUPPLY_ID, Study
-from curves.band import ENERGY_REGION_S, TIME_CEILING_S, TIME_FLOOR_S, Band, sorted_unique
+from curves.band import ENERGY_REGION_S, TIME_CEILING_S, TIME_FLOOR_S, Band
 from curves.errors import InputError
 from curves.mcb import DEFAULT_ICN_A
 
@@ -707,7 +707,7 @@ def _problem(study: Study, levels: Any, circuit_id: str, family: str | None,
     grid = np.geomspace(max(min(lows) * 0.9, 0.5), max(highs), GRID_POINTS)
     tops = np.asarray([p.required_a for p in below] + [required_c], dtype=float)
     extra = np.concatenate([[p.window_a[0] for p in below], tops, tops * (1 - SCREEN_EDGE)])
-    grid = sorted_unique(np.concatenate([grid, extra]))
+    grid = np.unique(np.concatenate([grid, extra]))
 
     need = np.full((2, grid.size), -np.inf)
     need_untestable = need.copy()

@@ -54,10 +54,9 @@ from typing import TYPE_CHECKING, Any, Literal
 import numpy as np
 
 from coordination.devices import band_for, compact_labels
-from coordination.frozen import quick_init
 from coordination.model import Study
 from coordination.roots import find_crossing
-from curves.band import ENERGY_REGION_S, TIME_CEILING_S, TIME_FLOOR_S, Band, sorted_unique
+from curves.band import ENERGY_REGION_S, TIME_CEILING_S, TIME_FLOOR_S, Band
 from curves.errors import InputError
 
 if TYPE_CHECKING:  # shapely is imported lazily, only by overlap()
@@ -87,8 +86,7 @@ _LOG_NEVER = 30.0
 
 # ---------------------------------------------------------------------------------------------
 # results
-@quick_init
-@dataclass(frozen=True, init=False)
+@dataclass(frozen=True)
 class Selectivity:
     """The selectivity of one pair of bands over one window.
 
@@ -125,8 +123,7 @@ class Selectivity:
     curves_limit_a: float | None = None
 
 
-@quick_init
-@dataclass(frozen=True, init=False)
+@dataclass(frozen=True)
 class PairResult:
     """The selectivity of one circuit under one of its ancestors, with the requirement.
 
@@ -280,7 +277,7 @@ def _grid(down: Band, up: Band, lo: float, top: float) -> np.ndarray:
     extra = np.array([m for m in marks if m is not None and math.isfinite(m) and m > 0], float)
     extra = np.concatenate([extra * (1 - _BREAK_EPS), extra, extra * (1 + _BREAK_EPS)])
     extra = extra[(extra > lo) & (extra < top)]
-    return sorted_unique(np.concatenate([base, extra]))
+    return np.unique(np.concatenate([base, extra]))
 
 
 def _refine(down: Band, up: Band, a: float, b: float, margin: float, interval_s: float) -> float:
@@ -513,8 +510,7 @@ def compare(upstream: Band, downstream: Band, window_a: tuple[float, float], *,
 MAX_ROWS = 500_000
 
 
-@quick_init
-@dataclass(frozen=True, init=False)
+@dataclass(frozen=True)
 class _Run:
     """Ancestors in a row that share one band, nearest first; ``rest`` continues upwards.
 
@@ -805,7 +801,7 @@ def _zone(up: Band, down: Band, start: float, hi: float, margin: float,
 
     i = _grid(down, up, start, hi)
     # just above the limit, so that a step there gives the zone's vertical left side at Is
-    i = sorted_unique(np.concatenate([i, [start * (1 + 1e-9)]]))
+    i = np.unique(np.concatenate([i, [start * (1 + 1e-9)]]))
     i = i[(i >= start) & (i <= hi)]
     t_down = _downstream_edge(down, up, i, margin, interval_s)
     t_up = _upstream_edge(up, i)

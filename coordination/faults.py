@@ -60,7 +60,6 @@ from typing import Any
 import numpy as np
 
 from coordination import cables
-from coordination.frozen import quick_init
 from coordination.model import Cable, Study, Supply
 from coordination.text import table
 
@@ -362,8 +361,7 @@ def path_sums(own: np.ndarray, parent: np.ndarray) -> np.ndarray:
 
 
 # -- results -----------------------------------------------------------------------------------
-@quick_init
-@dataclass(frozen=True, init=False)
+@dataclass(frozen=True)
 class NodeFaults:
     """Fault levels of one circuit [A, ohm].
 

@@ -12,8 +12,6 @@ from functools import cached_property
 from types import MappingProxyType
 from typing import Any
 
-from coordination.frozen import quick_init
-
 SUPPLY_ID = "supply"
 
 
@@ -51,8 +49,7 @@ class Supply:
     # phase impedance (half the current) for minimum currents (see coordination.faults)
 
 
-@quick_init
-@dataclass(frozen=True, init=False)
+@dataclass(frozen=True)
 class Cable:
     """The cable a circuit feeds through (from its board to its far end)."""
 
@@ -69,8 +66,7 @@ class Cable:
     cpc_parallel: int | None = None  # protective conductors in parallel; None: same as parallel
 
 
-@quick_init
-@dataclass(frozen=True, init=False)
+@dataclass(frozen=True)
 class Circuit:
     """One circuit: its protective device at the board, and the cable it feeds.
 

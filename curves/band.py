@@ -52,50 +52,6 @@ def as_current(current_a: Any) -> np.ndarray:
     return np.asarray(current_a, dtype=np.float64)
 
 
-def sorted_unique(values: Any) -> np.ndarray:
-    """The distinct values of a float array, sorted, as ``np.unique`` gives them.
-
-    ``np.unique`` imports ``numpy.ma`` on its first call in numpy 2 (to ask whether the array
-    is masked), 10-20 ms of a command that otherwise never needs it; the grids of currents here
-    are plain float arrays.
-
-    Examples
-    --------
-    >>> print(sorted_unique([3.0, 1.0, 3.0, 2.0]))
-    [1. 2. 3.]
-    """
-    x = np.sort(np.asarray(values, dtype=np.float64).ravel())
-    if x.size < 2:
-        return x
-    keep = np.empty(x.size, dtype=bool)
-    keep[0] = True
-    np.not_equal(x[1:], x[:-1], out=keep[1:])
-    nan = np.isnan(x)
-    if nan.any():  # NaNs sort last and never equal each other: keep one, as np.unique does
-        keep &= ~nan
-        keep[int(np.argmax(nan))] = True
-    return x[keep]
-
-
-def equivalent_time(i2t_a2s: Any, current_a: Any) -> np.ndarray:
-    """Equivalent time of an energy, ``t = I2t / I^2`` [s].
-
-    Parameters
-    ----------
-    i2t_a2s : array_like
-        Joule integral [A^2 s].
-    current_a : array_like
-        Prospective current [A], positive.
-
-    Examples
-    --------
-    >>> print(float(equivalent_time(70_000.0, 10_000.0)))
-    0.0007
-    """
-    current_a = as_current(current_a)
-    return as_current(i2t_a2s) / (current_a * current_a)
-
-
 @dataclass(frozen=True, eq=False)
 class Band:
     """A protective device with its settings, as a band between two edges.

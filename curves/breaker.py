@@ -112,7 +112,9 @@ from typing import Any
 import numpy as np
 
 from curves.band import TIME_FLOOR_S, Band
-from curves.errors import InputError, positive_number
+from curves.errors import InputError
+from curves.laws import i2t_time, thermal_tau, thermal_time
+from curves.validate import in_series, known_basis, on_grid, positive_number, values_text
 
 #: Rated currents In of breakers and trip units [A], Renard R'10 series 16 .. 1600 A
 #: (IEC 60059 preferred ratings, from memory; common practice).
@@ -168,40 +170,6 @@ _T6_NOTE = f"nominal {TM_T6_NOMINAL_S:g} s at 6 Ir (modelling choice)"
 
 
 # -- pure models -------------------------------------------------------------------------------
-def thermal_time(x: np.ndarray, x0: float, tau_s: float) -> np.ndarray:
-    """Trip time of a thermal element started cold, ``tau * ln(x^2 / (x^2 - x0^2))`` [s].
-
-    Parameters
-    ----------
-    x : ndarray
-        Current as a multiple of the setting, ``I / Ir`` [-].
-    x0 : float
-        Pickup multiple: at or below it the element never trips [-].
-    tau_s : float
-        Thermal time constant [s].
-
-    Returns
-    -------
-    ndarray
-        Time [s]; ``inf`` where ``x <= x0``.
-
-    References
-    ----------
-    First-order heating of a bimetal from cold (common practice); pickup limits from
-    IEC 60947-2, Table 6.
-
-    Examples
-    --------
-    >>> print(round(float(thermal_time(np.array(6.0), 1.175, 255.7)), 2))
-    10.0
-    """
-    x = np.asarray(x, dtype=np.float64)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        ratio = (x0 / x) ** 2
-        t = -tau_s * np.log1p(-ratio)
-    return np.where(x > x0, t, np.inf)
-
-
 def nominal_tau_s(x0: float = TM_X0_NOMINAL, t6_s: float = TM_T6_NOMINAL_S) -> float:
     """The time constant [s] that puts the thermal law through ``t6_s`` at 6 Ir.
 
@@ -210,33 +178,7 @@ def nominal_tau_s(x0: float = TM_X0_NOMINAL, t6_s: float = TM_T6_NOMINAL_S) -> f
     >>> print(round(nominal_tau_s(), 1))
     255.7
     """
-    return t6_s / -math.log1p(-((x0 / 6.0) ** 2))
-
-
-def i2t_time(x: np.ndarray, t_ref_s: float, x_ref: float) -> np.ndarray:
-    """Time of an ``I^2 t = constant`` law through ``t_ref_s`` at ``x_ref`` [s].
-
-    Parameters
-    ----------
-    x : ndarray
-        Current as a multiple of the reference current [-], positive.
-    t_ref_s : float
-        Time at ``x_ref`` [s].
-    x_ref : float
-        Reference multiple (6 for an electronic long-time delay, 10 for a short-time ramp).
-
-    References
-    ----------
-    Electronic long-time delay stated at 6 Ir with I2t = constant (common practice).
-
-    Examples
-    --------
-    >>> print(float(i2t_time(np.array(3.0), 8.0, 6.0)))
-    32.0
-    """
-    x = np.asarray(x, dtype=np.float64)
-    with np.errstate(divide="ignore"):
-        return t_ref_s * (x_ref / x) ** 2
+    return thermal_tau(x0, 6.0, t6_s)
 
 
 def conventional_time_s(rating_a: float) -> float:
@@ -275,26 +217,6 @@ def tolerance(lo: float, hi: float, basis: str) -> tuple[float, float]:
 
 
 # -- input checks ------------------------------------------------------------------------------
-def _fmt(values: Sequence[float]) -> str:
-    return ", ".join(f"{v:g}" for v in values)
-
-
-def _on_grid(key: str, value: float, grid: Sequence[float], what: str) -> float:
-    for g in grid:
-        if math.isclose(value, g, rel_tol=1e-6, abs_tol=1e-9):
-            return float(g)
-    raise InputError(f"{key} = {value:g} is not a setting {what}; allowed: {_fmt(grid)}", key=key)
-
-
-def _rating(In_a: Any) -> float:
-    rating = positive_number("In_a", In_a)
-    for r in BREAKER_RATINGS_A:
-        if math.isclose(rating, r, rel_tol=1e-9):
-            return float(r)
-    raise InputError(f"rated current In = {rating:g} A is not in the breaker series; allowed: "
-                     f"{_fmt(BREAKER_RATINGS_A)} A", key="In_a")
-
-
 def _multiple(name: str, base_name: str, base_a: float, x_value: Any, a_value: Any,
               grid: Sequence[float], default_x: float | None) -> float | None:
     """A current setting given as ``<name>_x`` (multiple of base) or ``<name>_a`` [A].
@@ -304,14 +226,14 @@ def _multiple(name: str, base_name: str, base_a: float, x_value: Any, a_value: A
     x = None if x_value is None else positive_number(f"{name}_x", x_value)
     a = None if a_value is None else positive_number(f"{name}_a", a_value)
     if x is not None:
-        x = _on_grid(f"{name}_x", x, grid, f"(multiple of {base_name})")
+        x = on_grid(f"{name}_x", x, grid, f"(multiple of {base_name})")
     if a is not None:
         allowed = [g * base_a for g in grid]
         try:
-            from_a = _on_grid(f"{name}_a", a / base_a, grid, "")
+            from_a = on_grid(f"{name}_a", a / base_a, grid, "")
         except InputError:
             raise InputError(f"{name}_a = {a:g} A is not a setting with {base_name} = "
-                             f"{base_a:g} A; allowed: {_fmt(allowed)} A", key=f"{name}_a"
+                             f"{base_a:g} A; allowed: {values_text(allowed)} A", key=f"{name}_a"
                              ) from None
         if x is not None and not math.isclose(x, from_a, rel_tol=1e-6):
             raise InputError(f"{name}_a = {a:g} A and {name}_x = {x:g} disagree "
@@ -319,12 +241,6 @@ def _multiple(name: str, base_name: str, base_a: float, x_value: Any, a_value: A
                              key=f"{name}_a")
         x = from_a
     return default_x if x is None else x
-
-
-def _basis(basis: str) -> str:
-    if basis not in BASES:
-        raise InputError(f"unknown basis {basis!r}; allowed: {', '.join(BASES)}", key="basis")
-    return basis
 
 
 #: What a label calls each kind of adjustable breaker, after the releases IEC 60947-2 describes
@@ -427,11 +343,12 @@ def thermal_magnetic_band(
     >>> print(band.instantaneous_a)
     2000.0
     """
-    basis = _basis(basis)
-    rating = _rating(In_a)
+    basis = known_basis(basis, BASES)
+    rating = in_series(In_a, BREAKER_RATINGS_A, key="In_a", what="rated current",
+                       standard="breaker")
     if isinstance(Ii_x, str):
         raise InputError(f"Ii_x = {Ii_x!r} is not allowed (a magnetic release cannot be "
-                         f"switched off); allowed: {_fmt(II_X)} x In", key="Ii_x")
+                         f"switched off); allowed: {values_text(II_X)} x In", key="Ii_x")
     ir_x = _multiple("Ir", "In", rating, Ir_x, Ir_a, TM_IR_FRACTIONS, 1.0)
     ii_x = _multiple("Ii", "In", rating, Ii_x, Ii_a, II_X, 10.0)
     icu = None if icu_a is None else positive_number("icu_a", icu_a)
@@ -653,8 +570,9 @@ def electronic_band(
     >>> print(round(float(band.t_max(6 * 320)), 3))
     8.03
     """
-    basis = _basis(basis)
-    rating = _rating(In_a)
+    basis = known_basis(basis, BASES)
+    rating = in_series(In_a, BREAKER_RATINGS_A, key="In_a", what="rated current",
+                       standard="breaker")
     ir_x = _multiple("Ir", "In", rating, Ir_x, Ir_a, ELECTRONIC_IR_FRACTIONS, 1.0)
     ir = ir_x * rating
     notes: list[str] = []
@@ -662,7 +580,7 @@ def electronic_band(
         tr = 8.0
         notes.append("tr_s not given: 8 s at 6 Ir assumed")
     else:
-        tr = _on_grid("tr_s", positive_number("tr_s", tr_s), TR_S, "(time at 6 Ir, s)")
+        tr = on_grid("tr_s", positive_number("tr_s", tr_s), TR_S, "(time at 6 Ir, s)")
     if not isinstance(sd_i2t, bool | np.bool_):
         raise InputError(f"sd_i2t must be true or false, not {sd_i2t!r}", key="sd_i2t")
     isd_x = _multiple("Isd", "Ir", ir, Isd_x, Isd_a, ISD_X, None)
@@ -670,15 +588,15 @@ def electronic_band(
         if tsd_s is not None or sd_i2t:
             key = "tsd_s" if tsd_s is not None else "sd_i2t"
             raise InputError(f"{key} needs a short-time pickup; give Isd_x (allowed: "
-                             f"{_fmt(ISD_X)} x Ir)", key=key)
+                             f"{values_text(ISD_X)} x Ir)", key=key)
         tsd = None
     else:
         tsd = (0.1 if tsd_s is None
-               else _on_grid("tsd_s", positive_number("tsd_s", tsd_s), TSD_S, "(s)"))
+               else on_grid("tsd_s", positive_number("tsd_s", tsd_s), TSD_S, "(s)"))
     if isinstance(Ii_x, str):
         if Ii_x.strip().lower() != "off":
             raise InputError(f"Ii_x = {Ii_x!r} is not allowed; allowed: "
-                             f"{_fmt(ELECTRONIC_II_X)} x In, or \"off\"", key="Ii_x")
+                             f"{values_text(ELECTRONIC_II_X)} x In, or \"off\"", key="Ii_x")
         if Ii_a is not None:
             raise InputError("Ii_a given with Ii_x = \"off\"; give one of them", key="Ii_a")
         ii_x = None

@@ -6,10 +6,6 @@ allowed. The command line prints ``str(error)`` on one line and exits with code 
 
 from __future__ import annotations
 
-import math
-from numbers import Real
-from typing import Any
-
 
 class InputError(ValueError):
     """Bad input: an unknown device, a value out of range, a malformed study.
@@ -53,22 +49,3 @@ class InputError(ValueError):
             where.append(f"key '{self.key}'")
         text = " ".join(self.problem.split())  # always one line
         return f"{', '.join(where)}: {text}" if where else text
-
-
-def positive_number(key: str, value: Any, *, allow_zero: bool = False) -> float:
-    """A finite positive float from an input value, or InputError naming the key.
-
-    Booleans are refused although Python counts them as numbers; numpy scalars are accepted.
-
-    Examples
-    --------
-    >>> print(positive_number("In_a", 32))
-    32.0
-    """
-    if isinstance(value, bool) or not isinstance(value, Real):
-        raise InputError(f"{key} must be a number, not {value!r}", key=key)
-    number = float(value)
-    if not math.isfinite(number) or number < 0 or (number == 0 and not allow_zero):
-        raise InputError(f"{key} = {number:g} is not allowed; give a finite positive number",
-                         key=key)
-    return number

@@ -55,18 +55,18 @@ from itertools import pairwise
 import numpy as np
 
 from curves.band import Band, as_current
-from curves.mcb import (
-    check_basis,
-    check_positive,
-    check_rating,
-    read_data_table,
-)
+from curves.laws import equivalent_time, loglog_interpolate
+from curves.mcb import read_data_table
+from curves.validate import in_series, known_basis, positive_number
 
 #: Rated currents In [A] of gG fuse-links (IEC 60269-1 preferred values, common practice).
 GG_RATINGS_A = (
     2, 4, 6, 8, 10, 12, 16, 20, 25, 32, 40, 50, 63, 80, 100, 125,
     160, 200, 250, 315, 400, 500, 630, 800, 1000, 1250,
 )  # fmt: skip
+
+#: The bases a standard-built gG band can have.
+GG_BASES = ("typical", "envelope")
 
 #: The time at which IEC 60269-2 gives the I2t limits of gG fuse-links [s] (from memory).
 I2T_TIME_S = 0.01
@@ -248,9 +248,9 @@ def gg_envelope_lower(current_a: np.ndarray, env: GGEnvelope) -> np.ndarray:
     3600.0
     """
     i = np.asarray(current_a, dtype=np.float64)
+    t = loglog_interpolate(i, env.lower_ln_i, env.lower_ln_t)
     with np.errstate(divide="ignore", invalid="ignore"):
-        t = np.exp(np.interp(np.log(i), env.lower_ln_i, env.lower_ln_t))
-        t = np.where(i > env.i_pre_a, env.pre_min_a2s / (i * i), t)
+        t = np.where(i > env.i_pre_a, equivalent_time(env.pre_min_a2s, i), t)
     # exactly the conventional time at the first knot (no exp/log rounding there)
     t = np.where(i == env.non_fusing_a, env.conventional_time_s, t)
     return np.where(i < env.non_fusing_a, np.inf, t)
@@ -270,18 +270,17 @@ def gg_envelope_upper(current_a: np.ndarray, env: GGEnvelope) -> np.ndarray:
     5.0
     """
     i = np.asarray(current_a, dtype=np.float64)
+    t = loglog_interpolate(i, env.upper_ln_i, env.upper_ln_t)
     with np.errstate(divide="ignore", invalid="ignore"):
-        t = np.exp(np.interp(np.log(i), env.upper_ln_i, env.upper_ln_t))
-        t = np.where(i > env.i_op_a, env.op_max_a2s / (i * i), t)
+        t = np.where(i > env.i_op_a, equivalent_time(env.op_max_a2s, i), t)
     return np.where(i < env.fusing_a, np.inf, t)
 
 
 def _envelope_currents(env: GGEnvelope, t_s: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     """Currents [A] where the envelope's lower and upper edges reach times ``t_s`` in
     [I2T_TIME_S, conventional time]."""
-    ln_t = np.log(t_s)
-    i_lo = np.exp(np.interp(-ln_t, -env.lower_ln_t, env.lower_ln_i))
-    i_hi = np.exp(np.interp(-ln_t, -env.upper_ln_t, env.upper_ln_i))
+    i_lo = loglog_interpolate(t_s, env.lower_ln_t, env.lower_ln_i, descending=True)
+    i_hi = loglog_interpolate(t_s, env.upper_ln_t, env.upper_ln_i, descending=True)
     return i_lo, i_hi
 
 
@@ -334,8 +333,7 @@ def gg_nominal_time(current_a: np.ndarray, env: GGEnvelope, nom: GGNominal) -> n
     0.01
     """
     i = np.asarray(current_a, dtype=np.float64)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        t = np.exp(np.interp(np.log(i), nom.ln_i, nom.ln_t))
+    t = loglog_interpolate(i, nom.ln_i, nom.ln_t)
     t = np.where(i == nom.i_conv_a, env.conventional_time_s, t)
     t = np.where(i < nom.i_conv_a, np.inf, t)
     return np.where(i > nom.i_last_a, 0.0, t)
@@ -400,7 +398,8 @@ def gg_band(
     >>> print(round(float(band.t_min(290.0)), 6), band.pre_arcing_i2t_min_a2s)
     10.0 27000.0
     """
-    rating = check_rating(rating_a, GG_RATINGS_A, "IEC 60269 gG")
+    rating = in_series(rating_a, GG_RATINGS_A, key="In_a", what="rated current",
+                       standard="IEC 60269 gG")
     notes: list[str] = []
     if breaking_capacity_a is None:
         breaking = DEFAULT_BREAKING_CAPACITY_A
@@ -409,8 +408,8 @@ def gg_band(
             "industrial gG minimum, from memory)"
         )
     else:
-        breaking = check_positive(breaking_capacity_a, "breaking_capacity_a", "breaking capacity")
-    basis = check_basis(basis)
+        breaking = positive_number("breaking_capacity_a", breaking_capacity_a)
+    basis = known_basis(basis, GG_BASES)
 
     env = gg_envelope(rating)
     row = gg_table()[rating]
@@ -453,7 +452,7 @@ def gg_band(
         def upper(current_a: np.ndarray) -> np.ndarray:
             nominal = gg_nominal_time(current_a * widen, env, nom)
             with np.errstate(divide="ignore"):
-                energy = np.minimum(I2T_TIME_S, op / (current_a * current_a))
+                energy = np.minimum(I2T_TIME_S, equivalent_time(op, current_a))
             # from the nominal 0.01 s point: flat at 0.01 s, then the maximum operating I2t
             return np.maximum(nominal, energy)
 

@@ -52,16 +52,22 @@ from __future__ import annotations
 
 import csv
 import math
-import numbers
 from collections.abc import Callable
 from functools import lru_cache
-from itertools import pairwise
 from pathlib import Path
 
 import numpy as np
 
 from curves.band import TIME_FLOOR_S, Band, as_current
 from curves.errors import InputError
+from curves.laws import (
+    equivalent_time,
+    fit_thermal_law,
+    loglog_interpolate,
+    thermal_tau,
+    thermal_time,
+)
+from curves.validate import curve_points, in_series, known_basis
 
 DATA_DIR = Path(__file__).resolve().parent / "data"
 
@@ -184,93 +190,6 @@ def class_let_through_table(
     return None
 
 
-def thermal_time(x: np.ndarray, x0: float, tau_s: float) -> np.ndarray:
-    """Thermal law ``t = tau * ln(x^2 / (x^2 - x0^2))`` [s]; ``inf`` at and below ``x0``.
-
-    Parameters
-    ----------
-    x : ndarray
-        Current as a multiple of In [-].
-    x0 : float
-        Asymptote (pickup) as a multiple of In [-].
-    tau_s : float
-        Time constant [s].
-
-    References
-    ----------
-    Adiabatic-with-losses heating of a bimetal (first-order thermal model), the shape DESIGN.md
-    asks for; IEC 60898-1 sets only the points it must respect.
-
-    Examples
-    --------
-    >>> print(round(float(thermal_time(np.array(2.55), 1.13, 4.574)), 3))
-    1.0
-    """
-    x = np.asarray(x, dtype=np.float64)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        ratio = (x0 * x0) / (x * x)
-        t = -tau_s * np.log1p(-ratio)
-    return np.where(x > x0, t, np.inf)
-
-
-def thermal_tau(x0: float, x: float, t_s: float) -> float:
-    """Time constant [s] of the thermal law with asymptote ``x0`` through ``(x, t_s)``.
-
-    Examples
-    --------
-    >>> print(round(thermal_tau(1.13, 2.55, 1.0), 3))
-    4.574
-    """
-    return t_s / -math.log1p(-((x0 / x) ** 2))
-
-
-@lru_cache(maxsize=32)
-def fit_thermal_law(x1: float, t1_s: float, x2: float, t2_s: float) -> tuple[float, float]:
-    """The thermal law through two points ``(x1, t1)`` and ``(x2, t2)``, ``x1 < x2``, ``t1 > t2``.
-
-    Returns
-    -------
-    (x0, tau_s) : tuple of float
-        Asymptote [multiple of In] and time constant [s].
-
-    Notes
-    -----
-    Of all thermal laws with ``t(x1) <= t1`` and ``t(x2) <= t2`` this is the one with the
-    longest times everywhere between and beyond (the widest), which is why the envelope uses it.
-    With the IEC 60898-1 points (ratio 30..60) ``x0`` lands a hair below ``x1``: the upper edge
-    is nearly vertical at 1.45 In. The fit aims 1 ppm inside the first point.
-
-    References
-    ----------
-    IEC 60898-1 test points 1.45 In (conventional time) and 2.55 In (60 s or 120 s).
-
-    Examples
-    --------
-    >>> x0, tau = fit_thermal_law(1.45, 3600.0, 2.55, 60.0)
-    >>> print(round(float(thermal_time(np.array(1.45), x0, tau))))
-    3600
-    """
-    # Aim 1 ppm inside the first point so that rounding never puts t(x1) above t1.
-    ratio = t1_s / t2_s * (1.0 - 1e-6)
-    if not (x2 > x1 > 0 and ratio > (x2 / x1) ** 2):
-        raise ValueError("no thermal law through these points")
-
-    def excess(x0: float) -> float:
-        return math.log1p(-((x0 / x1) ** 2)) / math.log1p(-((x0 / x2) ** 2)) - ratio
-
-    lo, hi = 1e-9 * x1, x1 * (1 - 1e-15)
-    for _ in range(200):  # bisection: excess rises with x0 from below 0 to +inf
-        mid = 0.5 * (lo + hi)
-        if excess(mid) > 0:
-            hi = mid
-        else:
-            lo = mid
-        if hi - lo <= 1e-16 * x1:
-            break
-    # lo keeps t(x1) / t(x2) at or below the aim; tau from the second point keeps t(x2) = t2.
-    return lo, thermal_tau(lo, x2, t2_s)
-
-
 def loglog_let_through(
     points: tuple[tuple[float, float], ...], *, below: str = "hold"
 ) -> Callable[[np.ndarray], np.ndarray]:
@@ -311,10 +230,11 @@ def loglog_let_through(
 
     def let_through(current_a: np.ndarray) -> np.ndarray:
         i = as_current(current_a)
-        li = np.log(np.maximum(i, i_first))
-        y = np.interp(li, lx, ly)
-        y = np.where(li > last_x, last_y + 2.0 * (li - last_x), y)
-        i2t = np.exp(y)
+        clamped = np.maximum(i, i_first)
+        li = np.log(clamped)
+        # above the last point the equivalent time is held: log-log slope 2
+        i2t = np.where(li > last_x, np.exp(last_y + 2.0 * (li - last_x)),
+                       loglog_interpolate(clamped, lx, ly))
         if hold:
             return i2t
         return np.where(i < i_first, i2t_first * (i / i_first) ** TYPICAL_LET_THROUGH_EXPONENT,
@@ -326,34 +246,16 @@ def loglog_let_through(
 def let_through_points(value: object) -> tuple[tuple[float, float], ...]:
     """A maker's let-through as ``((prospective [A], I2t [A^2 s]), ...)``, or InputError.
 
-    The points must be pairs of finite positive numbers, at least two, with both the prospective
-    current and the let-through rising from one point to the next (a let-through never falls as
-    the prospective current rises).
+    The points must be pairs of finite positive numbers, at least two, with the prospective
+    current rising from one point to the next and the let-through never falling (a let-through
+    never falls as the prospective current rises): :func:`curves.validate.curve_points`.
 
     Examples
     --------
     >>> print(let_through_points([[3000, 20000], [10000, 120000]])[1])
     (10000.0, 120000.0)
     """
-    key = "let_through_a2s"
-    allowed = ("a list of [prospective current A, let-through I2t A2s] pairs, at least two, "
-               "both rising")
-    if isinstance(value, str | bytes) or not isinstance(value, list | tuple) or len(value) < 2:
-        raise InputError(f"{key} = {value!r} is not allowed; give {allowed}", key=key)
-    points = []
-    for point in value:
-        pair = point if isinstance(point, list | tuple) else ()
-        numbers_ = [_as_float(v) for v in pair]
-        if len(numbers_) != 2 or any(v is None or not math.isfinite(v) or v <= 0
-                                     for v in numbers_):
-            raise InputError(f"{key}: point {point!r} is not allowed; give {allowed}", key=key)
-        points.append((float(numbers_[0]), float(numbers_[1])))
-    for (i0, e0), (i1, e1) in pairwise(points):
-        if not (i1 > i0 and e1 >= e0):
-            raise InputError(f"{key}: points must rise in current and not fall in I2t "
-                             f"({i0:g} A, {e0:g} A2s then {i1:g} A, {e1:g} A2s); give {allowed}",
-                             key=key)
-    return tuple(points)
+    return curve_points("let_through_a2s", value, rising=True)
 
 
 def class_applies(curve_type: str, rating_a: float, energy_class: int) -> bool:
@@ -370,72 +272,6 @@ def class_applies(curve_type: str, rating_a: float, energy_class: int) -> bool:
 
 
 # -- validation ---------------------------------------------------------------------------------
-def _as_float(value: object) -> float | None:
-    """A real number as float (not bool, not text); None when it is none or does not fit."""
-    if not isinstance(value, numbers.Real) or isinstance(value, bool):
-        return None
-    try:
-        return float(value)
-    except (OverflowError, ValueError):
-        return None
-
-
-def check_basis(basis: object) -> str:
-    """The basis, or InputError (key ``basis``) naming the allowed ones.
-
-    Examples
-    --------
-    >>> print(len(check_basis("envelope")))
-    8
-    """
-    if basis not in MCB_BASES:
-        raise InputError(
-            f"basis {basis!r} is not known; allowed: {', '.join(MCB_BASES)}", key="basis"
-        )
-    return str(basis)
-
-
-def check_rating(rating_a: object, series: tuple[float, ...], standard: str) -> float:
-    """A rating [A] of a series, or InputError (key ``In_a``) listing the series.
-
-    Examples
-    --------
-    >>> print(check_rating(32, MCB_RATINGS_A, "IEC 60898-1"))
-    32.0
-    """
-    allowed = ", ".join(f"{r:g}" for r in series)
-    value = _as_float(rating_a)
-    if value is None or not math.isfinite(value):
-        raise InputError(
-            f"rated current {rating_a!r} is not a number; allowed ({standard}): {allowed} A",
-            key="In_a",
-        )
-    for r in series:
-        if abs(value - r) <= 1e-9 * r:
-            return float(r)
-    raise InputError(
-        f"rated current {value:g} A is not in the {standard} series; allowed: {allowed} A",
-        key="In_a",
-    )
-
-
-def check_positive(value: object, key: str, what: str) -> float:
-    """A finite positive number [A], or InputError with ``key``.
-
-    Examples
-    --------
-    >>> print(check_positive(6000, "icn_a", "rated short-circuit capacity Icn"))
-    6000.0
-    """
-    number = _as_float(value)
-    if number is None or not math.isfinite(number) or number <= 0:
-        raise InputError(
-            f"{what} {value!r} is not allowed; it must be a finite number of amperes above 0",
-            key=key,
-        )
-    return number
-
-
 def check_icn(icn_a: object) -> float:
     """A rated short-circuit capacity Icn [A] from the IEC 60898-1 standard values.
 
@@ -452,8 +288,8 @@ def check_icn(icn_a: object) -> float:
     Raises
     ------
     InputError
-        Not a finite positive number, or not a standard value (key ``icn_a``); the message
-        lists the allowed values.
+        Not a finite number, or not a standard value (key ``icn_a``); the message lists the
+        allowed values.
 
     References
     ----------
@@ -464,16 +300,8 @@ def check_icn(icn_a: object) -> float:
     >>> print(check_icn(10000))
     10000.0
     """
-    what = "rated short-circuit capacity Icn"
-    icn = check_positive(icn_a, "icn_a", what)
-    for value in MCB_ICN_A:
-        if abs(icn - value) <= 1e-9 * value:
-            return value
-    allowed = ", ".join(f"{v:g}" for v in MCB_ICN_A)
-    raise InputError(
-        f"{what} {icn:g} A is not a standard value of IEC 60898-1; allowed: {allowed} A",
-        key="icn_a",
-    )
+    return in_series(icn_a, MCB_ICN_A, key="icn_a",
+                     what="rated short-circuit capacity Icn", standard="IEC 60898-1")
 
 
 # -- the band ------------------------------------------------------------------------------------
@@ -542,7 +370,8 @@ def mcb_band(
             key="type",
         )
     typ = curve_type.strip().upper()
-    rating = check_rating(rating_a, MCB_RATINGS_A, "IEC 60898-1")
+    rating = in_series(rating_a, MCB_RATINGS_A, key="In_a", what="rated current",
+                       standard="IEC 60898-1")
     given_points = None if let_through_a2s is None else let_through_points(let_through_a2s)
     if energy_class is None:
         cls = None if given_points is not None or not class_applies(typ, rating, 3) else 3
@@ -567,7 +396,7 @@ def mcb_band(
     else:
         cls = int(energy_class)
     icn = check_icn(icn_a)
-    basis = check_basis(basis)
+    basis = known_basis(basis, MCB_BASES)
 
     # IEC 60898-1 table of time-current operating characteristics
     non_trip_x = tripping_limit("non_tripping_current_x", rating)
@@ -667,7 +496,7 @@ def mcb_band(
             inst = inst_s
         else:
             with np.errstate(divide="ignore"):
-                inst = class_i2t(current_a) / (current_a * current_a)
+                inst = equivalent_time(class_i2t(current_a), current_a)
             # past the last table point the equivalent time is held: exactly, no rounding ripple
             inst = np.clip(np.where(current_a > i_last, t_last, inst), TIME_FLOOR_S, inst_s)
         return np.where(current_a < i_inst_up, t, inst)

@@ -36,7 +36,8 @@ from typing import Any
 import rtoml
 
 from curves.band import Band
-from curves.errors import InputError, positive_number
+from curves.errors import InputError
+from curves.validate import positive_number
 
 FAMILIES = ("mcb", "gG", "tm", "electronic", "datasheet")
 _ALIASES = {"mcb": "mcb", "gg": "gG", "tm": "tm", "breaker-tm": "tm",

@@ -31,17 +31,20 @@ The band's basis is always ``"datasheet"``.
 
 from __future__ import annotations
 
-from collections.abc import Sequence
 from typing import Any
 
 import numpy as np
 
+from curves import laws
 from curves.band import TIME_FLOOR_S, Band
-from curves.errors import InputError, positive_number
+from curves.errors import InputError
+from curves.validate import curve_points, positive_number
 
 
 def check_points(key: str, points: Any, *, rising: bool = False) -> tuple[np.ndarray, np.ndarray]:
     """Validate ``[[current_a, value], ...]`` points; return (currents, values) arrays.
+
+    The rules and messages are :func:`curves.validate.curve_points`'s.
 
     Parameters
     ----------
@@ -63,64 +66,24 @@ def check_points(key: str, points: Any, *, rising: bool = False) -> tuple[np.nda
     >>> print(float(t[1]))
     0.1
     """
-    shape = "a list of [current_a, value] pairs, e.g. [[100, 10.0], [1000, 0.1]]"
-    if isinstance(points, str | bytes) or not isinstance(points, Sequence):
-        raise InputError(f"{key} must be {shape}, not {points!r}", key=key)
-    if len(points) < 2:
-        raise InputError(f"{key} needs at least two points; give {shape}", key=key)
-    rows = []
-    for n, pair in enumerate(points):
-        where = f"{key}[{n}]"
-        if isinstance(pair, str | bytes) or not isinstance(pair, Sequence) or len(pair) != 2:
-            raise InputError(f"{where} must be a [current_a, value] pair, not {pair!r}", key=key)
-        rows.append((positive_number(where, pair[0]), positive_number(where, pair[1])))
-    arr = np.array(rows, dtype=np.float64)
-    current, value = arr[:, 0], arr[:, 1]
-    bad = np.flatnonzero(np.diff(current) <= 0)
-    if bad.size:
-        n = int(bad[0]) + 1
-        raise InputError(f"{key}[{n}]: currents must strictly increase ({current[n - 1]:g} A "
-                         f"then {current[n]:g} A)", key=key)
-    step = np.diff(value)
-    bad = np.flatnonzero(step < 0 if rising else step > 0)
-    if bad.size:
-        n = int(bad[0]) + 1
-        word = "never fall" if rising else "never rise"
-        raise InputError(f"{key}[{n}]: values must {word} with current ({value[n - 1]:g} then "
-                         f"{value[n]:g})", key=key)
-    return current, value
+    arr = np.array(curve_points(key, points, rising=rising), dtype=np.float64)
+    return arr[:, 0], arr[:, 1]
 
 
-def loglog_interpolate(current_a: np.ndarray, xp: np.ndarray, fp: np.ndarray, *,
-                       below: float, above: float | None = None) -> np.ndarray:
-    """Interpolate points in log-log space.
-
-    Parameters
-    ----------
-    current_a : ndarray
-        Currents to evaluate [A].
-    xp, fp : ndarray
-        Point currents [A] (strictly increasing) and values (positive).
-    below : float
-        Value below ``xp[0]`` (``inf`` for an edge that never operates there).
-    above : float, optional
-        Value above ``xp[-1]``; None holds the last value.
-
-    References
-    ----------
-    Straight lines between points on log-log axes: the way time-current curves are drawn and
-    read (common practice).
+def datasheet_curve(current_a: np.ndarray, xp: np.ndarray, fp: np.ndarray, *,
+                    below: float, above: float | None = None) -> np.ndarray:
+    """A datasheet curve at currents [A]: :func:`curves.laws.loglog_interpolate` between its
+    points ``xp`` [A] (strictly increasing) and values ``fp`` (positive), ``below`` under its
+    first current and ``above`` over its last (None holds the last value).
 
     Examples
     --------
     >>> xp, fp = np.array([100.0, 10000.0]), np.array([100.0, 0.01])
-    >>> print(round(float(loglog_interpolate(np.array(1000.0), xp, fp, below=np.inf)), 6))
-    1.0
+    >>> print(float(datasheet_curve(np.array([50.0, 20000.0]), xp, fp, below=np.inf)[0]))
+    inf
     """
     i = np.asarray(current_a, dtype=np.float64)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        log_i = np.log(i)
-    y = np.exp(np.interp(log_i, np.log(xp), np.log(fp)))
+    y = laws.loglog_interpolate(i, np.log(xp), np.log(fp))
     y = np.where(i < xp[0], below, y)
     if above is not None:
         y = np.where(i > xp[-1], above, y)
@@ -195,13 +158,13 @@ def datasheet_band(
     lt = None if let_through is None else check_points("let_through", let_through, rising=True)
 
     def lower_edge(i: np.ndarray) -> np.ndarray:
-        t = loglog_interpolate(i, lo_i, lo_t, below=np.inf)
+        t = datasheet_curve(i, lo_i, lo_t, below=np.inf)
         if inst is not None:
             t = np.where(i >= inst, np.minimum(t, TIME_FLOOR_S), t)
         return t
 
     def upper_edge(i: np.ndarray) -> np.ndarray:
-        return loglog_interpolate(i, hi_i, hi_t, below=np.inf)
+        return datasheet_curve(i, hi_i, hi_t, below=np.inf)
 
     probe = np.union1d(lo_i, hi_i)
     probe = probe[probe >= hi_i[0]]
@@ -218,7 +181,7 @@ def datasheet_band(
         lt_i, lt_e = lt
 
         def let_fn(i: np.ndarray) -> np.ndarray:
-            return loglog_interpolate(i, lt_i, lt_e, below=np.inf, above=np.inf)
+            return datasheet_curve(i, lt_i, lt_e, below=np.inf, above=np.inf)
 
     settings: dict[str, Any] = {"In_a": rating}
     if inst is not None:

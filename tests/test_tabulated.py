@@ -14,7 +14,7 @@ from hypothesis import strategies as st
 
 from curves.band import TIME_FLOOR_S
 from curves.errors import InputError
-from curves.tabulated import datasheet_band, loglog_interpolate
+from curves.tabulated import datasheet_band, datasheet_curve
 
 # Invented device: a 100 A breaker-like curve.
 LOWER = [[120.0, 3600.0], [300.0, 60.0], [1000.0, 0.5], [2000.0, 0.02]]
@@ -53,12 +53,12 @@ def test_loglog_midpoint(n):
     assert make().t_min(math.sqrt(i1 * i2)) == pytest.approx(math.sqrt(t1 * t2), rel=1e-9)
 
 
-def test_loglog_interpolate_power_law():
+def test_datasheet_curve_power_law():
     # A power law t = k / I^2 is a straight line in log-log: interpolation reproduces it.
     xp = np.array([10.0, 1000.0])
     fp = 5e4 / xp**2
     i = np.geomspace(10, 1000, 7)
-    assert loglog_interpolate(i, xp, fp, below=np.inf) == pytest.approx(5e4 / i**2, rel=1e-9)
+    assert datasheet_curve(i, xp, fp, below=np.inf) == pytest.approx(5e4 / i**2, rel=1e-9)
 
 
 def test_never_below_first_point_and_hold_after_last():
