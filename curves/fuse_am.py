@@ -47,7 +47,8 @@ from curves.fuse import (
     gg_nominal,
     gg_nominal_time,
 )
-from curves.mcb import check_basis, check_positive, check_rating, read_data_table
+from curves.mcb import read_data_table
+from curves.validate import in_series, known_basis, positive_number
 
 #: Rated currents In [A] of aM fuse-links: the preferred series of IEC 60269-1 shared with gG
 #: fuse-links (common practice).
@@ -178,7 +179,8 @@ def am_band(rating_a: float, *, basis: str = "typical",
     >>> print(round(float(band.t_min(400.0)), 6), round(float(band.t_max(630.0)), 6))
     60.0 60.0
     """
-    rating = check_rating(rating_a, AM_RATINGS_A, "IEC 60269 aM")
+    rating = in_series(rating_a, AM_RATINGS_A, key="In_a", what="rated current",
+                       standard="IEC 60269 aM")
     notes = [
         "aM: short-circuit protection only, no overload protection; an overload device must "
         "clear every current below the fuse's breaking range (IEC 60269-1 category a)",
@@ -189,8 +191,8 @@ def am_band(rating_a: float, *, basis: str = "typical",
         breaking = DEFAULT_BREAKING_CAPACITY_A
         notes.append(f"breaking capacity not given: {breaking / 1000:g} kA assumed (from memory)")
     else:
-        breaking = check_positive(breaking_capacity_a, "breaking_capacity_a", "breaking capacity")
-    basis = check_basis(basis)
+        breaking = positive_number("breaking_capacity_a", breaking_capacity_a)
+    basis = known_basis(basis, ("typical", "envelope"))
     env = am_envelope(rating)
     op = env.op_max_a2s
 

@@ -59,8 +59,9 @@ from typing import Any
 
 import numpy as np
 
-from curves.band import TIME_FLOOR_S, as_current, sorted_unique
-from curves.errors import InputError, positive_number
+from curves.band import TIME_FLOOR_S, as_current
+from curves.errors import InputError
+from curves.validate import positive_number
 
 #: Rated residual operating currents IΔn [mA]: 6..500 mA the IEC 61008-1 / 61009-1 preferred
 #: values (from memory); 1..30 A the settings of residual-current relays (IEC 60947-2 Annex M,
@@ -403,7 +404,7 @@ def rcd_band(idn_ma: float, selective: bool = False, waveform: str = "A",
         notes.append(f"waveform {s.waveform}: times for sinusoidal residual current; pulsating "
                      "or smooth d.c. residual current is tested at other multiples (not modelled)")
     multiples = {NON_OPERATING_X, *TIME_POINTS_X, fast_x}
-    breakpoints = tuple(float(v) for v in sorted_unique([m * idn for m in multiples]))
+    breakpoints = tuple(float(v) for v in np.unique([m * idn for m in multiples]))
     label = f"RCD {idn * 1000:g} mA type {s.waveform}" + (
         " S" if s.selective else (f" delay {s.delay_s:g} s" if s.delay_s > 0 else ""))
     return ResidualBand(

@@ -34,7 +34,7 @@ side for a cold start, where a motor is rarely overloaded).
 
 ``typical``
     A nominal thermal law ``t = tau * ln(x^2 / (x^2 - x0^2))`` (the first-order law of
-    :func:`curves.mcb.thermal_time`) with ``x0 = 1.125`` (midway between 1.05 and 1.2) and
+    :func:`curves.laws.thermal_time`) with ``x0 = 1.125`` (midway between 1.05 and 1.2) and
     ``tau`` such that the nominal curve passes through the log-middle of the Tp window at 7.2 Ir,
     shortened where needed so that the upper edge meets the class time at 1.5 Ir (class 10A
     and 10); widened by +/-5 % in current (:data:`TYPICAL_TOLERANCE`); clipped into the envelope,
@@ -54,8 +54,9 @@ from dataclasses import dataclass
 import numpy as np
 
 from curves.band import TIME_FLOOR_S, Band
-from curves.errors import InputError, positive_number
-from curves.mcb import check_basis, thermal_tau, thermal_time
+from curves.errors import InputError
+from curves.laws import thermal_tau, thermal_time
+from curves.validate import known_basis, positive_number
 
 
 @dataclass(frozen=True)
@@ -211,7 +212,7 @@ def relay_band(trip_class_name: str | int, Ir_a: float, *, basis: str = "typical
     """
     cls = trip_class(trip_class_name)
     ir = positive_number("Ir_a", Ir_a)
-    basis = check_basis(basis)
+    basis = known_basis(basis, ("typical", "envelope"))
     inv = 1.0 / ir
     notes = [
         "overload only: a short-circuit device must take the faults (IEC 60947-4-1)",
