@@ -53,7 +53,7 @@ from typing import Any
 import numpy as np
 
 from coordination.devices import device_band
-from coordination.engine import ADJUSTABLE_FAMILIES, EQUAL_RTOL
+from coordination.criterion import ADJUSTABLE_FAMILIES, EQUAL_RTOL
 from coordination.model import SUPPLY_ID, Study
 from curves.band import ENERGY_REGION_S, TIME_CEILING_S, TIME_FLOOR_S, Band, sorted_unique
 from curves.errors import InputError
