@@ -420,7 +420,7 @@ def test_learned_fault_energy_screen_is_never_stricter():
     valid = np.argwhere(grid.valid())
     slowest = choose.exact_failure(problem, grid.candidate(valid[-1]))  # longest delays, Ii off
     assert slowest is not None and slowest.stage == "fault-energy"
-    assert problem.energy_limits
+    assert problem.state.energy_limits
     after = choose.screen_grid(problem, grid)
     assert not (after & ~before).any()
     removed = np.argwhere(before & ~after)

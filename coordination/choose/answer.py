@@ -204,7 +204,7 @@ def choose(study: Study, circuit_id: str, *, family: str | None = None,
     if winner is None or band is None:
         reason, suggestions, insufficient = why_nothing_fits(problem, failures, groups, current)
         return Choice(circuit_id, False, None, None, MappingProxyType({}), None, reason,
-                      problem.family, None, suggestions, problem.searched, previous,
+                      problem.family, None, suggestions, problem.state.searched, previous,
                       insufficient=insufficient)
     if binding is None:
         reason = f"{band.name} is the smallest {FAMILY_NOUNS[problem.family]} candidate and " \
@@ -216,7 +216,8 @@ def choose(study: Study, circuit_id: str, *, family: str | None = None,
     return Choice(circuit_id, True, winner.spec, float(band.rating_a),
                   MappingProxyType(dict(band.settings)),
                   binding.text if binding is not None else None, reason, problem.family,
-                  band.name, (), problem.searched, previous, MappingProxyType(per_setting))
+                  band.name, (), problem.state.searched, previous,
+                  MappingProxyType(per_setting))
 
 
 def choose_board(study: Study, board_id: str, *, family: str | None = None) -> tuple[Choice, ...]:

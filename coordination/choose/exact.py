@@ -14,6 +14,7 @@ from typing import Any
 
 import numpy as np
 
+from coordination import criterion
 from coordination.choose.candidates import Candidate
 from coordination.choose.problem import STAGES, Failure, Pair, Problem, substitute
 from coordination.choose.screening import TESTABLE_S
@@ -51,12 +52,8 @@ def cheap_failure(problem: Problem, cand: Candidate, band: Band) -> Failure | No
 
 
 def pair_ok(sel: Any, required_a: float) -> bool:
-    """The engine's own rule (``engine.analyse``): total, or a limit reaching the requirement."""
-    from coordination.engine import EQUAL_RTOL
-
-    if sel.verdict == "total":
-        return True
-    return sel.limit_a is not None and float(sel.limit_a) >= required_a * (1 - EQUAL_RTOL)
+    """The engine's own rule (:func:`coordination.criterion.requirement_met`)."""
+    return criterion.requirement_met(sel.verdict, sel.limit_a, required_a)
 
 
 def limit_text(sel: Any) -> str:
@@ -83,7 +80,7 @@ def exact_failure(problem: Problem, cand: Candidate) -> Failure | None:
 def _exact_failure(problem: Problem, cand: Candidate) -> Failure | None:
     from coordination import checks
 
-    problem.searched += 1
+    problem.state.searched += 1
     band = device_band(cand.spec, problem.basis)
     cheap = cheap_failure(problem, cand, band)
     if cheap is not None:
@@ -137,8 +134,8 @@ def _learn_energy_limits(problem: Problem, details: Mapping[str, Any]) -> None:
             continue
         if current > 0 and t <= ADIABATIC_LIMIT_S and need > have:
             limit = (current, (k * have) ** 2)
-            if limit not in problem.energy_limits:
-                problem.energy_limits.append(limit)
+            if limit not in problem.state.energy_limits:
+                problem.state.energy_limits.append(limit)
 
 
 def pair_below(band: Band, p: Pair, same: bool) -> Any:

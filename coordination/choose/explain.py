@@ -39,6 +39,7 @@ from coordination.choose.problem import (
     Failure,
     Pair,
     Problem,
+    SearchState,
     build_problem,
     rebuilt,
     substitute,
@@ -163,11 +164,12 @@ def _search_variant(problem: Problem, variant: Problem, groups: list[Any]) -> tu
         Candidate | None, Band | None, list[tuple[Candidate, Failure]]]:
     """The search of a remedy: the same search on a changed problem, with fewer exact
     confirmations per settings grid and fewer grids explained."""
-    variant.searched = 0
-    variant.max_confirm = min(variant.max_confirm, REMEDY_CONFIRM)
-    variant.explain_budget = min(variant.explain_budget, REMEDY_EXPLAINED_GRIDS)
-    winner, band, _, failures = search_groups(variant, groups)
-    problem.searched += variant.searched
+    state = variant.state
+    run = SearchState(energy_limits=state.energy_limits,  # the circuit's: shared
+                      explain_budget=min(state.explain_budget, REMEDY_EXPLAINED_GRIDS),
+                      max_confirm=min(state.max_confirm, REMEDY_CONFIRM))
+    winner, band, _, failures = search_groups(dataclasses.replace(variant, state=run), groups)
+    problem.state.searched += run.searched
     return winner, band, failures
 
 
@@ -243,7 +245,7 @@ def _remedies_below(problem: Problem, groups: list[Any],
     """Remedies for selectivity with the devices below: a tested limit, a partial requirement,
     a downstream device with a lower let-through; each checked by the search."""
     tried = _groups_where(problem, groups, {None})
-    variant = dataclasses.replace(problem, below=[], need=np.full_like(problem.need, -np.inf))
+    variant = dataclasses.replace(problem, below=(), need=np.full_like(problem.need, -np.inf))
     winner, band, failures = _search_variant(problem, variant, tried)
     if winner is None or band is None:
         return [(False, "a tested limit or a partial requirement below alone would not be "
@@ -399,7 +401,6 @@ def _remedy_let_through(problem: Problem, groups: list[Any], band: Band,
 def _remedy_family(problem: Problem, family: str, current: Band) -> tuple[bool, str]:
     """Another family, searched as a whole."""
     variant, _ = rebuilt(problem, problem.study, family)
-    variant.explain_budget = REMEDY_EXPLAINED_GRIDS
     stated = problem.study.by_id[problem.circuit_id].breaking_capacity_a is not None
     groups = candidate_groups(family, current, 0.0 if stated else variant.ik_break_a)
     winner, band, failures = _search_variant(problem, variant, groups)
@@ -414,7 +415,7 @@ def _remedies_above(problem: Problem, groups: list[Any]) -> list[tuple[bool, str
     """Remedies for selectivity with the devices above: a tested limit or a partial requirement
     on this circuit, a larger device above; each checked by the search."""
     tried = _groups_where(problem, groups, {None})
-    variant = dataclasses.replace(problem, above=[], above_tmin=problem.above_tmin[:0],
+    variant = dataclasses.replace(problem, above=(), above_tmin=problem.above_tmin[:0],
                                   above_adjustable=problem.above_adjustable[:0])
     aside = _search_variant(problem, variant, tried)
     return [_remedy_tested_above(problem, tried), _remedy_partial_above(problem, aside),

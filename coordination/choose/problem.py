@@ -18,6 +18,7 @@ import numpy as np
 
 from coordination.choose.candidates import FAMILIES, family_of, normalise_family
 from coordination.choose.screening import ADJUSTABLE, TESTABLE_S, clamped_lower, need_of, short_of
+from coordination.criterion import breaking_duty
 from coordination.model import Study
 from curves.band import Band, sorted_unique
 from curves.errors import InputError
@@ -70,7 +71,24 @@ class Pair:
 
 
 @dataclass
+class SearchState:
+    """What one search over a :class:`Problem` has spent and learnt (the problem itself is
+    frozen). A remedy's search runs on a state of its own that shares ``energy_limits``."""
+
+    searched: int = 0  # candidates ruled in or out
+    # fault-energy cases a candidate failed: (current [A], largest I2t the conductor takes
+    # [A2s]); they belong to the circuit, so the screen applies them to every later setting
+    energy_limits: list[tuple[float, float]] = field(default_factory=list)
+    explain_budget: int = 1 << 30  # settings grids whose failure is explained when none passes
+    max_confirm: int = MAX_CONFIRM  # screened settings of one grid confirmed exactly at most
+
+
+@dataclass(frozen=True)
 class Problem:
+    """One circuit's choice: the study, its fault levels, the circuit, the pairs below and above
+    it, the fault it must break, and the screen's needs on one current grid. A remedy's search
+    runs on a copy (``dataclasses.replace``) with requirements relaxed or pairs set aside."""
+
     study: Study
     levels: Any
     circuit_id: str
@@ -79,37 +97,37 @@ class Problem:
     ib_a: float | None
     iz_a: float | None
     ik_board_a: float
-    ik_break_a: float  # the fault the device must break (as coordination.checks takes it) [A]
-    below: list[Pair]
-    above: list[Pair]
+    ik_break_a: float  # the fault the device must break (criterion.breaking_duty) [A]
+    below: tuple[Pair, ...]
+    above: tuple[Pair, ...]
     grid: np.ndarray
     need: np.ndarray  # (2, n_grid): the devices below need t_min_U >= this (non-adj, adjustable)
     above_tmin: np.ndarray  # (n_above, n_grid): the devices above, lower edges clamped
     above_adjustable: np.ndarray  # (n_above,) bool
-    below_names: dict[str, str] = field(default_factory=dict)
-    searched: int = 0
+    below_names: Mapping[str, str] = field(default_factory=dict)
     skip_above: frozenset[str] = frozenset()
     relaxed: frozenset[str] = frozenset()  # requirements set aside to test a remedy (STAGES)
-    # fault-energy cases a candidate failed: (current [A], largest I2t the conductor takes
-    # [A2s]); they belong to the circuit, so the screen applies them to every later setting
-    energy_limits: list[tuple[float, float]] = field(default_factory=list)
-    explain_budget: int = 1 << 30  # settings grids whose failure is explained when none passes
     testable_below: bool = False  # pairs below that only a test could decide count as met
     testable_above: bool = False  # pairs above that only a test could decide count as met
-    max_confirm: int = MAX_CONFIRM  # screened settings of one grid confirmed exactly at most
     # the need of the devices below only where a tested limit could not help (see TESTABLE_S)
     need_untestable: np.ndarray | None = None
+    state: SearchState = field(default_factory=SearchState, compare=False)
 
 
 def _pair_settings(study: Study, downstream_id: str) -> tuple[float, float, float | None]:
-    c = study.by_id[downstream_id]
-    margin = c.margin if c.margin is not None else study.margin
-    interval = c.interval_s if c.interval_s is not None else study.interval_s
-    return float(margin), float(interval), c.selective_to_a
+    margin, interval, selective_to = study.pair_settings(downstream_id)
+    return float(margin), float(interval), selective_to
 
 
 def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None,
-             skip_above: frozenset[str] = frozenset()) -> tuple[Problem, Band]:
+                  skip_above: frozenset[str] = frozenset()) -> tuple[Problem, Band]:
+    """One circuit's problem, and its present device's band.
+
+    Raises
+    ------
+    InputError
+        No such circuit, an unknown family, or a datasheet device with no family given.
+    """
     if circuit_id not in study.by_id:
         raise InputError(f"no circuit {circuit_id!r} in the study; circuits: "
                          f"{', '.join(list(study.by_id)[:12])}", key="--circuit")
@@ -129,12 +147,7 @@ def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None
     nodes = levels.by_circuit
     node = nodes[circuit_id]
     ik_board = float(node.ik_max_a)
-    ik1 = getattr(node, "ik1_max_a", None)
-    if circuit.phases == 3:
-        ik_break = max(float(x) for x in (getattr(node, "ik3_max_a", None), ik1, ik_board)
-                       if x is not None)
-    else:
-        ik_break = float(ik1) if ik1 is not None else ik_board
+    ik_break = breaking_duty(node, circuit.phases)[0]
     iz = circuit.cable.iz_a if circuit.cable is not None else None
 
     below: list[Pair] = []
@@ -193,11 +206,11 @@ def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None
                                                                                 grid.size)
     above_adj = np.array([p.band.family in ADJUSTABLE for p in above], dtype=bool)
     problem = Problem(study, levels, circuit_id, fam, basis,
-                       float(circuit.load_a) if circuit.load_a is not None else None,
-                       float(iz) if iz is not None else None, ik_board, ik_break, below,
-                       above, grid, need, above_tmin, above_adj,
-                       below_names={p.other: p.band.name for p in below},
-                       skip_above=skip_above, need_untestable=need_untestable)
+                      float(circuit.load_a) if circuit.load_a is not None else None,
+                      float(iz) if iz is not None else None, ik_board, ik_break, tuple(below),
+                      tuple(above), grid, need, above_tmin, above_adj,
+                      below_names={p.other: p.band.name for p in below},
+                      skip_above=skip_above, need_untestable=need_untestable)
     return problem, current
 
 
@@ -241,4 +254,4 @@ def rebuilt(problem: Problem, study: Study, family: str | None = None) -> tuple[
         Problem, Band]:
     """The same circuit's problem in a changed study (or for another family)."""
     return build_problem(study, problem.levels, problem.circuit_id,
-                    family if family is not None else problem.family, problem.skip_above)
+                         family if family is not None else problem.family, problem.skip_above)

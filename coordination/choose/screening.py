@@ -17,9 +17,10 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
+from coordination import criterion
 from coordination.choose.candidates import SettingsGrid, combine_parts, electronic_parts
 from coordination.criterion import ADJUSTABLE_FAMILIES, EQUAL_RTOL
-from curves.band import ENERGY_REGION_S, TIME_CEILING_S, TIME_FLOOR_S, Band
+from curves.band import TIME_CEILING_S, Band
 
 if TYPE_CHECKING:
     from coordination.choose.problem import Problem
@@ -34,6 +35,10 @@ ADJUSTABLE = tuple(sorted(ADJUSTABLE_FAMILIES))
 #: regions of IEC 60947-2), and a tested limit from the makers (IEC 60947-2 Annex A) can show
 #: more; a crossing at longer times is one of time-current curves, which a test does not move.
 TESTABLE_S = 0.1
+
+#: The screen's tolerance on the criterion (looser than the engine's ``EQUAL_RTOL``: the screen
+#: must never refuse by rounding what the engine accepts).
+SCREEN_RTOL = 1e-6
 
 
 def short_of(current_a: np.ndarray, required_a: float) -> np.ndarray:
@@ -50,19 +55,22 @@ def short_of(current_a: np.ndarray, required_a: float) -> np.ndarray:
 
 
 def clamped_lower(band: Band, grid: np.ndarray) -> np.ndarray:
-    """Lower edge on the grid, with no withstand above an instantaneous release."""
-    t = np.asarray(band.t_min(grid), dtype=float)
-    if band.instantaneous_a is not None:
-        t = np.where(grid >= band.instantaneous_a, TIME_FLOOR_S, t)
+    """A device's time as the device above (:func:`coordination.criterion.upstream_time`) on
+    the grid, at most ``TIME_CEILING_S`` [s]."""
+    t = criterion.upstream_time(band.t_min(grid), grid, band.instantaneous_a)
     return np.minimum(t, TIME_CEILING_S)
 
 
 def need_of(t_max: np.ndarray, margin: float, interval_s: float, adjustable: bool) -> np.ndarray:
-    """What the device above must stay at or above [s], given a device's upper edge."""
-    need = t_max * margin
-    if adjustable and interval_s > 0:
-        need = np.where(need >= ENERGY_REGION_S, need + interval_s, need)
-    return np.minimum(need, TIME_CEILING_S)
+    """What the device above must stay at or above (:func:`coordination.criterion.
+    downstream_time`), at most ``TIME_CEILING_S`` [s]."""
+    return np.minimum(criterion.downstream_time(t_max, margin, interval_s, adjustable),
+                      TIME_CEILING_S)
+
+
+def meets(need_s: np.ndarray, t_up_s: np.ndarray) -> np.ndarray:
+    """Where the screen finds a pair selective: the criterion with :data:`SCREEN_RTOL`."""
+    return ~criterion.not_selective(need_s, t_up_s, SCREEN_RTOL)
 
 
 def distinct_above(problem: Problem) -> list[int]:
@@ -104,11 +112,11 @@ def screen(problem: Problem, bands: Sequence[Band]) -> np.ndarray:
         t_min = np.array([np.asarray(b.t_min(grid), dtype=float) for b in bands])
         inst = np.array([b.instantaneous_a if b.instantaneous_a is not None else np.inf
                          for b in bands])
-        t_min = np.where(grid[None, :] >= inst[:, None], TIME_FLOOR_S, t_min)
-        t_min = np.minimum(t_min, TIME_CEILING_S)
+        t_min = np.minimum(criterion.upstream_time(t_min, grid[None, :], inst[:, None]),
+                           TIME_CEILING_S)
         adjustable = np.array([b.family in ADJUSTABLE for b in bands])
         need = problem.need[adjustable.astype(int)]  # (n, n_grid)
-        ok = np.all(t_min >= need * (1 - 1e-6), axis=1)
+        ok = np.all(meets(need, t_min), axis=1)
         out[~ok] = 1
     if problem.above:
         t_max = np.array([np.asarray(b.t_max(grid), dtype=float) for b in bands])
@@ -118,7 +126,7 @@ def screen(problem: Problem, bands: Sequence[Band]) -> np.ndarray:
         for k in distinct_above(problem):  # tested pairs by their curves, as above
             p = problem.above[k]
             need = need_of(t_max, p.margin, p.interval_s, bool(problem.above_adjustable[k]))
-            bad = inside & (problem.above_tmin[k][None, :] < need * (1 - 1e-6))
+            bad = inside & ~meets(need, problem.above_tmin[k][None, :])
             if problem.testable_above:  # a remedy's search: only where a test cannot decide
                 bad &= t_max > TESTABLE_S * (1 + 1e-9)
             fail = np.any(bad, axis=1) & (out == 0)
@@ -157,8 +165,8 @@ def screen_grid(problem: Problem, grid: SettingsGrid) -> np.ndarray:
     if problem.below or problem.above:
         lower, upper = electronic_parts(currents, grid, problem.basis)
         if problem.below:
-            need = problem.need[1] * (1 - 1e-6)
-            lt, st, inst = (np.all(np.minimum(part, TIME_CEILING_S) >= need, axis=-1)
+            need = problem.need[1]
+            lt, st, inst = (np.all(meets(need, np.minimum(part, TIME_CEILING_S)), axis=-1)
                             for part in lower)
             ok &= st[:, :, None, None] & lt[:, None, :, None] & inst[None, None, None, :]
         if problem.above and ok.any():  # (a grid ruled out below needs no test above)
@@ -166,24 +174,26 @@ def screen_grid(problem: Problem, grid: SettingsGrid) -> np.ndarray:
             for k in distinct_above(problem):  # tested pairs by their curves, as above
                 p = problem.above[k]
                 inside = (currents >= pickup) & short_of(currents, p.required_a)
-                t_up = problem.above_tmin[k][inside] * (1 + 1e-6)
+                t_up = problem.above_tmin[k][inside]
                 adjustable = bool(problem.above_adjustable[k])
-                lt, st, inst = ((need_of(part[..., inside], p.margin, p.interval_s, adjustable)
-                                 <= t_up) | (problem.testable_above and part[..., inside]
-                                             <= TESTABLE_S * (1 + 1e-9)) for part in upper)
+                lt, st, inst = (meets(need_of(part[..., inside], p.margin, p.interval_s,
+                                              adjustable), t_up)
+                                | (problem.testable_above and part[..., inside]
+                                   <= TESTABLE_S * (1 + 1e-9)) for part in upper)
                 # only the currents where some setting may fail matter (exactly the same test)
                 keep = ~(lt.all(axis=(0, 1)) | st.all(axis=(0, 1)) | inst.all(axis=0))
                 lt, st, inst = lt[..., keep], st[..., keep], inst[..., keep]
                 clear = (st[:, :, None, None, :] | lt[:, None, :, None, :]
                          | inst[None, None, None, :, :])
                 ok &= clear.all(axis=-1)
-    if problem.energy_limits and "fault-energy" not in problem.relaxed:
+    limits = problem.state.energy_limits
+    if limits and "fault-energy" not in problem.relaxed:
         # fault-energy cases already failed by a candidate: I2t = I^2 t_max (no current
         # limiting in these units) against k2 S2, only where t_max is within the adiabatic time
         from coordination.checks import ADIABATIC_LIMIT_S
 
-        at = np.array([c for c, _ in problem.energy_limits])
-        most = np.array([e for _, e in problem.energy_limits])
+        at = np.array([c for c, _ in limits])
+        most = np.array([e for _, e in limits])
         t_env = combine_parts(electronic_parts(at, grid, "envelope")[1])
         bad = (t_env <= ADIABATIC_LIMIT_S) & (at * at * t_env > most * (1 + 1e-6))
         ok &= ~bad.any(axis=-1)

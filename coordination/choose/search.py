@@ -79,7 +79,7 @@ def search_groups(problem: Problem, groups: list[Any]) -> tuple[
         bands = [device_band(c.spec, problem.basis) for c in group]
         cheap = [cheap_failure(problem, c, band) for c, band in zip(group, bands, strict=True)]
         keep = [i for i, f in enumerate(cheap) if f is None]
-        problem.searched += len(group)
+        problem.state.searched += len(group)
         if not keep:
             failures.append((group[0], cheap[0]))  # type: ignore[arg-type]
             previous = (group[-1], cheap[-1])
@@ -116,7 +116,7 @@ def search_grid(problem: Problem, grid: SettingsGrid,
         return None, None, previous
     first, last = grid.candidate(valid[0]), grid.candidate(valid[-1])
     cheap = cheap_failure(problem, first, device_band(first.spec, problem.basis))
-    problem.searched += len(valid)
+    problem.state.searched += len(valid)
     if cheap is not None:
         if not failures or failures[-1][1].stage != cheap.stage:
             failures.append((first, cheap))
@@ -139,20 +139,20 @@ def search_grid(problem: Problem, grid: SettingsGrid,
             binding = None
         return cand, device_band(cand.spec, problem.basis), binding
 
-    for n, index in enumerate(passing[:problem.max_confirm]):
+    for n, index in enumerate(passing[:problem.state.max_confirm]):
         failure = exact_failure(problem, grid.candidate(index))
         if failure is None:
             return won(index)
         if n < MAX_RECORDED:
             failures.append((grid.candidate(index), failure))
-    if problem.explain_budget <= 0:  # enough grids explained (a remedy's search)
+    if problem.state.explain_budget <= 0:  # enough grids explained (a remedy's search)
         return None, None, (last, None)
-    problem.explain_budget -= 1
+    problem.state.explain_budget -= 1
     for k, cand in ((0, first), (len(valid) - 1, last)):  # why the least and the most capable
         failure = exact_failure(problem, cand)  # settings fail
         if failure is None:  # a setting passes that the confirmations did not reach (the
             # cap) or the screen refused (it must not; see short_of): the lowest such wins
-            unconfirmed = list(passing[problem.max_confirm:])
+            unconfirmed = list(passing[problem.state.max_confirm:])
             refused = [v for v in valid[:k] if not mask[tuple(v)]]
             ordered = sorted([*unconfirmed, *refused, valid[k]],
                              key=lambda v: tuple(int(x) for x in v))[:MAX_CONFIRM]
