@@ -37,9 +37,10 @@ from typing import Any
 import numpy as np
 
 from curves.band import ENERGY_REGION_S, TIME_FLOOR_S
+from curves.families import REGISTRY
 
 #: Band families over which a coordination time interval applies (adjustable breakers).
-ADJUSTABLE_FAMILIES = frozenset({"breaker-tm", "breaker-electronic"})
+ADJUSTABLE_FAMILIES = frozenset(f.band_family for f in REGISTRY if f.adjustable)
 #: Edges within this relative difference are equal, and at equal values the pair is selective.
 EQUAL_RTOL = 1e-9
 

@@ -17,13 +17,13 @@ from typing import Any
 
 import numpy as np
 
+from curves import families
 from curves.band import Band
 from curves.errors import InputError
-from curves.mcb import DEFAULT_ICN_A
 
-#: Families the chooser can search, as given to ``--family``: MCB types, gG fuse-links,
-#: thermal-magnetic and electronic breakers.
-FAMILIES = ("B", "C", "D", "gG", "tm", "electronic")
+#: Families the chooser can search, as given to ``--family``: the chooser groups of the device
+#: family registry (MCB types, gG fuse-links, thermal-magnetic and electronic breakers).
+FAMILIES = tuple(g.code for g in families.GROUPS)
 
 
 #: Rated short-circuit capacities Icn of MCBs [A] (IEC 60898-1 preferred values; from memory).
@@ -37,23 +37,15 @@ BREAKER_ICU_SERIES_A = (10000.0, 16000.0, 25000.0, 36000.0, 50000.0, 70000.0, 10
                         150000.0)
 
 
-#: Default Icn of an MCB written in shorthand ("B32") [A] (the curves.mcb default).
-MCB_DEFAULT_ICN_A = float(DEFAULT_ICN_A)
-
-
-#: Default energy-limiting class of an MCB written in shorthand.
-MCB_DEFAULT_CLASS = 3
-
+#: Default Icn of an MCB written in shorthand ("B32") [A] (the registry's).
+MCB_DEFAULT_ICN_A = float(families.BY_NAME["mcb"].defaults["icn_a"])
+#: Default energy-limiting class of an MCB written in shorthand (the registry's).
+MCB_DEFAULT_CLASS = int(families.BY_NAME["mcb"].defaults["energy_class"])
 
 #: What a family is called in a remedy.
-FAMILY_WORDS = {"B": "a type B MCB", "C": "a type C MCB", "D": "a type D MCB",
-                "gG": "a gG fuse-link", "tm": "a thermal-magnetic breaker",
-                "electronic": "an electronic breaker with a short-time delay"}
-
-
+FAMILY_WORDS = MappingProxyType({g.code: g.words for g in families.GROUPS})
 #: What a candidate of a family is called in the chooser's answers (``--family`` takes the codes).
-FAMILY_NOUNS = {"B": "type B MCB", "C": "type C MCB", "D": "type D MCB", "gG": "gG fuse-link",
-                "tm": "thermal-magnetic breaker", "electronic": "electronic breaker"}
+FAMILY_NOUNS = MappingProxyType({g.code: g.noun for g in families.GROUPS})
 
 
 @dataclass(frozen=True)
@@ -129,15 +121,7 @@ def family_of(band: Band) -> str | None:
     >>> print(family_of(band_from_spec("C16")), family_of(band_from_spec("gG100")))
     C gG
     """
-    if band.family == "mcb":
-        return str(band.settings.get("type", "")).upper() or None
-    if band.family == "gG":
-        return "gG"
-    if band.family == "breaker-tm":
-        return "tm"
-    if band.family == "breaker-electronic":
-        return "electronic"
-    return None
+    return families.group_of(band)
 
 
 def normalise_family(family: str) -> str:
@@ -149,8 +133,6 @@ def normalise_family(family: str) -> str:
 
 
 def _mcb_series(curve: str, current: Band, ik_board_a: float) -> list[Candidate]:
-    from curves.mcb import MCB_RATINGS_A
-
     same = current.family == "mcb"
     energy_class = int(current.settings.get("energy_class", MCB_DEFAULT_CLASS)) if same \
         else MCB_DEFAULT_CLASS
@@ -158,18 +140,19 @@ def _mcb_series(curve: str, current: Band, ik_board_a: float) -> list[Candidate]
     if icn < ik_board_a:  # raise Icn to the fault level where a standard value reaches it
         icn = next((x for x in MCB_ICN_SERIES_A if x >= ik_board_a), icn)
     return [Candidate(mcb_spec(curve, r, energy_class, icn), float(r), float(r), (float(r),))
-            for r in MCB_RATINGS_A]
+            for r in families.BY_NAME["mcb"].ratings()]
 
 
 def _gg_series(current: Band) -> list[Candidate]:
-    from curves.fuse import GG_RATINGS_A, gg_band
+    from curves.fuse import gg_band
 
     given = None  # a breaking capacity the study states for its fuse-link is kept
     if current.family == "gG" and current.breaking_capacity_a is not None:
         default = gg_band(current.rating_a).breaking_capacity_a
         if default is None or not math.isclose(current.breaking_capacity_a, default):
             given = float(current.breaking_capacity_a)
-    return [Candidate(_gg_spec(r, given), float(r), float(r), (float(r),)) for r in GG_RATINGS_A]
+    return [Candidate(_gg_spec(r, given), float(r), float(r), (float(r),))
+            for r in families.BY_NAME["gG"].ratings()]
 
 
 def _capacity(series: Sequence[float], given: float | None, fault_a: float) -> float:
@@ -335,7 +318,7 @@ def _breaker_groups(family: str, current: Band, fault_a: float) -> list[Any]:
     are lists of candidates (Ii ascending); electronic groups are :class:`SettingsGrid`."""
     from curves import breaker
 
-    same = current.family == ("breaker-tm" if family == "tm" else "breaker-electronic")
+    same = current.family == families.BY_GROUP[family].band_family
     given = current.settings.get("icu_a") if same else None
     extra: dict[str, Any] = {}
     if fault_a > 0 or given is not None:  # 0: the study gives the circuit's breaking capacity
@@ -344,7 +327,7 @@ def _breaker_groups(family: str, current: Band, fault_a: float) -> list[Any]:
         extra["icu_a"] = num(icu)
     groups: list[Any] = []
     if family == "tm":
-        for rating in breaker.BREAKER_RATINGS_A:
+        for rating in families.BY_GROUP[family].ratings():
             for fr in sorted(breaker.TM_IR_FRACTIONS):
                 ir = float(rating) * float(fr)
                 groups.append([Candidate({"family": "tm", "In_a": num(rating), "Ir_x": num(fr),
@@ -353,7 +336,7 @@ def _breaker_groups(family: str, current: Band, fault_a: float) -> list[Any]:
                                for x in sorted(breaker.II_X)])
         return groups
     ii = np.array([*sorted(float(x) for x in breaker.ELECTRONIC_II_X), np.nan])
-    for rating in breaker.BREAKER_RATINGS_A:
+    for rating in families.BY_GROUP[family].ratings():
         for fr in sorted(breaker.ELECTRONIC_IR_FRACTIONS):
             groups.append(SettingsGrid(float(rating), float(fr),
                                        np.array(sorted(breaker.ISD_X), dtype=float),
@@ -395,8 +378,9 @@ def candidate_groups(family: str, current: Band, fault_a: float) -> list[Any]:
     >>> print(len(groups), groups[0][0].spec, groups[-1][0].rating_a)
     26 gG2 1250.0
     """
-    if family in ("B", "C", "D"):
+    kind = families.BY_GROUP[family].name
+    if kind == "mcb":
         return [[c] for c in _mcb_series(family, current, fault_a)]
-    if family == "gG":
+    if kind == "gG":
         return [[c] for c in _gg_series(current)]
     return _breaker_groups(family, current, fault_a)
