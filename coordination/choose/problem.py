@@ -114,11 +114,6 @@ class Problem:
     state: SearchState = field(default_factory=SearchState, compare=False)
 
 
-def _pair_settings(study: Study, downstream_id: str) -> tuple[float, float, float | None]:
-    margin, interval, selective_to = study.pair_settings(downstream_id)
-    return float(margin), float(interval), selective_to
-
-
 def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None,
                   skip_above: frozenset[str] = frozenset()) -> tuple[Problem, Band]:
     """One circuit's problem, and its present device's band.
@@ -154,7 +149,8 @@ def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None
     seen: dict[tuple, int] = {}
     for d in study.descendants(circuit_id):
         band = band_for(study, d)
-        margin, interval, selective_to = _pair_settings(study, d)
+        margin, interval, selective_to = study.pair_settings(d)
+        margin, interval = float(margin), float(interval)
         hi = float(nodes[d].ik_max_a)
         window = (float(band.pickup_min_a), hi)
         required = min(hi, float(selective_to)) if selective_to is not None else hi
@@ -169,7 +165,8 @@ def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None
                            float(tested) if tested is not None else None))
 
     above: list[Pair] = []
-    margin_c, interval_c, selective_to_c = _pair_settings(study, circuit_id)
+    margin_c, interval_c, selective_to_c = study.pair_settings(circuit_id)
+    margin_c, interval_c = float(margin_c), float(interval_c)
     required_c = min(ik_board, float(selective_to_c)) if selective_to_c is not None else ik_board
     for a in study.ancestors(circuit_id):
         if a in skip_above:  # to be chosen afterwards, seeing this choice
