@@ -92,7 +92,7 @@ def installations() -> dict[str, str]:
 def bench(name: str, text: str) -> None:
     s = study.loads(text)
     levels = faults.compute(s)
-    problem, current = choose._problem(s, levels, "incomer", "electronic")
+    problem, current = choose.problem.build_problem(s, levels, "incomer", "electronic")
     grids = [g for g in choose.candidate_groups("electronic", current, problem.ik_break_a)
              if isinstance(g, choose.SettingsGrid)]
     settings_count = sum(int(g.valid().sum()) for g in grids)

@@ -39,6 +39,7 @@ from typing import Any
 
 import numpy as np
 
+from coordination.criterion import breaking_duty
 from coordination.model import Study
 from curves.band import Band
 from curves.errors import InputError
@@ -893,18 +894,10 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
     one_line, one_cpc = float(cable.csa_mm2), sizes.cpc_each_mm2
 
     # (what, conductor, current [A], installed S [mm2], k)
-    ik_max = _get(node, "ik_max_a")
-    ik3 = _get(node, "ik3_max_a", ik_max)
-    ik1 = _get(node, "ik1_max_a", ik_max)
-    if circuit.phases == 3:
-        i_max = max(x for x in (ik3, ik1, ik_max) if x is not None)
-    else:
-        i_max = ik1 if ik1 is not None else ik_max
+    i_max = breaking_duty(node, circuit.phases)[0]  # the largest, earth faults included
     ief_max = _get(node, "ief_max_board_a")
     if ief_max is not None and not (ief_max > 0 and math.isfinite(ief_max)):
         ief_max = None
-    if ief_max is not None and (i_max is None or ief_max > i_max):
-        i_max = ief_max  # an earth fault flows in a line conductor too
     cases = [("maximum fault at the board", "line", i_max, one_line, k_line)]
     ik_min = _get(node, "ik_min_end_a")
     if ik_min is not None and ik_min > 0:
@@ -993,18 +986,7 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
 
 def _breaking_capacity(study: Study, cid: str, band: Band, node: Any) -> CheckResult:
     circuit = study.by_id[cid]
-    ik_max = _get(node, "ik_max_a")
-    ik3 = _get(node, "ik3_max_a", ik_max)
-    ik1 = _get(node, "ik1_max_a", ik_max)
-    if circuit.phases == 3:
-        options = [(x, n) for x, n in ((ik3, "three-phase"), (ik1, "line-neutral"))
-                   if x is not None]
-        fault, kind = max(options) if options else (ik_max or 0.0, "maximum")
-    else:
-        fault, kind = (ik1, "line-neutral") if ik1 is not None else (ik_max or 0.0, "maximum")
-    ief_max = _get(node, "ief_max_board_a")
-    if ief_max is not None and math.isfinite(ief_max) and ief_max > fault:
-        fault, kind = ief_max, "earth"  # the device must break the largest fault it can see
+    fault, kind = breaking_duty(node, circuit.phases)
     device = circuit.device
     stated = isinstance(device, Mapping) and any(k in device for k in CAPACITY_KEYS)
     if circuit.breaking_capacity_a is not None:

@@ -53,6 +53,8 @@ from typing import TYPE_CHECKING, Any, Literal
 
 import numpy as np
 
+from coordination import criterion
+from coordination.criterion import ADJUSTABLE_FAMILIES, EQUAL_RTOL
 from coordination.devices import band_for, compact_labels
 from coordination.model import Study
 from coordination.roots import find_crossing
@@ -65,15 +67,11 @@ if TYPE_CHECKING:  # shapely is imported lazily, only by overlap()
 Verdict = Literal["total", "partial", "none"]
 DecidedBy = Literal["time-current", "energy", "tested"]
 
-#: Families over which a coordination time interval applies (adjustable breakers).
-ADJUSTABLE_FAMILIES = frozenset({"breaker-tm", "breaker-electronic"})
 #: The crossing search always runs up to at least this current [A] (1 MA), whatever the window,
 #: so that its result can be shared by every window with the same low end.
 SEARCH_TOP_A = 1.0e6
 #: Samples of the coarse grid over the search range (log-spaced).
 GRID_POINTS = 1024
-#: Edges within this relative difference are equal, and at equal values the pair is selective.
-EQUAL_RTOL = 1e-9
 #: Relative offset either side of a known breakpoint added to the grid.
 _BREAK_EPS = 1e-7
 #: Tolerance factors around an upstream current setting whose neighbourhood is sampled densely.
@@ -245,24 +243,13 @@ def _check_positive(value: float, key: str, *, allow_zero: bool = False) -> floa
 def _downstream_edge(down: Band, up: Band, i: np.ndarray, margin: float,
                      interval_s: float) -> np.ndarray:
     """D's upper edge with the margin, plus the interval over an adjustable breaker [s]."""
-    t = down.t_max(i) * margin
-    if interval_s > 0.0 and up.family in ADJUSTABLE_FAMILIES:
-        t = np.where(t >= ENERGY_REGION_S, t + interval_s, t)
-    return t
+    return criterion.downstream_time(down.t_max(i), margin, interval_s,
+                                     up.family in ADJUSTABLE_FAMILIES)
 
 
 def _upstream_edge(up: Band, i: np.ndarray) -> np.ndarray:
     """U's lower edge [s]; at or above an instantaneous release, no energy is withstood."""
-    t = up.t_min(i)
-    if up.instantaneous_a is not None:
-        t = np.where(i >= up.instantaneous_a, np.minimum(t, TIME_FLOOR_S), t)
-    return t
-
-
-def _not_selective(t_down: np.ndarray, t_up: np.ndarray) -> np.ndarray:
-    """True where D's time is above U's (equal within ``EQUAL_RTOL``, or both never: selective)."""
-    with np.errstate(invalid="ignore"):
-        return t_down > t_up * (1.0 + EQUAL_RTOL)
+    return criterion.upstream_time(up.t_min(i), i, up.instantaneous_a)
 
 
 def _grid(down: Band, up: Band, lo: float, top: float) -> np.ndarray:
@@ -303,7 +290,8 @@ def _first_crossing(up: Band, down: Band, lo: float, top: float, margin: float,
                     interval_s: float) -> float | None:
     """Lowest current in [lo, top] where the pair is not selective [A], or None (cached)."""
     i = _grid(down, up, lo, top)
-    bad = _not_selective(_downstream_edge(down, up, i, margin, interval_s), _upstream_edge(up, i))
+    bad = criterion.not_selective(_downstream_edge(down, up, i, margin, interval_s),
+                                  _upstream_edge(up, i))
     if not bad.any():
         return None
     k = int(np.argmax(bad))
@@ -578,14 +566,6 @@ def _window_top(levels: Any, circuit_id: str) -> float:
     return float(node.ik_max_a)
 
 
-def _margin_interval(study: Study, circuit_id: str) -> tuple[float, float]:
-    """Margin [-] and interval [s] of the pairs where ``circuit_id`` is downstream."""
-    circuit = study.by_id[circuit_id]
-    margin = circuit.margin if circuit.margin is not None else study.margin
-    interval = circuit.interval_s if circuit.interval_s is not None else study.interval_s
-    return margin, interval
-
-
 def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
     """Selectivity of every circuit under every circuit above it.
 
@@ -667,7 +647,7 @@ def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
         if head is None:
             continue
         down = bands[circuit.id]
-        margin, interval = _margin_interval(study, circuit.id)
+        margin, interval, _ = study.pair_settings(circuit.id)
         try:  # compare()'s checks, once for all the pairs of this circuit
             lo = _check_positive(down.pickup_min_a, "window_a")
             hi = _check_positive(_window_top(levels, circuit.id), "window_a")
@@ -683,8 +663,7 @@ def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
         for up, first, last, count in _segments(study, head, tested_limits):
             tested = tested_limits.get(first) if count == 1 else None
             sel = _compare(up, down, lo, hi, margin, interval, tested)
-            ok = sel.verdict == "total" or (
-                sel.limit_a is not None and sel.limit_a >= need * (1 - EQUAL_RTOL))
+            ok = criterion.requirement_met(sel.verdict, sel.limit_a, need)
             all_ok = all_ok and ok
             mine.append(PairResult(
                 upstream=first, downstream=circuit.id, verdict=sel.verdict, limit_a=sel.limit_a,
@@ -774,7 +753,7 @@ def overlap(study: Study, levels: Any, pair: PairResult | tuple[str, str],
         up = band_for(study, up_id, basis)
         down = band_for(study, down_id, basis)
         hi = _window_top(levels, down_id)
-        margin, interval = _margin_interval(study, down_id)
+        margin, interval, _ = study.pair_settings(down_id)
         tested = study.by_id[down_id].tested_limits_a.get(up_id)
     lo = float(down.pickup_min_a)
     if not hi > lo:
@@ -805,7 +784,7 @@ def _zone(up: Band, down: Band, start: float, hi: float, margin: float,
     i = i[(i >= start) & (i <= hi)]
     t_down = _downstream_edge(down, up, i, margin, interval_s)
     t_up = _upstream_edge(up, i)
-    bad = _not_selective(t_down, t_up)
+    bad = criterion.not_selective(t_down, t_up)
     lower = np.clip(t_up, TIME_FLOOR_S, TIME_CEILING_S)
     upper = np.where(bad, np.maximum(np.clip(t_down, TIME_FLOOR_S, TIME_CEILING_S), lower),
                      lower)

@@ -168,3 +168,21 @@ class Study:
         """The band basis used for this circuit's device in selectivity."""
         c = self.by_id[circuit_id]
         return c.basis or self.basis
+
+    def pair_settings(self, downstream_id: str) -> tuple[Any, Any, Any]:
+        """Margin [-], interval [s] and required limit [A] of the pairs where a circuit is
+        downstream: the circuit's own, else the study's (``selective_to_a`` None: total).
+
+        As written in the study (the engine checks them, with the circuit named).
+
+        Examples
+        --------
+        >>> c = Circuit("lights", "supply", "B10", margin=1.2)
+        >>> s = Study("demo", Supply(pfc_a=6000.0), (c,), interval_s=0.1)
+        >>> print(s.pair_settings("lights"))
+        (1.2, 0.1, None)
+        """
+        c = self.by_id[downstream_id]
+        margin = c.margin if c.margin is not None else self.margin
+        interval = c.interval_s if c.interval_s is not None else self.interval_s
+        return margin, interval, c.selective_to_a

@@ -28,37 +28,22 @@ multiples; ``Ii_x = "off"`` switches an electronic unit's instantaneous release 
 from __future__ import annotations
 
 import difflib
-import math
 import re
-from collections.abc import Callable, Mapping
+from collections.abc import Mapping
+from types import MappingProxyType
 from typing import Any
 
 import rtoml
 
 from curves.band import Band
 from curves.errors import InputError
+from curves.families import BY_ALIAS, MCB_DEFAULT_ICN_A, REGISTRY, Family, gg, mcb
 from curves.validate import positive_number
 
-FAMILIES = ("mcb", "gG", "tm", "electronic", "datasheet")
-_ALIASES = {"mcb": "mcb", "gg": "gG", "tm": "tm", "breaker-tm": "tm",
-            "electronic": "electronic", "breaker-electronic": "electronic",
-            "datasheet": "datasheet"}
-
+#: Family names an inline table may give (see :mod:`curves.families`).
+FAMILIES = tuple(f.name for f in REGISTRY)
 #: Keys each inline family takes (besides ``family``).
-FAMILY_KEYS: dict[str, tuple[str, ...]] = {
-    "mcb": ("type", "In_a", "energy_class", "icn_a", "let_through_a2s"),
-    "gG": ("In_a", "breaking_capacity_a"),
-    "tm": ("In_a", "Ir_a", "Ir_x", "Ii_a", "Ii_x", "icu_a"),
-    "electronic": ("In_a", "Ir_a", "Ir_x", "tr_s", "Isd_a", "Isd_x", "tsd_s", "sd_i2t", "Ii_a",
-                   "Ii_x", "icu_a"),
-    "datasheet": ("name", "In_a", "lower", "upper", "let_through", "instantaneous_a",
-                  "breaking_capacity_a", "pre_arcing_i2t_min_a2s"),
-}
-_REQUIRED = {"mcb": ("type", "In_a"), "gG": ("In_a",), "tm": ("In_a",),
-             "electronic": ("In_a",), "datasheet": ("In_a", "lower", "upper")}
-#: Keys whose values are not plain positive numbers (checked by the family's own function).
-_NOT_NUMBERS = {"type", "name", "lower", "upper", "let_through", "let_through_a2s", "sd_i2t",
-                "Ii_x"}
+FAMILY_KEYS: Mapping[str, tuple[str, ...]] = MappingProxyType({f.name: f.keys for f in REGISTRY})
 
 _SHORTHAND = re.compile(
     r"^(?P<kind>[bcd]|gg)\s*(?P<rating>\d+(?:\.\d+)?)"
@@ -149,40 +134,6 @@ def _standard_basis(basis: str, family: str) -> str:
     return basis
 
 
-def _in_series(rating: float, series: tuple[float, ...], what: str) -> float:
-    for r in series:
-        if math.isclose(rating, r, rel_tol=1e-9):
-            return float(r)
-    raise InputError(f"rating {rating:g} A is not in the {what} series; allowed: "
-                     f"{', '.join(f'{r:g}' for r in series)} A", key="In_a")
-
-
-def _mcb(curve_type: Any, rating: Any, basis: str, energy_class: Any = None,
-         icn_a: Any = 6000.0, let_through_a2s: Any = None) -> Band:
-    from curves.mcb import MCB_RATINGS_A, mcb_band
-
-    if not isinstance(curve_type, str) or curve_type.strip().upper() not in ("B", "C", "D"):
-        raise InputError(f"MCB type must be \"B\", \"C\" or \"D\", not {curve_type!r}",
-                         key="type")
-    rating_a = _in_series(positive_number("In_a", rating), MCB_RATINGS_A, "MCB")
-    if energy_class is not None and (isinstance(energy_class, bool)
-                                     or energy_class not in (1, 2, 3)):
-        raise InputError(f"energy_class must be 1, 2 or 3, not {energy_class!r}",
-                         key="energy_class")
-    return mcb_band(curve_type.strip().upper(), rating_a, basis=basis,
-                    energy_class=None if energy_class is None else int(energy_class),
-                    icn_a=positive_number("icn_a", icn_a), let_through_a2s=let_through_a2s)
-
-
-def _gg(rating: Any, basis: str, breaking_capacity_a: Any = None) -> Band:
-    from curves.fuse import GG_RATINGS_A, gg_band
-
-    rating_a = _in_series(positive_number("In_a", rating), GG_RATINGS_A, "gG fuse-link")
-    cap = None if breaking_capacity_a is None else positive_number("breaking_capacity_a",
-                                                             breaking_capacity_a)
-    return gg_band(rating_a, basis=basis, breaking_capacity_a=cap)
-
-
 def _from_shorthand(text: str, basis: str) -> Band:
     match = _SHORTHAND.match(text.strip())
     if not match:
@@ -192,11 +143,11 @@ def _from_shorthand(text: str, basis: str) -> Band:
     cap = None if match["cap"] is None else float(match["cap"]) * 1000.0
     basis = _standard_basis(basis, "gG" if kind == "GG" else "mcb")
     if kind == "GG":
-        return _gg(rating, basis, cap)
-    return _mcb(kind, rating, basis, None, 6000.0 if cap is None else cap)
+        return gg(rating, basis, cap)
+    return mcb(kind, rating, basis, None, MCB_DEFAULT_ICN_A if cap is None else cap)
 
 
-def _table_family(spec: Mapping[str, Any]) -> str:
+def _table_family(spec: Mapping[str, Any]) -> Family:
     if "family" not in spec:
         raise InputError(f"the device table has no 'family'; allowed: {', '.join(FAMILIES)}",
                          key="family")
@@ -204,7 +155,7 @@ def _table_family(spec: Mapping[str, Any]) -> str:
     if not isinstance(family, str):
         raise InputError(f"family must be a string, one of {', '.join(FAMILIES)}; not "
                          f"{family!r}", key="family")
-    found = _ALIASES.get(family.strip().lower())
+    found = BY_ALIAS.get(family.strip().lower())
     if found is None:
         raise InputError(f"unknown device family {family!r}{nearest(family, FAMILIES)}; "
                          f"allowed: {', '.join(FAMILIES)}", key="family")
@@ -212,8 +163,8 @@ def _table_family(spec: Mapping[str, Any]) -> str:
 
 
 def _from_table(spec: Mapping[str, Any], basis: str) -> Band:
-    family = _table_family(spec)
-    allowed = FAMILY_KEYS[family]
+    entry = _table_family(spec)
+    family, allowed = entry.name, entry.keys
     table = {}
     for key, value in spec.items():
         if key == "family":
@@ -223,27 +174,16 @@ def _from_table(spec: Mapping[str, Any], basis: str) -> Band:
             raise InputError(f"unknown key {key!r} for family {family!r}{hint}; allowed: "
                              f"family, {', '.join(allowed)}", key=str(key))
         table[key] = value
-    for key in _REQUIRED[family]:
+    for key in entry.required:
         if key not in table:
             raise InputError(f"family {family!r} needs {key}; keys: family, "
                              f"{', '.join(allowed)}", key=key)
     for key, value in table.items():
-        if key not in _NOT_NUMBERS:
+        if key not in entry.not_numbers:
             positive_number(key, value)
-    if family == "datasheet":
-        from curves.tabulated import datasheet_band
-
-        return datasheet_band(**table)
-    basis = _standard_basis(basis, family)
-    if family == "mcb":
-        return _mcb(table["type"], table["In_a"], basis, table.get("energy_class"),
-                    table.get("icn_a", 6000.0), table.get("let_through_a2s"))
-    if family == "gG":
-        return _gg(table["In_a"], basis, table.get("breaking_capacity_a"))
-    from curves.breaker import electronic_band, thermal_magnetic_band
-
-    build: Callable[..., Band] = thermal_magnetic_band if family == "tm" else electronic_band
-    return build(basis=basis, **table)
+    if entry.standard:
+        basis = _standard_basis(basis, family)
+    return entry.build(table, basis)
 
 
 def band_from_spec(spec: str | Mapping[str, Any], basis: str = "typical") -> Band:

@@ -262,7 +262,7 @@ cpc_mm2 = 16
 def test_screen_is_never_stricter_than_the_engine():
     s = study.loads(PLANT)
     levels = faults.compute(s)
-    problem, current = choose._problem(s, levels, "feeder", "electronic")
+    problem, current = choose.problem.build_problem(s, levels, "feeder", "electronic")
     assert problem.below and problem.above
     grids = [g for g in choose.candidate_groups("electronic", current, problem.ik_break_a)
              if 200 <= g.ir_a <= 450][:3]
@@ -343,7 +343,7 @@ def assert_screen_refuses_only_failures(problem, groups) -> int:
     accepted = 0
     for group in groups:
         bands = [device_band(c.spec, problem.basis) for c in group]
-        if choose._cheap_failure(problem, group[0], bands[0]) is not None:
+        if choose.exact.cheap_failure(problem, group[0], bands[0]) is not None:
             continue
         codes = choose.screen(problem, bands)
         for cand, code in zip(group, codes, strict=True):
@@ -376,7 +376,7 @@ def test_screen_accepts_a_requirement_equal_to_an_instantaneous_pickup(
                                                                                Ii_x=10)
     s = study.loads(edge_study(main, TM.format(In=250, Ir_x=0.8, Ii_x=10), load_a, 258.0,
                                feeder_selective_to_a, final_selective_to_a))
-    problem, current = choose._problem(s, faults.compute(s), "feeder", "tm")
+    problem, current = choose.problem.build_problem(s, faults.compute(s), "feeder", "tm")
     groups = choose.candidate_groups("tm", current, problem.ik_break_a)
     assert assert_screen_refuses_only_failures(problem, groups) > 0
     choice = choose.choose(s, "feeder", family="tm")
@@ -400,7 +400,7 @@ def test_a_setting_the_screen_wrongly_refuses_is_still_taken(monkeypatch):
     def refuse_all(problem, bands):
         return np.ones(len(bands), dtype=np.int8)
 
-    monkeypatch.setattr(choose, "screen", refuse_all)
+    monkeypatch.setattr(choose.search, "screen", refuse_all)
     choice = choose.choose(s, "feeder", family="tm")
     assert choice.found, choice.reason
     assert choice.name == expected.name
@@ -413,14 +413,14 @@ def test_learned_fault_energy_screen_is_never_stricter():
     text = PLANT.replace("csa_mm2 = 185\ncpc_mm2 = 95", "csa_mm2 = 185\ncpc_mm2 = 25")
     assert text != PLANT
     s = study.loads(text)
-    problem, current = choose._problem(s, faults.compute(s), "feeder", "electronic")
+    problem, current = choose.problem.build_problem(s, faults.compute(s), "feeder", "electronic")
     grid = next(g for g in choose.candidate_groups("electronic", current, problem.ik_break_a)
                 if g.ir_a >= 200)
     before = choose.screen_grid(problem, grid)
     valid = np.argwhere(grid.valid())
     slowest = choose.exact_failure(problem, grid.candidate(valid[-1]))  # longest delays, Ii off
     assert slowest is not None and slowest.stage == "fault-energy"
-    assert problem.energy_limits
+    assert problem.state.energy_limits
     after = choose.screen_grid(problem, grid)
     assert not (after & ~before).any()
     removed = np.argwhere(before & ~after)

@@ -583,14 +583,14 @@ E100 = ('{{family = "electronic", In_a = 100, Ir_x = 1, tr_s = 4, Isd_x = 1.5, t
 def test_instantaneous_release_named_only_when_it_sets_the_limit(tsd, ii, final, limit_a,
                                                                  instantaneous):
     s = study.loads(feeder_study(E100.format(tsd=tsd, ii=ii), final))
-    problem, current = choose._problem(s, faults.compute(s), "feeder", "electronic")
+    problem, current = choose.problem.build_problem(s, faults.compute(s), "feeder", "electronic")
     (pair,) = problem.below
-    sel = choose._pair_below(current, pair, False)
+    sel = choose.exact.pair_below(current, pair, False)
     # IEC 60947-2 and IEC 60898-1 as worked above
     assert sel.limit_a == pytest.approx(limit_a, rel=1e-6, abs=0)
-    failure = choose._selectivity_failure("selectivity-below", pair, sel, current)
+    failure = choose.exact.selectivity_failure("selectivity-below", pair, sel, current)
     assert failure.instantaneous is instantaneous
-    text = choose._run_text([dataclasses.replace(failure, device=current.name)])
+    text = choose.explain._run_text([dataclasses.replace(failure, device=current.name)])
     assert ("instantaneous release" in text) is instantaneous
 
 
@@ -601,12 +601,13 @@ def test_instantaneous_release_named_only_when_it_sets_the_limit(tsd, ii, final,
 # instantaneous release, which no device below could lift).
 def test_lower_let_through_considered_below_the_instantaneous_pickup():
     s = study.loads(feeder_study(E100.format(tsd=0.2, ii=10), "C20"))
-    problem, current = choose._problem(s, faults.compute(s), "feeder", "electronic")
+    problem, current = choose.problem.build_problem(s, faults.compute(s), "feeder", "electronic")
     (pair,) = problem.below
-    sel = choose._pair_below(current, pair, False)
+    sel = choose.exact.pair_below(current, pair, False)
     # IEC 60947-2 and IEC 60898-1 as worked above
     assert sel.limit_a == pytest.approx(142.5, rel=1e-6, abs=0)
-    assert not choose._selectivity_failure("selectivity-below", pair, sel, current).instantaneous
+    failure = choose.exact.selectivity_failure("selectivity-below", pair, sel, current)
+    assert not failure.instantaneous
     groups = choose.candidate_groups("electronic", current, problem.ik_break_a)
-    result = choose._remedy_let_through(problem, groups, current, [(pair, sel)])
+    result = choose.explain._remedy_let_through(problem, groups, current, [(pair, sel)])
     assert result is not None and "B20" in result[1] and "instead of C20" in result[1], result
