@@ -5,7 +5,7 @@ what is allowed; a key written in the wrong table is told the table it belongs i
 key gets the nearest valid one suggested. Circuits come back ordered parents first (an iterative
 depth-first walk from the supply, siblings in file order), so a 5,000-deep chain loads without
 recursion. The keys, their bounds and the checks across keys and circuits are in
-:mod:`coordination.validate`; this module reads the tables and builds the study.
+:mod:`coordination.study_rules`; this module reads the tables and builds the study.
 
 Keys (units in every name that carries a number)::
 
@@ -31,7 +31,7 @@ import rtoml
 
 from coordination import cables
 from coordination.model import SUPPLY_ID, Cable, Circuit, Study, Supply, Transformer
-from coordination.validate import (
+from coordination.study_rules import (
     BASES,
     CABLE_KEYS,
     CIRCUIT_KEYS,
@@ -61,7 +61,7 @@ from coordination.validate import (
 )
 from curves.errors import InputError
 
-#: The loader's functions, and the study file's keys and bounds (from coordination.validate).
+#: The loader's functions, and the study file's keys and bounds (from coordination.study_rules).
 __all__ = [
     "BASES",
     "CABLE_KEYS",
