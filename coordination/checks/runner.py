@@ -37,8 +37,8 @@ def check_device(study: Study, levels: Any, circuit_id: str,
     Returns
     -------
     tuple of CheckResult
-        In the order of :data:`CHECK_NAMES`; a check the study gives no data for (overload
-        without Ib and Iz, fault energy without a cable) is left out.
+        In the order of :data:`~coordination.checks.CHECK_NAMES`; a check the study gives no
+        data for (overload without Ib and Iz, fault energy without a cable) is left out.
 
     References
     ----------
@@ -104,7 +104,8 @@ def run(study: Study, levels: Any) -> tuple[CheckResult, ...]:
     Returns
     -------
     tuple of CheckResult
-        Circuit by circuit in study order, checks in the order of :data:`CHECK_NAMES`.
+        Circuit by circuit in study order, checks in the order of
+        :data:`~coordination.checks.CHECK_NAMES`.
 
     References
     ----------
