@@ -69,6 +69,8 @@ def mm2_text(s: float) -> str:
     return "-" if not math.isfinite(s) else f"{s:.3g} mm2"
 
 
+# -------------------------------------------------------------------------------------------
+# a device and its circuit's fault levels
 def _in_a(band: Band) -> float:
     """The device's current setting: Ir for adjustable breakers, else In [A]."""
     return float(band.settings.get("Ir_a", band.rating_a) or band.rating_a)

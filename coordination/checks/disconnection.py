@@ -229,7 +229,7 @@ def _rcd_needed(study: Study, cid: str, band: Band, node: Any, edges: _Edges) ->
 
 
 # -------------------------------------------------------------------------------------------
-# the four checks of one circuit
+# the check of one circuit
 def _disconnection(study: Study, cid: str, band: Band, node: Any, edges: _Edges) -> CheckResult:
     supply = study.supply
     kind = EARTHING_KIND.get(str(supply.earthing).upper(), "TN")
