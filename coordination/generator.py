@@ -486,3 +486,35 @@ def fault_decrement(source: StandbySource, kind: FaultKind, path_ohm: Any, *, u_
     voltage = driving_voltage_v(u_n0_v, c, kind)
     i_sub, i_trans, i_sust = stage_currents_a(stage_loops(z, kind), path_ohm, voltage)
     return Decrement(i_sub, i_trans, i_sust, source.td2_s, source.td1_s)
+
+
+def decrement_curve(decrement: Decrement, *, t_from_s: float = 1e-3, t_to_s: float = 1e4,
+                    points: int = 300, floor_a: float = 0.0) -> tuple[np.ndarray, np.ndarray]:
+    """The decrement as a curve on the time-current plane: currents [A] and times [s].
+
+    Parameters
+    ----------
+    decrement : Decrement
+        One fault's decaying current (scalar fields).
+    t_from_s, t_to_s : float
+        The times drawn, log-spaced [s].
+    points : int
+        Samples.
+    floor_a : float
+        The curve stops where the current falls below this [A] (the plot's left edge).
+
+    Returns
+    -------
+    current_a, time_s : numpy.ndarray
+        The curve ``(I(t), t)``, current falling as time grows.
+
+    Examples
+    --------
+    >>> i, t = decrement_curve(Decrement(6000.0, 3000.0, 0.0, 0.02, 0.3), floor_a=100.0)
+    >>> print(bool(i[0] > 5000 and i[-1] >= 100 and t[-1] < 2))
+    True
+    """
+    t = np.logspace(math.log10(t_from_s), math.log10(t_to_s), points)
+    i = decrement.current_a(t)
+    keep = i >= floor_a
+    return i[keep], t[keep]
