@@ -39,6 +39,7 @@ from typing import Any
 
 import numpy as np
 
+from coordination.faults import FaultLevels
 from coordination.frozen import quick_init
 from coordination.model import Study
 from curves.band import Band
@@ -1037,7 +1038,7 @@ def _breaking_capacity(study: Study, cid: str, band: Band, node: Any) -> CheckRe
 
 # -------------------------------------------------------------------------------------------
 # public entry points
-def check_device(study: Study, levels: Any, circuit_id: str,
+def check_device(study: Study, levels: FaultLevels, circuit_id: str,
                  band: Band) -> tuple[CheckResult, ...]:
     """The protection checks of one circuit with a given device.
 
@@ -1113,7 +1114,7 @@ def _check_device(study: Study, circuit_id: str, band: Band, node: Any,
     return tuple(r for r in results if r is not None)
 
 
-def run(study: Study, levels: Any) -> tuple[CheckResult, ...]:
+def run(study: Study, levels: FaultLevels) -> tuple[CheckResult, ...]:
     """Every protection check of every circuit, on the envelope basis.
 
     Parameters

@@ -54,6 +54,7 @@ from typing import TYPE_CHECKING, Any, Literal
 import numpy as np
 
 from coordination.devices import band_for, compact_labels
+from coordination.faults import FaultLevels
 from coordination.frozen import quick_init
 from coordination.model import Study
 from coordination.roots import find_crossing
@@ -574,7 +575,7 @@ def _segments(study: Study, head: _Run | None,
     return out
 
 
-def _window_top(levels: Any, circuit_id: str) -> float:
+def _window_top(levels: FaultLevels, circuit_id: str) -> float:
     try:
         node = levels.by_circuit[circuit_id]
     except KeyError:
@@ -590,7 +591,7 @@ def _margin_interval(study: Study, circuit_id: str) -> tuple[float, float]:
     return margin, interval
 
 
-def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
+def analyse(study: Study, levels: FaultLevels, *, basis: str | None = None) -> Analysis:
     """Selectivity of every circuit under every circuit above it.
 
     Parameters
@@ -704,7 +705,7 @@ def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
 
 # ---------------------------------------------------------------------------------------------
 # geometry, lazily, for plots and the report
-def overlap(study: Study, levels: Any, pair: PairResult | tuple[str, str],
+def overlap(study: Study, levels: FaultLevels, pair: PairResult | tuple[str, str],
             basis: str | None = None) -> BaseGeometry:
     """The crossover zone of a pair: where the upstream may operate before the downstream clears.
 
@@ -843,7 +844,7 @@ def _ka(value: float | None) -> str:
     return f"{value / 1000:.3g}"
 
 
-def format_table(study: Study, levels: Any, analysis: Analysis) -> str:
+def format_table(study: Study, levels: FaultLevels, analysis: Analysis) -> str:
     """The pairs grouped by the board the downstream device sits on, and a summary line.
 
     Columns: circuit, device, above (the upstream circuit and device), verdict, Is [kA], window
