@@ -398,7 +398,7 @@ def plot_circuit(study: Study, levels: FaultLevels, analysis: Analysis, circuit_
     from matplotlib.figure import Figure
 
     if basis is None:
-        basis = getattr(analysis, "basis", None)
+        basis = analysis.basis
     chain = _chain(study, circuit_id)
     bands = {cid: band_for(study, cid, basis) for cid in chain}
     # the circuit, then the engine's rows above it: ancestors in a row with one device are one

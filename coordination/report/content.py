@@ -258,9 +258,9 @@ def _supply_lines(study: Study, levels: FaultLevels) -> list[str]:
     if s.ze_ohm is not None:
         lines.append(f"external earth-fault loop impedance Ze {s.ze_ohm:g} \u03a9")
     lines.append(f"voltage factors cmax {s.c_max:g}, cmin {s.c_min:g} (IEC 60909-0 Table 1)")
-    ik3 = finite_or_none(getattr(levels, "origin_ik3_a", None))
-    ik1 = finite_or_none(getattr(levels, "origin_ik1_a", None))
-    ze = finite_or_none(getattr(levels, "ze_ohm", None))
+    ik3 = finite_or_none(levels.origin_ik3_a)
+    ik1 = finite_or_none(levels.origin_ik1_a)
+    ze = finite_or_none(levels.ze_ohm)
     origin = []
     if ik3:
         origin.append(f"Ik3 max {ik3 / 1000:.3g} kA")
