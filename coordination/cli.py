@@ -442,8 +442,8 @@ def main() -> NoReturn:
     (docs/performance.md).
 
     The cyclic garbage collector is off: a check builds a few hundred thousand acyclic objects
-    that reference counting frees, and the collector's passes over them cost about 0.03 s of
-    a 2,061-circuit check for nothing freed (docs/performance.md). The commands that draw
+    that reference counting frees, and the collector's passes over them cost 0.05 s of a
+    2,061-circuit check for nothing freed (docs/performance.md). The commands that draw
     (``plot``, ``report``, ``demo``) turn it back on: matplotlib's figures hold reference
     cycles.
 
