@@ -34,7 +34,6 @@ STANDARDS = (
 )
 
 
-
 # -- small formatting helpers -------------------------------------------------------------------
 def ka_text(value: Any) -> str:
     """A current in kA to three significant figures, for the tables; "-" when unknown."""
@@ -62,7 +61,6 @@ def value_text(value: Any, unit: str) -> str:
     return f"{v:.3g} {unit}"
 
 
-
 def report_date() -> dt.date:
     """Today, or the date of ``SOURCE_DATE_EPOCH`` when set (reproducible documents).
 
@@ -78,8 +76,6 @@ def report_date() -> dt.date:
     if epoch and epoch.isdigit():
         return dt.datetime.fromtimestamp(int(epoch), tz=dt.UTC).date()
     return dt.date.today()
-
-
 
 
 #: How the register shows a band's settings: a label and the unit to show the value in
@@ -334,8 +330,48 @@ NOTES = (
 )
 
 
-
 def sentence(text: str) -> str:
     """``text`` with its first letter capitalised (the fault convention reads as a clause)."""
     return text[:1].upper() + text[1:]
 
+
+# -- the introductions of the table pages ------------------------------------------------------
+#: Above the device register.
+REGISTER_INTRO = (
+    "Every protective device of the study: the board it sits on, its band and the basis of "
+    "that band for selectivity, its settings, the design current Ib and its cable (line/"
+    "protective conductor in mm\u00b2, material, insulation, length).",
+)
+
+#: Above the fault levels (the study's fault convention follows).
+FAULTS_INTRO = (
+    "Maximum currents at each circuit's origin (its board): Ik3 three-phase, Ik1 "
+    "line-neutral, and the window value (Ik3 for a three-phase circuit, Ik1 for a "
+    "single-phase one), which is the top of its selectivity window. Minimum currents at the "
+    "circuit's far end: Ik min (line-neutral), Ief min (earth fault) and the loop "
+    "impedance Zs. Currents in kA, impedances in ohm (IEC 60909-0, simplified).",
+)
+
+#: Above the selectivity of every pair.
+PAIRS_INTRO = (
+    "Each circuit under each device above it. Verdict 'total': selective up to the maximum "
+    "fault at its board; 'partial': selective up to Is; 'none': the bands meet in overload. "
+    "Decided by the time-current edges, by energy (below 10 ms, I2t) or by a tested limit. "
+    "Devices and bases downstream/upstream (typ: typical, env: envelope, data: datasheet; "
+    "full device settings in the register). Need: the selectivity the study requires "
+    "('total' unless it gives selective_to_a). Rows that miss it are marked NO.",
+)
+
+#: Above the protection checks.
+CHECKS_INTRO = (
+    "Disconnection time (IEC 60364-4-41 Table 41.1), overload (IEC 60364-4-43, 433: the "
+    "device's conventional tripping current I2 against 1.45 Iz), fault energy "
+    "(IEC 60364-4-43, 434.5.2: the conductor section needed for the let-through I2t against "
+    "the section installed) and breaking capacity against the maximum fault at the board, on "
+    "the envelope basis. Each cell: the result, the value and the limit it must not exceed; "
+    "'-' where the study lacks the data. Failures are set in red and detailed after the "
+    "table; the reason for every check is in the CSV output (--csv).",
+)
+
+#: Above the failed protection checks.
+FAILURES_INTRO = ("Each failed check with what it needs and what to do.",)

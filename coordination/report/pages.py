@@ -18,7 +18,12 @@ from coordination.model import Study
 from coordination.pipeline import Assessment
 
 from .content import (
+    CHECKS_INTRO,
+    FAILURES_INTRO,
+    FAULTS_INTRO,
     NOTES,
+    PAIRS_INTRO,
+    REGISTER_INTRO,
     STANDARDS,
     _basis_summary,
     _check_failures,
@@ -215,41 +220,15 @@ def build_pages(study: Study, result: Assessment) -> list[PageBuilder]:
     """
     levels, analysis, results, basis = result.levels, result.analysis, result.checks, result.basis
     pages: list[PageBuilder] = [_cover(study, result)]
-    pages += table_pages(study, "Device register", [
-        "Every protective device of the study: the board it sits on, its band and the basis of "
-        "that band for selectivity, its settings, the design current Ib and its cable (line/"
-        "protective conductor in mm\u00b2, material, insulation, length).",
-    ], _device_table(study, basis))
-    pages += table_pages(study, "Fault levels", [
-        "Maximum currents at each circuit's origin (its board): Ik3 three-phase, Ik1 "
-        "line-neutral, and the window value (Ik3 for a three-phase circuit, Ik1 for a "
-        "single-phase one), which is the top of its selectivity window. Minimum currents at the "
-        "circuit's far end: Ik min (line-neutral), Ief min (earth fault) and the loop "
-        "impedance Zs. Currents in kA, impedances in ohm (IEC 60909-0, simplified).",
-        sentence(levels.convention),
-    ], _fault_table(study, levels))
-    pages += table_pages(study, "Selectivity of every pair", [
-        "Each circuit under each device above it. Verdict 'total': selective up to the maximum "
-        "fault at its board; 'partial': selective up to Is; 'none': the bands meet in overload. "
-        "Decided by the time-current edges, by energy (below 10 ms, I2t) or by a tested limit. "
-        "Devices and bases downstream/upstream (typ: typical, env: envelope, data: datasheet; "
-        "full device settings in the register). Need: the selectivity the study requires "
-        "('total' unless it gives selective_to_a). Rows that miss it are marked NO.",
-    ], _pair_table(study, analysis))
-    pages += table_pages(study, "Protection checks", [
-        "Disconnection time (IEC 60364-4-41 Table 41.1), overload (IEC 60364-4-43, 433: the "
-        "device's conventional tripping current I2 against 1.45 Iz), fault energy "
-        "(IEC 60364-4-43, 434.5.2: the conductor section needed for the let-through I2t against "
-        "the section installed) and breaking capacity against the maximum fault at the board, on "
-        "the envelope basis. Each cell: the result, the value and the limit it must not exceed; "
-        "'-' where the study lacks the data. Failures are set in red and detailed after the "
-        "table; the reason for every check is in the CSV output (--csv).",
-    ], _check_matrix(study, results))
+    pages += table_pages(study, "Device register", REGISTER_INTRO, _device_table(study, basis))
+    pages += table_pages(study, "Fault levels", (*FAULTS_INTRO, sentence(levels.convention)),
+                         _fault_table(study, levels))
+    pages += table_pages(study, "Selectivity of every pair", PAIRS_INTRO,
+                         _pair_table(study, analysis))
+    pages += table_pages(study, "Protection checks", CHECKS_INTRO, _check_matrix(study, results))
     failures = _check_failures(results)
     if failures.rows:
-        pages += table_pages(study, "Failed protection checks", [
-            "Each failed check with what it needs and what to do.",
-        ], failures)
+        pages += table_pages(study, "Failed protection checks", FAILURES_INTRO, failures)
     plan = plot_plan(study, analysis)
     for entry in plan:
         pages.append(_plot_page(study, result, entry))
