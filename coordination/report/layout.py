@@ -37,7 +37,6 @@ def wrap_words(text: str, width: int) -> list[str]:
     return textwrap.wrap(text, width, break_on_hyphens=False)
 
 
-
 # -- tables on pages ----------------------------------------------------------------------------
 @dataclass(frozen=True)
 class TableSpec:
@@ -225,7 +224,6 @@ def finish_page(fig: Figure, number: int, total: int) -> None:
 # -- pages of tables ---------------------------------------------------------------------------
 #: Draws one page: ``build(number, total)`` returns the page as a matplotlib Figure.
 PageBuilder = Callable[[int, int], "Figure"]
-
 
 
 #: The most rows of one table the PDF sets out (about 25 to 40 pages). A larger study's table

@@ -115,8 +115,6 @@ def _cover(study: Study, result: Assessment) -> PageBuilder:
     return build
 
 
-
-
 def _plot_page(study: Study, result: Assessment, entry: PlannedPlot) -> PageBuilder:
     levels, analysis, basis = result.levels, result.analysis, result.basis
     kind, circuit_id, heading = entry.kind, entry.circuit, entry.heading

@@ -100,7 +100,6 @@ def _write_csv(path: Path, records: Sequence[dict[str, Any]]) -> None:
         writer.writerows(rows)
 
 
-
 def _progress(enabled: bool, done: int, total: int) -> None:
     if not enabled:
         return
@@ -169,9 +168,9 @@ def write_report(study: Study, path: str | os.PathLike, *, csv: bool = False,
     if target.suffix.lower() != ".pdf":
         raise InputError(f"the report is a PDF; give a file ending in .pdf, not {target.name!r}",
                          key="-o")
-
-    if assessment is None:  # everything that can fail on the study's data runs before a file
-        assessment = assess(study, basis)  # is opened
+    # everything that can fail on the study's data runs before a file is opened
+    if assessment is None:
+        assessment = assess(study, basis)
     elif assessment.basis != basis:
         raise ValueError(f"the assessment was made on basis {assessment.basis!r}, not {basis!r}")
     pages = build_pages(study, assessment)
