@@ -285,12 +285,22 @@ def faults(study_path: StudyArg, as_json: JsonOption = False) -> None:
 
     s = load_study(study_path)
     levels = fault_levels.compute(s)
+    cases = ()
+    if s.supply.standby:
+        from coordination.standby import case_levels
+
+        cases = tuple(case_levels(s, source) for source in s.supply.standby)
     if as_json:  # FaultLevels.to_json(), its nodes written a block at a time (as in check)
         payload = {"nodes": Records(levels.nodes, fault_levels.NodeFaults.to_json),
                    "origin": levels.origin_json(), "convention": levels.convention}
+        if cases:  # one entry per standby source, its nodes carrying "case"
+            payload["cases"] = [case.to_json() for case in cases]
         echo_json(payload)
     else:
         typer.echo(tables.fault_table(s, levels))
+        for case in cases:
+            typer.echo("")
+            typer.echo(tables.case_fault_table(s, case))
 
 
 @app.command()
@@ -299,24 +309,37 @@ def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption 
     """Selectivity of every upstream/downstream pair, plus the protection checks."""
     from coordination import checks, engine, tables
     from coordination.pipeline import assess
+    from coordination.standby import CASE_CHECKS
 
     s = load_study(study_path)
     result = assess(s, check_basis(basis))
     analysis = result.analysis
     verdict(0 if result.ok else 1)
+    pairs, results = analysis.pairs, result.checks
+    for case in result.cases:  # every case's rows after the normal supply's, each with "case"
+        pairs, results = (*pairs, *case.analysis.pairs), (*results, *case.checks)
     if as_json:
-        payload = {"pairs": Records(analysis.pairs, engine.PairResult.to_json),
+        payload = {"pairs": Records(pairs, engine.PairResult.to_json),
                    "summary": analysis.summary(),
-                   "checks": Records(result.checks, checks.CheckResult.json_record),
+                   "checks": Records(results, checks.CheckResult.json_record),
                    "ok": result.ok, "caution": CAUTION}
+        if result.cases:
+            payload["cases"] = {c.name: {"summary": c.analysis.summary(), "ok": c.ok}
+                                for c in result.cases}
         echo_json(payload)
     else:
         typer.echo(tables.pair_table(s, result.levels, analysis))
         typer.echo("")
         typer.echo(tables.check_table(result.checks))
         typer.echo("")
-        if not analysis.ok:
-            uppers = sorted({p.upstream for p in analysis.pairs if not p.ok})
+        for case in result.cases:
+            typer.echo(tables.case_heading(s, case.case))
+            typer.echo(tables.pair_table(s, case.case.levels, case.analysis))
+            typer.echo("")
+            typer.echo(tables.check_table(case.checks, expected=CASE_CHECKS))
+            typer.echo("")
+        if not all(p.ok for p in pairs):
+            uppers = sorted({p.upstream for p in pairs if not p.ok})
             typer.echo(
                 "next: for a pair that falls short, choose a larger upstream device "
                 f"(coordination choose {study_path} --circuit {uppers[0]}), give the "

@@ -12,6 +12,8 @@ from functools import cached_property
 from types import MappingProxyType
 from typing import Any
 
+from coordination.generator import StandbySource
+
 SUPPLY_ID = "supply"
 
 
@@ -47,6 +49,8 @@ class Supply:
     pfc_ln_a: float | None = None  # line-neutral prospective fault current at the origin of a
     # three-phase supply [A]; None: bounded, pfc_a for maximum currents, a loop of twice the
     # phase impedance (half the current) for minimum currents (see coordination.faults)
+    standby: tuple[StandbySource, ...] = ()  # standby generators, each a case of its own
+    # (coordination.standby): a board fed by one of them through a changeover
 
 
 @dataclass(frozen=True)

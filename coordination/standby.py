@@ -36,6 +36,7 @@ IEC 60364-4-43:2008, 434.5.1 and 434.5.2; IEC 60947-2:2016, Annex A.
 from __future__ import annotations
 
 import math
+import re
 from collections.abc import Mapping
 from dataclasses import dataclass
 from types import MappingProxyType
@@ -65,6 +66,8 @@ from curves.errors import InputError
 
 #: The case of the normal supply.
 NORMAL = "normal"
+#: The checks run under a standby case (overload does not depend on the source).
+CASE_CHECKS = ("disconnection", "fault-energy", "breaking-capacity")
 
 
 # -- which circuits a source feeds ---------------------------------------------------------------
@@ -359,6 +362,10 @@ def _energy_a2s(band: Band, d: Decrement, t_s: float) -> float:
     return energy
 
 
+#: The constant-current words for a fault a device never clears (checks.common._never).
+_NEVER_WORDS = re.compile(r" \(below its pickup[^)]*\)")
+
+
 class _DecayEdges(_Edges):
     """The checks' edges read under a case: at each of a node's initial currents, the clearing
     time and energy of the decaying fault behind it (``inf``, never, for a current not given)."""
@@ -458,7 +465,9 @@ def case_checks(study: Study, case: SupplyCase, circuit_id: str,
                                                                                  circuit_id,
                                                                                  band), edges)
         if energy is not None:
-            out.append(energy)
+            # "never cleared" means here that the decaying current falls away first
+            out.append(replace(energy, reason=_NEVER_WORDS.sub(
+                " (the decaying current falls away before it operates)", energy.reason)))
         out.append(_breaking_capacity(study, circuit_id, band, node))
     except InputError as error:
         if error.key is not None and error.key.startswith("supply"):
@@ -543,3 +552,74 @@ def case_pairs(study: Study, case: SupplyCase, *, basis: str | None = None) -> t
                 time_s=sel.time_s, margin=float(margin), interval_s=float(interval),
                 tested_limit_a=tested, upstream_last=up_id, upstream_count=1, case=case.name))
     return tuple(out)
+
+
+# -- one case's assessment -------------------------------------------------------------------------
+@dataclass(frozen=True)
+class CaseAssessment:
+    """What a study comes to on one standby source.
+
+    Attributes
+    ----------
+    case : SupplyCase
+        The source, what it feeds and its fault levels.
+    analysis : Analysis
+        The selectivity of every fed pair under it (``case`` on every pair).
+    checks : tuple of CheckResult
+        Disconnection, fault energy and breaking capacity of every fed circuit under it.
+    ok : bool
+        Every requirement met on this source.
+    """
+
+    case: SupplyCase
+    analysis: Any
+    checks: tuple[CheckResult, ...]
+    ok: bool
+
+    @property
+    def name(self) -> str:
+        """The case's name (the source's)."""
+        return self.case.name
+
+
+def assess_case(study: Study, source: StandbySource, basis: str | None = None) -> CaseAssessment:
+    """Fault levels, selectivity and protection checks on one standby source.
+
+    Parameters
+    ----------
+    study : Study
+    source : StandbySource
+        One of ``study.supply.standby``.
+    basis : str, optional
+        As :func:`coordination.engine.analyse` (the checks always take the envelope).
+
+    Returns
+    -------
+    CaseAssessment
+
+    References
+    ----------
+    IEC 60909-0:2016, 6.6.1; IEC 60947-2:2016, Annex A; IEC 60364-4-41:2005, Table 41.1;
+    IEC 60364-4-43:2008, 434.5.
+
+    Examples
+    --------
+    >>> from coordination.model import Cable, Circuit, Supply
+    >>> s = Study("t", Supply(pfc_a=16000.0), (
+    ...     Circuit("in", "supply", "gG200"), Circuit("sub", "in", "gG63", cable=Cable(30, 16)),
+    ...     Circuit("a", "sub", "B16", phases=1, cable=Cable(20, 2.5, 1.5))))
+    >>> result = assess_case(s, StandbySource("gen", 500, 230, 12, 25, 0.02, 0.3, 5))
+    >>> print(result.name, len(result.analysis.pairs), result.analysis.pairs[0].case)
+    gen 1 gen
+    """
+    from coordination.engine import Analysis
+
+    case = case_levels(study, source)
+    pairs = case_pairs(study, case, basis=basis)
+    results = run_checks(study, case)
+    by_down: dict[str, tuple[Any, ...]] = {}
+    for p in pairs:
+        by_down[p.downstream] = (*by_down.get(p.downstream, ()), p)
+    analysis = Analysis(pairs, all(p.ok for p in pairs), basis, by_down)
+    ok = bool(analysis.ok and all(r.ok for r in results))
+    return CaseAssessment(case, analysis, results, ok)

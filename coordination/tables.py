@@ -23,6 +23,7 @@ if TYPE_CHECKING:
     from coordination.checks import CheckResult
     from coordination.engine import Analysis, PairResult
     from coordination.faults import FaultLevels
+    from coordination.standby import SupplyCase
     from curves.band import Band
 
 
@@ -75,6 +76,68 @@ def fault_table(study: Study, levels: FaultLevels) -> str:
         "line-neutral (Ik1) currents and the window's end; at its far end the earth-fault loop "
         "Zs, the minimum earth-fault current Ief and the minimum short-circuit current Ik min "
         "(LL: line-line, the cable has no neutral).", 100, subsequent_indent="  ")
+    return "\n".join([*head, "", body, "", *foot])
+
+
+def case_heading(study: Study, case: SupplyCase) -> str:
+    """The heading of a standby case's tables: the source and the board it feeds.
+
+    Examples
+    --------
+    >>> from coordination.generator import StandbySource
+    >>> from coordination.model import Circuit, Supply
+    >>> from coordination.standby import case_levels
+    >>> s = Study("t", Supply(pfc_a=16000.0), (Circuit("in", "supply", "gG200", board="MSB"),
+    ...                                        Circuit("a", "in", "B16")))
+    >>> print(case_heading(s, case_levels(s, StandbySource("gen", 500, 230, 12, 25, 0.02, 0.3,
+    ...                                                    5))))
+    Case 'gen': standby generator 500 kVA on board MSB (1 circuit; sustained current 0 x In)
+    """
+    src = case.source
+    where = ("the origin" if case.feeds == "supply"
+             else f"board {study.by_id[case.feeds].board or case.feeds}")
+    n = len(case.circuits)
+    return (f"Case {case.name!r}: standby generator {src.rating_kva:g} kVA on {where} "
+            f"({n} circuit{'s' if n != 1 else ''}; sustained current {src.sustained_x:g} x In)")
+
+
+def case_fault_table(study: Study, case: SupplyCase) -> str:
+    """A standby case's fault levels: initial currents, and how the earth fault at each far end
+    decays (initial, transient, sustained).
+
+    Examples
+    --------
+    >>> from coordination.generator import StandbySource
+    >>> from coordination.model import Circuit, Supply
+    >>> from coordination.standby import case_levels
+    >>> s = Study("t", Supply(pfc_a=16000.0), (Circuit("in", "supply", "gG200"),
+    ...                                        Circuit("a", "in", "B16")))
+    >>> text = case_fault_table(s, case_levels(s, StandbySource("g", 500, 230, 12, 25, 0.02,
+    ...                                                         0.3, 5)))
+    >>> print(text.splitlines()[1])
+    terminals: I''k3 max 6.402 kA, I''k1 max 7.975 kA, U0 230 V
+    """
+    levels = case.levels
+    head = [case_heading(study, case),
+            f"terminals: I''k3 max {_ka(levels.origin_ik3_a)} kA, I''k1 max "
+            f"{_ka(levels.origin_ik1_a)} kA, U0 {levels.u0_v:g} V"]
+    rows = []
+    for node in levels.nodes:
+        d = case.nodes[node.circuit].earth_end
+        rows.append([
+            node.circuit, node.board, str(node.phases), _ka(node.ik3_max_a),
+            _ka(node.ik1_max_a), _ka(node.ik_max_a), _ka(node.ief_min_a),
+            _ka(float(d.i_trans_a)), _ka(float(d.i_sust_a)),
+            _ka(node.ik_min_end_a) + ("" if node.ik_min_end_kind == "line-neutral" else " LL"),
+        ])
+    body = table(["circuit", "board", "ph", "Ik3 kA", "Ik1 kA", "window kA", "Ief min kA",
+                  "transient kA", "sustained kA", "Ik min kA"], rows, "lllrrrrrrr")
+    foot = textwrap.wrap("convention: " + levels.convention, 100, subsequent_indent="  ")
+    foot += textwrap.wrap(
+        "columns: initial (subtransient) currents: at the circuit's board the maximum "
+        "three-phase (Ik3) and line-neutral (Ik1) currents and the window's end; at its far "
+        "end the minimum earth fault Ief, its transient and sustained values, and the minimum "
+        "short circuit Ik min (LL: line-line).", 100, subsequent_indent="  ")
     return "\n".join([*head, "", body, "", *foot])
 
 
@@ -177,13 +240,17 @@ def _value_text(value: float, unit: str) -> str:
     return f"{value:.3g} {unit}"
 
 
-def check_table(results: Sequence[CheckResult] | Iterable[CheckResult]) -> str:
+def check_table(results: Sequence[CheckResult] | Iterable[CheckResult], *,
+                expected: Sequence[str] | None = None) -> str:
     """The protection checks as a plain-text table, circuit by circuit, failures marked.
 
     Parameters
     ----------
     results : sequence of CheckResult
         From :func:`coordination.checks.run`.
+    expected : sequence of str, optional
+        The checks each circuit should have (default: every one of ``CHECK_NAMES``); those
+        missing are listed as not checked.
 
     Returns
     -------
@@ -215,7 +282,7 @@ def check_table(results: Sequence[CheckResult] | Iterable[CheckResult]) -> str:
             rows.append([cid if i == 0 else "", r.check, "ok" if r.ok else "! FAIL",
                          _value_text(r.value, r.unit), _value_text(r.limit, r.unit), r.reason])
         present = {r.check for r in mine}
-        absent = [c for c in CHECK_NAMES if c not in present]
+        absent = [c for c in (expected or CHECK_NAMES) if c not in present]
         if absent:
             missing.append(f"{cid} ({', '.join(absent)})")
     body = table(["circuit", "check", "result", "value", "limit", "why / what to do"], rows,

@@ -42,6 +42,8 @@ class CheckResult:
     details : mapping
         Further numbers with units in their keys (``zs_ohm``, ``zs_max_ohm``, ``current_a``,
         ``source`` ...), for the JSON output and the report.
+    case : str
+        The supply case: ``"normal"``, or a standby source's name (:mod:`coordination.standby`).
     """
 
     circuit: str
@@ -53,6 +55,7 @@ class CheckResult:
     reason: str
     basis: str
     details: Mapping[str, Any] = field(default_factory=dict)
+    case: str = "normal"
 
     def __post_init__(self) -> None:
         if self.details.__class__ is not MappingProxyType:  # a read-only view is kept as given
@@ -81,6 +84,7 @@ class CheckResult:
         check has 8,183 results)."""
         value, limit = self.value, self.limit
         head = {
+            "case": self.case,
             "circuit": self.circuit,
             "check": self.check,
             "ok": bool(self.ok),
