@@ -112,6 +112,9 @@ class Problem:
     # the need of the devices below only where a tested limit could not help (see TESTABLE_S)
     need_untestable: np.ndarray | None = None
     state: SearchState = field(default_factory=SearchState, compare=False)
+    # the standby sources' cases (coordination.standby.SupplyCase): every candidate must meet
+    # the requirements on each source that feeds the circuit too
+    cases: tuple[Any, ...] = ()
 
 
 def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None,
@@ -207,8 +210,18 @@ def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None
                       float(iz) if iz is not None else None, ik_board, ik_break, tuple(below),
                       tuple(above), grid, need, above_tmin, above_adj,
                       below_names={p.other: p.band.name for p in below},
-                      skip_above=skip_above, need_untestable=need_untestable)
+                      skip_above=skip_above, need_untestable=need_untestable,
+                      cases=_cases(study))
     return problem, current
+
+
+def _cases(study: Study) -> tuple[Any, ...]:
+    """The fault levels of every standby source of the study (none without one)."""
+    if not study.supply.standby:
+        return ()
+    from coordination.standby import case_levels
+
+    return tuple(case_levels(study, source) for source in study.supply.standby)
 
 
 def substitute(study: Study, circuit_id: str, spec: str | Mapping[str, Any]) -> Study:
