@@ -25,7 +25,9 @@ Every artist that stands for something carries a ``gid`` so that tests and calle
 ``band:<id>``, ``edge:<id>``, ``tag:<id>`` (the band's label), ``zone:<upstream>><downstream>``,
 ``zone-mark:<upstream>><downstream>`` (a small zone's box and strip),
 ``limit:<upstream>><downstream>``, ``marker:max-fault``, ``marker:min-earth-fault``,
-``marker:load``, ``withstand:line``, ``withstand:cpc``.
+``marker:load``, ``withstand:line``, ``withstand:cpc``, and on a circuit a standby source
+feeds ``decrement:<case>:max-fault`` and ``decrement:<case>:min-earth-fault`` (the decaying
+currents, :mod:`coordination.standby`).
 """
 
 from __future__ import annotations
@@ -83,6 +85,11 @@ ZONE_MARK_PT = 7.0
 WITHSTAND_STYLE = {
     "line": {"color": "#5c3d2e", "linestyle": (0, (10, 3)), "linewidth": 1.2},
     "cpc": {"color": "#a0785a", "linestyle": (0, (3, 2, 3, 6)), "linewidth": 1.2},
+}
+#: The decaying fault currents of a standby source (our own colour: a dark teal).
+DECREMENT_STYLE = {
+    "max-fault": {"color": "#0b5e55", "linestyle": "-", "linewidth": 1.8},
+    "min-earth-fault": {"color": "#0b5e55", "linestyle": (0, (5, 2, 1, 2)), "linewidth": 1.5},
 }
 
 #: The adiabatic equation holds for faults up to 5 s (IEC 60364-4-43, 434.5.2).
@@ -349,7 +356,7 @@ def _literal_text(draw: Any) -> Any:
 @_literal_text
 def plot_circuit(study: Study, levels: FaultLevels, analysis: Analysis, circuit_id: str, *,
                  basis: str | None = None, ax: Axes | None = None,
-                 title: str | None = None) -> Figure:
+                 title: str | None = None, cases: Sequence[Any] = ()) -> Figure:
     """Time-current plot of a circuit's device and every device above it.
 
     Parameters
@@ -370,6 +377,10 @@ def plot_circuit(study: Study, levels: FaultLevels, analysis: Analysis, circuit_
         on their figure before calling: labels are laid out for their size.
     title : str, optional
         Axes title; by default the study title and the circuit.
+    cases : sequence of SupplyCase, optional
+        Standby sources (:func:`coordination.standby.case_levels`); on a circuit one feeds,
+        its decaying maximum fault at the board and minimum earth fault at the far end are
+        drawn as curves I(t), which meet each band where that device operates.
 
     Returns
     -------
@@ -428,6 +439,9 @@ def plot_circuit(study: Study, levels: FaultLevels, analysis: Analysis, circuit_
                   levels.by_circuit.get(circuit_id), circuit.load_a)
     if circuit.cable is not None:
         _draw_withstand(ax, layout, key, circuit.cable)
+    for case in cases:
+        if circuit_id in case.nodes:
+            _draw_decrements(ax, key, case, circuit_id, i_min)
     # labels: the Is marks first, then each band's circuit id, clear of each other
     _place_limits(ax, layout, limits)
     _place_tags(ax, layout, tags)
@@ -609,6 +623,27 @@ def _draw_withstand(ax: Axes, layout: _Layout, key: list[tuple[Any, str]],
                           label=label, **WITHSTAND_STYLE[name])
         key.append((line, label))
         layout.lines.append(LineString(_points(ax, [i_a, i_b], [t_hi, TIME_FLOOR_S])))
+
+
+def _draw_decrements(ax: Axes, key: list[tuple[Any, str]], case: Any, circuit_id: str,
+                     i_min: float) -> None:
+    """A standby source's decaying faults on this circuit, as curves (I(t), t): the maximum
+    fault at the board and the minimum earth fault at the far end."""
+    from coordination.generator import decrement_curve
+    from coordination.standby import window_decrement
+
+    node = case.nodes[circuit_id]
+    for name, decrement, what in (
+            ("max-fault", window_decrement(node), "maximum fault at the board"),
+            ("min-earth-fault", node.earth_end, "minimum earth fault at far end")):
+        i, t = decrement_curve(decrement, t_from_s=TIME_FLOOR_S, t_to_s=TIME_CEILING_S,
+                               floor_a=i_min)
+        if i.size < 2:
+            continue
+        label = f"{case.name}: {what}, {format_current(float(i[0]))} decaying"
+        (line,) = ax.plot(i, t, zorder=5, gid=f"decrement:{case.name}:{name}", label=label,
+                          **DECREMENT_STYLE[name])
+        key.append((line, label))
 
 
 def _dress_axes(ax: Axes, i_min: float, i_max: float, title: str) -> None:

@@ -166,7 +166,7 @@ class SupplyCase:
         for node in self.levels.nodes:
             row = {"case": self.name, **node.to_json()}
             deca = self.nodes[node.circuit]
-            for key, d in (("ik_max", _window_decrement(deca)), ("ief_min", deca.earth_end),
+            for key, d in (("ik_max", window_decrement(deca)), ("ief_min", deca.earth_end),
                            ("ief_max_board", deca.earth_board)):
                 row[f"{key}_transient_a"] = float(np.asarray(d.i_trans_a))
                 row[f"{key}_sustained_a"] = float(np.asarray(d.i_sust_a))
@@ -181,7 +181,8 @@ class SupplyCase:
                 "convention": self.levels.convention}
 
 
-def _window_decrement(node: CaseNode) -> Decrement:
+def window_decrement(node: CaseNode) -> Decrement:
+    """The bolted fault at the circuit's board, the top of its window, as it decays."""
     return node.window.at_initial_a(node.window.bolted_a)
 
 
@@ -381,7 +382,7 @@ class _DecayEdges(_Edges):
 def _node_decrements(case_node: CaseNode, node: NodeFaults) -> list[tuple[float, Decrement]]:
     """Each initial current the checks read at a node, with its decrement."""
     items = [(node.ik3_max_a, case_node.three_phase_board), (node.ik1_max_a, case_node.loop_board),
-             (node.ik_max_a, _window_decrement(case_node)),
+             (node.ik_max_a, window_decrement(case_node)),
              (node.ief_max_board_a, case_node.earth_board),
              (node.ief_min_a, case_node.earth_end), (node.ik_min_end_a, case_node.short_end)]
     return [(float(i), d) for i, d in items if i is not None and math.isfinite(i) and i > 0]
