@@ -304,7 +304,8 @@ def driving_voltage_v(u0_v: float, c: float, kind: FaultKind) -> float:
 
 
 def stage_currents_a(loops: tuple[complex, complex, complex | None], path_ohm: Any,
-                     voltage_v: float) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+                     voltage_v: float, *, arithmetic: bool = False) -> tuple[
+                         np.ndarray, np.ndarray, np.ndarray]:
     """The currents of the three stages through a path added to the source's loops [A].
 
     Parameters
@@ -316,6 +317,10 @@ def stage_currents_a(loops: tuple[complex, complex, complex | None], path_ohm: A
         [ohm].
     voltage_v : float
         :func:`driving_voltage_v` [V].
+    arithmetic : bool
+        Add the magnitudes of the source's loop and the path instead of the complex
+        impedances (``Zs = Ze + |R1 + R2 + jX|``, BS 7671 Regulation 411.4 practice: never
+        less than the complex sum, so the current is never more).
 
     Returns
     -------
@@ -330,12 +335,16 @@ def stage_currents_a(loops: tuple[complex, complex, complex | None], path_ohm: A
     [2203, 1972, 0]
     """
     path = np.asarray(path_ohm, dtype=complex)
-    i_sub = voltage_v / np.abs(loops[0] + path)
-    i_trans = np.minimum(voltage_v / np.abs(loops[1] + path), i_sub)
+
+    def loop(z: complex) -> np.ndarray:
+        return abs(z) + np.abs(path) if arithmetic else np.abs(z + path)
+
+    i_sub = voltage_v / loop(loops[0])
+    i_trans = np.minimum(voltage_v / loop(loops[1]), i_sub)
     if loops[2] is None:
         i_sust = np.zeros_like(i_sub)
     else:
-        i_sust = np.minimum(voltage_v / np.abs(loops[2] + path), i_trans)
+        i_sust = np.minimum(voltage_v / loop(loops[2]), i_trans)
     return i_sub, i_trans, i_sust
 
 

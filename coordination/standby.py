@@ -246,7 +246,7 @@ def case_levels(study: Study, source: StandbySource) -> SupplyCase:
     ...     Circuit("a", "in", "B16", phases=1, cable=Cable(20, 2.5, 1.5))))
     >>> case = case_levels(s, StandbySource("gen", 500, 230, 12, 25, 0.02, 0.3, 5))
     >>> print(case.circuits, round(case.levels.by_circuit["a"].ief_min_a))
-    ('a',) 463
+    ('a',) 439
     """
     supply = study.supply
     if supply.phases != 3:
@@ -282,20 +282,24 @@ def case_levels(study: Study, source: StandbySource) -> SupplyCase:
     v_ll = generator.driving_voltage_v(u0, c_min, "line-line")
     td2, td1 = source.td2_s, source.td1_s
 
-    def decrement(loops: tuple, path: Any, voltage: float) -> Decrement:
-        return Decrement(*generator.stage_currents_a(loops, path, voltage), td2, td1)
+    def decrement(loops: tuple, path: Any, voltage: float, arithmetic: bool = False
+                  ) -> Decrement:
+        return Decrement(*generator.stage_currents_a(loops, path, voltage,
+                                                     arithmetic=arithmetic), td2, td1)
 
     with np.errstate(invalid="ignore", divide="ignore"):
         three_board = decrement(three_max, at_board[0], v_max)
         loop_board = decrement(loop_max, at_board[1], v_max)
         earth_board = decrement(loop_max, at_board[5] + earth_extra, v_max)
-        earth_end = decrement(loop_min, at_end[4] + earth_extra, v_min)
+        # the minimum earth loop as the normal supply's: Zs = Ze + |R1 + R2 + j(X1 + X2)|
+        earth_end = decrement(loop_min, np.abs(at_end[4]) + abs(earth_extra), v_min,
+                              arithmetic=True)
         ln_end = decrement(loop_min, at_end[3], v_min)
         ll_end = decrement(ll_min, 2 * at_end[2], v_ll)
         three_end = generator.stage_currents_a(three_max, at_end[0], v_max)[0]
         loop_end = generator.stage_currents_a(loop_max, at_end[1], v_max)[0]
-        zs_end = np.abs(loop_min[0] + at_end[4] + earth_extra)
-        zs_board = np.abs(loop_min[0] + at_board[4] + earth_extra)
+        zs_end = abs(loop_min[0]) + abs(earth_extra) + np.abs(at_end[4])
+        zs_board = abs(loop_min[0]) + abs(earth_extra) + np.abs(at_board[4])
         z_ln_end = np.abs(loop_min[0] + at_end[3])
     has_ln = np.isfinite(np.asarray(ln_end.i_sub_a)) & (np.asarray(ln_end.i_sub_a) > 0)
 
