@@ -37,7 +37,7 @@ from __future__ import annotations
 
 import math
 import re
-from collections.abc import Mapping
+from collections.abc import Iterable, Mapping
 from dataclasses import dataclass
 from types import MappingProxyType
 from typing import Any
@@ -355,15 +355,17 @@ def _stages_text(d: Decrement) -> str:
             f"{a_text(float(d.i_sust_a))} sustained")
 
 
-def _energy_a2s(band: Band, d: Decrement, t_s: float) -> float:
-    """The energy a device lets through a decaying fault cleared by ``t_s`` [A2s]: the
+def _energies_a2s(band: Band, d: Decrement, t_s: np.ndarray) -> np.ndarray:
+    """The energy a device lets through decaying faults cleared by ``t_s`` [A2s]: each
     decrement's ``integral of I^2 dt`` up to then, and no more than the device's let-through at
-    the initial current where it limits current (the current never exceeds it)."""
-    if not math.isfinite(t_s):
-        return math.inf
-    energy = float(d.i2t_a2s(t_s))
+    the initial current where it limits current (the current never exceeds it); ``inf`` for a
+    fault never cleared."""
+    with np.errstate(invalid="ignore", over="ignore"):
+        energy = np.where(np.isfinite(t_s), d.i2t_a2s(np.where(np.isfinite(t_s), t_s, 0.0)),
+                          np.inf)
     if band.let_through is not None:
-        energy = min(energy, float(band.let_through(float(d.i_sub_a))))
+        energy = np.minimum(energy, np.asarray(band.let_through(np.asarray(d.i_sub_a)),
+                                               dtype=float))
     return energy
 
 
@@ -392,17 +394,26 @@ def _node_decrements(case_node: CaseNode, node: NodeFaults) -> list[tuple[float,
     return [(float(i), d) for i, d in items if i is not None and math.isfinite(i) and i > 0]
 
 
-def case_edges(case: SupplyCase, circuit_id: str, band: Band) -> _DecayEdges:
-    """The clearing times and energies of a device under the case's faults of one circuit."""
-    node = case.levels.by_circuit[circuit_id]
-    values: dict[float, tuple[float, float]] = {}
-    for i, d in _node_decrements(case.nodes[circuit_id], node):
-        t = float(decay.clearing_time_s(band, d)[0])
-        pair = (t, _energy_a2s(band, d, t))
-        # two faults with one initial current: the later clearing and the larger energy
-        old = values.get(i)
-        values[i] = pair if old is None else (max(old[0], pair[0]), max(old[1], pair[1]))
-    return _DecayEdges({band: values})
+def case_edges(case: SupplyCase, items: Iterable[tuple[str, Band]]) -> _DecayEdges:
+    """The clearing times and energies of devices under the case's faults of their circuits:
+    ``(circuit id, band)`` items, one vectorised search per distinct band."""
+    wanted: dict[Band, list[tuple[float, Decrement]]] = {}
+    for cid, band in items:
+        node = case.levels.by_circuit[cid]
+        wanted.setdefault(band, []).extend(_node_decrements(case.nodes[cid], node))
+    values: dict[Band, dict[float, tuple[float, float]]] = {}
+    for band, rows in wanted.items():
+        d = Decrement(*(np.array([float(getattr(r, name)) for _, r in rows])
+                        for name in ("i_sub_a", "i_trans_a", "i_sust_a")),
+                      rows[0][1].td2_s, rows[0][1].td1_s)
+        t = decay.clearing_time_s(band, d)
+        energy = _energies_a2s(band, d, t)
+        mine = values.setdefault(band, {})
+        for (i, _), t_k, e_k in zip(rows, t.tolist(), energy.tolist(), strict=True):
+            # two faults with one initial current: the later clearing and the larger energy
+            old = mine.get(i)
+            mine[i] = (t_k, e_k) if old is None else (max(old[0], t_k), max(old[1], e_k))
+    return _DecayEdges(values)
 
 
 def _disconnection(study: Study, case: SupplyCase, cid: str, band: Band,
@@ -435,8 +446,8 @@ def _disconnection(study: Study, case: SupplyCase, cid: str, band: Band,
                        MappingProxyType(details), case=case.name)
 
 
-def case_checks(study: Study, case: SupplyCase, circuit_id: str,
-                band: Band) -> tuple[CheckResult, ...]:
+def case_checks(study: Study, case: SupplyCase, circuit_id: str, band: Band,
+                edges: _DecayEdges | None = None) -> tuple[CheckResult, ...]:
     """The protection checks of one fed circuit under a standby case.
 
     Parameters
@@ -448,6 +459,9 @@ def case_checks(study: Study, case: SupplyCase, circuit_id: str,
         A circuit the source feeds.
     band : Band
         Its device, on the envelope basis.
+    edges : optional
+        :func:`case_edges` of the case's devices, when the caller has them (:func:`run_checks`
+        finds them for every circuit at once).
 
     Returns
     -------
@@ -464,7 +478,8 @@ def case_checks(study: Study, case: SupplyCase, circuit_id: str,
 
     node = case.levels.by_circuit[circuit_id]
     try:
-        edges = case_edges(case, circuit_id, band)
+        if edges is None:
+            edges = case_edges(case, [(circuit_id, band)])
         out: list[CheckResult] = [_disconnection(study, case, circuit_id, band, edges)]
         energy = _fault_energy(study, circuit_id, band, node, _overload_protected(study,
                                                                                  circuit_id,
@@ -496,9 +511,11 @@ def run_checks(study: Study, case: SupplyCase) -> tuple[CheckResult, ...]:
     """Every fed circuit's checks under a case, in study order, on the envelope basis."""
     from coordination.devices import band_for
 
+    bands = {cid: band_for(study, cid, basis="envelope") for cid in case.circuits}
+    edges = case_edges(case, bands.items())
     out: list[CheckResult] = []
-    for cid in case.circuits:
-        out.extend(case_checks(study, case, cid, band_for(study, cid, basis="envelope")))
+    for cid, band in bands.items():
+        out.extend(case_checks(study, case, cid, band, edges))
     return tuple(out)
 
 

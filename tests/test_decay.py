@@ -35,7 +35,7 @@ def test_a_current_that_does_not_decay_gives_the_edge_itself(name: str, multiple
         expected = float(edge(current))
         got = decay.operating_time_s(edge, Decrement(current, current, current, 0.02, 0.3))[0]
         if math.isfinite(expected) and expected <= decay.T_END_S:
-            assert got == pytest.approx(max(expected, decay.T_START_S), rel=1e-8)
+            assert got == pytest.approx(max(expected, decay.T_START_S), rel=1e-5)
         else:
             assert got == math.inf
 
@@ -75,7 +75,7 @@ def test_many_faults_at_once_equal_one_at_a_time() -> None:
 
 def test_a_meeting_between_two_samples_is_found() -> None:
     """An edge met only for an instant between two grid samples (the current falls below the
-    pickup 1 % later): found by the finer search (its step is about 0.09 % in time)."""
+    pickup 1 % later): found by the finer search (its step is about 0.2 % in time)."""
     t_grid = decay._GRID
     t_meet = math.sqrt(t_grid[100] * t_grid[101])  # between two samples
     # the current falls through 1000 A at 1.01 t_meet
@@ -85,7 +85,7 @@ def test_a_meeting_between_two_samples_is_found() -> None:
     def edge(i: np.ndarray) -> np.ndarray:
         return np.where(np.asarray(i) >= 1000.0, t_meet, np.inf)
 
-    assert decay.operating_time_s(edge, d)[0] == pytest.approx(t_meet, rel=1e-8)
+    assert decay.operating_time_s(edge, d)[0] == pytest.approx(t_meet, rel=1e-5)
 
 
 FLAT = FaultFamily((0.02 + 0.03j, 0.02 + 0.03j, 0.02 + 0.03j), 0.01 + 0.005j, 230.0, 0.02, 0.3)
@@ -101,7 +101,7 @@ def test_without_decay_the_pair_agrees_with_the_engine(up: str, down: str) -> No
     if want.limit_a is None:
         assert got.limit_a is None
     else:
-        assert got.limit_a == pytest.approx(want.limit_a, rel=1e-5)
+        assert got.limit_a == pytest.approx(want.limit_a, rel=5e-4)  # decay._LIMIT_XTOL
 
 
 def test_a_decaying_fault_that_the_upstream_never_sees_is_selective() -> None:
