@@ -130,3 +130,25 @@ def test_energy_edge_under_decay_against_brent(k_a2s: float) -> None:
     expected = optimize.brentq(gap, 1e-9, 1e4, xtol=1e-15, rtol=1e-14)
     got = decay.operating_time_s(lambda i: k_a2s / np.asarray(i) ** 2, d)
     np.testing.assert_allclose(got[0], expected, rtol=1e-5)  # decay._XTOL: 2.3e-6
+
+
+# The minimum earth fault at a final circuit's far end on the generator (invented circuit:
+# 500 kVA at U_rG = sqrt(3) x 230 V, x''d 12 %, x'd 25 %, x0 5 %; 20 m of 2.5 / 1.5 mm2 copper
+# PVC). U_rG^2 / S_rG = 0.3174 ohm: X''d = 0.038088, R_G = 0.0057132, X'd = 0.07935,
+# X0 = 0.01587 ohm. IEC 60909-0:2016, 7.2.4: the generator's loop (2 Z1 + Z0) / 3 =
+# 0.0038088 + j 0.030682, |.| = 0.030918 ohm (transient: Z1 with X'd, |.| = 0.044599 ohm).
+# IEC 60228 Table 2 and Annex B: R1 + R2 at 70 degC = (7.41 + 12.1) x 0.020 x 304.5 / 254.5
+# = 0.46686 ohm, with 0.08 mohm/m per conductor (common practice): |path| = 0.466871 ohm.
+# BS 7671 Regulation 411.4 practice, Zs = loop + |R1 + R2 + jX|: 0.497789 ohm;
+# c_min U0 = 0.95 x 230 = 218.5 V: I''ef = 438.94 A; I'ef = 218.5 / 0.511470 = 427.20 A
+@pytest.mark.parametrize(("stage", "expected_a"), [("i_sub_a", 438.94), ("i_trans_a", 427.20)])
+def test_minimum_earth_fault_through_a_cable_by_hand(stage: str, expected_a: float) -> None:
+    from coordination.model import Cable, Circuit, Study, Supply
+    from coordination.standby import case_levels
+
+    s = Study("hand", Supply(pfc_a=16000.0), (
+        Circuit("in", "supply", "gG200"),
+        Circuit("a", "in", "B16", phases=1, cable=Cable(20, 2.5, 1.5))))
+    case = case_levels(s, StandbySource("gen", 500.0, 230.0, 12.0, 25.0, 0.02, 0.3, 5.0))
+    got = float(getattr(case.nodes["a"].earth_end, stage))
+    np.testing.assert_allclose(got, expected_a, rtol=2e-5)
