@@ -70,12 +70,17 @@ def fault_table(study: Study, levels: FaultLevels) -> str:
         ["circuit", "board", "ph", "Ik3 kA", "Ik1 kA", "window kA", "Zs ohm", "Ief min kA",
          "Ik min kA"],
         rows, "lllrrrrrr")
-    foot = textwrap.wrap("convention: " + levels.convention, 100, subsequent_indent="  ")
-    foot += textwrap.wrap(
-        "columns: at the circuit's board (its origin) the maximum three-phase (Ik3) and "
+    return _with_notes(head, body, levels.convention, (
+        "at the circuit's board (its origin) the maximum three-phase (Ik3) and "
         "line-neutral (Ik1) currents and the window's end; at its far end the earth-fault loop "
         "Zs, the minimum earth-fault current Ief and the minimum short-circuit current Ik min "
-        "(LL: line-line, the cable has no neutral).", 100, subsequent_indent="  ")
+        "(LL: line-line, the cable has no neutral)."))
+
+
+def _with_notes(head: list[str], body: str, convention: str, columns: str) -> str:
+    """A fault table under its head lines, with the convention and the columns in words."""
+    foot = textwrap.wrap("convention: " + convention, 100, subsequent_indent="  ")
+    foot += textwrap.wrap("columns: " + columns, 100, subsequent_indent="  ")
     return "\n".join([*head, "", body, "", *foot])
 
 
@@ -132,13 +137,11 @@ def case_fault_table(study: Study, case: SupplyCase) -> str:
         ])
     body = table(["circuit", "board", "ph", "Ik3 kA", "Ik1 kA", "window kA", "Ief min kA",
                   "transient kA", "sustained kA", "Ik min kA"], rows, "lllrrrrrrr")
-    foot = textwrap.wrap("convention: " + levels.convention, 100, subsequent_indent="  ")
-    foot += textwrap.wrap(
-        "columns: initial (subtransient) currents: at the circuit's board the maximum "
+    return _with_notes(head, body, levels.convention, (
+        "initial (subtransient) currents: at the circuit's board the maximum "
         "three-phase (Ik3) and line-neutral (Ik1) currents and the window's end; at its far "
         "end the minimum earth fault Ief, its transient and sustained values, and the minimum "
-        "short circuit Ik min (LL: line-line).", 100, subsequent_indent="  ")
-    return "\n".join([*head, "", body, "", *foot])
+        "short circuit Ik min (LL: line-line)."))
 
 
 # ---------------------------------------------------------------------------------------------
