@@ -439,3 +439,60 @@ def _misfit(band: ResidualBand, earth_fault_a: float, limit_s: float, ra_ohm: fl
             return (f"not selective over {down.name} (needs type S and IΔn at least "
                     f"{SELECTIVITY_RATIO:g} times)")
     return None
+
+
+# -------------------------------------------------------------------------------------------
+# a study's RCDs (read from its circuits: ``rcd``, ``sockets``, ``leakage_ma``, ``device``)
+def rcd_of(study: Any, circuit_id: str) -> ResidualBand | None:
+    """The RCD of a circuit (``None`` when it has none).
+
+    Raises
+    ------
+    InputError
+        A bad ``rcd`` table, naming the circuit and the key (``rcd.idn_ma``).
+    """
+    table = getattr(study.by_id[circuit_id], "rcd", None)
+    if table is None:
+        return None
+    try:
+        return rcd_from_table(table)
+    except InputError as error:
+        raise error.within(circuit=circuit_id, key="rcd") from None
+
+
+def rcds_on_path(study: Any, circuit_id: str) -> tuple[tuple[str, ResidualBand], ...]:
+    """The RCDs an earth fault on a circuit flows through: its own, then those above, nearest
+    first, as (circuit id, band)."""
+    out = []
+    for cid in (circuit_id, *study.ancestors(circuit_id)):
+        band = rcd_of(study, cid)
+        if band is not None:
+            out.append((cid, band))
+    return tuple(out)
+
+
+def is_rccb(study: Any, circuit_id: str) -> bool:
+    """A circuit with an ``rcd`` and no overcurrent ``device``: a residual-current switch."""
+    return study.by_id[circuit_id].device is None
+
+
+def overcurrent_owner(study: Any, circuit_id: str) -> str | None:
+    """The circuit whose overcurrent device protects this one: itself, or for an RCCB the
+    nearest circuit above with a device (``None``: none above)."""
+    for cid in (circuit_id, *study.ancestors(circuit_id)):
+        if study.by_id[cid].device is not None:
+            return cid
+    return None
+
+
+def leakage_below_ma(study: Any, circuit_id: str) -> float | None:
+    """The standing leakage an RCD on this circuit carries: the circuit's ``leakage_ma`` and
+    that of every circuit below it [mA]; ``None`` when none of them gives one."""
+    given = [study.by_id[c].leakage_ma for c in (circuit_id, *study.descendants(circuit_id))]
+    given = [float(v) for v in given if v is not None]
+    return sum(given) if given else None
+
+
+def has_rcds(study: Any) -> bool:
+    """Whether any circuit of the study has an RCD."""
+    return any(getattr(c, "rcd", None) is not None for c in study.circuits)
