@@ -476,13 +476,10 @@ def is_rccb(study: Any, circuit_id: str) -> bool:
     return study.by_id[circuit_id].device is None
 
 
-def overcurrent_owner(study: Any, circuit_id: str) -> str | None:
-    """The circuit whose overcurrent device protects this one: itself, or for an RCCB the
-    nearest circuit above with a device (``None``: none above)."""
-    for cid in (circuit_id, *study.ancestors(circuit_id)):
-        if study.by_id[cid].device is not None:
-            return cid
-    return None
+def rccb_label(study: Any, circuit_id: str) -> str:
+    """What a person reads for a residual-current switch: ``"RCCB 30 mA type A"``."""
+    band = rcd_of(study, circuit_id)
+    return "RCCB" if band is None else band.name.replace("RCD", "RCCB", 1)
 
 
 def leakage_below_ma(study: Any, circuit_id: str) -> float | None:
