@@ -183,3 +183,25 @@ def test_ra_ohm_only_in_tt():
         study.loads('[supply]\npfc_a = 6000\nze_ohm = 0.35\nra_ohm = 20\n[[circuit]]\nid = "a"\n'
                     'from = "supply"\ndevice = "B16"\n')
     assert err.value.key == "supply.ra_ohm"
+
+
+def test_choose_proposes_an_rcd_where_disconnection_fails():
+    from coordination.choose import choose
+
+    s = tt_study(final("f", extra="load_a = 16\nsockets = true"))
+    c = choose(s, "f")
+    assert not c.found
+    proposed = [t for t in c.suggestions if t.startswith("an RCD on this circuit")]
+    # IEC 60364-4-41 411.3.3: socket-outlets up to 32 A get at most 30 mA
+    assert proposed and "idn_ma = 30" in proposed[0] and "meets every requirement" in proposed[0]
+
+
+def test_choose_refuses_an_rccb_and_skips_it_below():
+    from coordination.choose import choose
+
+    s = tt_study(final("rccb", device="", extra="rcd = { idn_ma = 30 }"),
+                 final("f", parent="rccb", extra="load_a = 10"))
+    with pytest.raises(InputError) as err:
+        choose(s, "rccb")
+    assert err.value.key == "--circuit" and "main" in str(err.value)
+    assert choose(s, "main").circuit == "main"
