@@ -205,3 +205,35 @@ def test_choose_refuses_an_rccb_and_skips_it_below():
         choose(s, "rccb")
     assert err.value.key == "--circuit" and "main" in str(err.value)
     assert choose(s, "main").circuit == "main"
+
+
+# IEC 60364-5-53 (from memory) with IEC 61008-1 limits: an RCBO of 30 mA under a 100 mA type S
+# is selective (by the rule), under a 30 mA general type it is not
+@pytest.mark.parametrize(("main_rcd", "verdict", "ok"),
+                         [("rcd = { idn_ma = 100, selective = true }", "total", True),
+                          ("rcd = { idn_ma = 30 }", "none", False)])
+def test_residual_pairs_in_the_analysis_and_its_json(main_rcd, verdict, ok):
+    from coordination import engine
+
+    s = tt_study(final("f", extra="rcd = { idn_ma = 30 }"), main_rcd=main_rcd)
+    levels = faults.compute(s)
+    analysis = engine.analyse(s, levels)
+    (pair,) = analysis.residual
+    assert (pair.upstream, pair.downstream, pair.verdict, pair.ok) == ("main", "f", verdict, ok)
+    assert analysis.ok is (ok and all(p.ok for p in analysis.pairs))
+    rows = analysis.to_json()["pairs"]
+    assert [r["protection"] for r in rows] == ["overcurrent", "residual"]
+    assert rows[1]["verdict"] == verdict and rows[1]["limit_a"] is None
+    assert analysis.summary()["pairs"] == 2
+
+
+def test_an_rccb_is_left_out_of_the_overcurrent_pairs():
+    from coordination import engine
+
+    s = tt_study(final("rccb", device="", extra="rcd = { idn_ma = 30 }"),
+                 final("f", parent="rccb", extra="rcd = { idn_ma = 10 }"))
+    analysis = engine.analyse(s, faults.compute(s))
+    assert [(p.upstream, p.downstream) for p in analysis.pairs] == [("main", "f")]
+    # but it is an RCD on the path: a 10 mA general type under a 30 mA general type
+    assert [(p.upstream, p.downstream, p.verdict) for p in analysis.residual] == [
+        ("rccb", "f", "none")]
