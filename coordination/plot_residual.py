@@ -78,8 +78,8 @@ def plot_residual(study: Study, feeder: str, *, levels: Any = None, ax: Axes | N
     study : Study
         The loaded study.
     feeder : str
-        The circuit that feeds the board (``"supply"`` for the origin), or a circuit with an RCD:
-        then its own RCD and those above it are drawn.
+        The circuit that feeds the board (``"supply"`` for the origin); a circuit that feeds no
+        board with RCDs stands for its own path: its RCD (if any) and those above it.
     levels : FaultLevels, optional
         Fault levels: the smallest earth fault among the drawn circuits is marked.
     ax : matplotlib Axes, optional
@@ -111,11 +111,10 @@ def plot_residual(study: Study, feeder: str, *, levels: Any = None, ax: Axes | N
     from matplotlib.figure import Figure
 
     with matplotlib.rc_context({"text.parse_math": False}):
-        if feeder != SUPPLY_ID and feeder in study.by_id and feeder not in residual_boards(
-                study) and getattr(study.by_id[feeder], "rcd", None) is not None:
+        if feeder != SUPPLY_ID and feeder not in residual_boards(study):  # one circuit's path
             here: tuple[str, ...] = (feeder,)
             above = study.ancestors(feeder)
-            where = f"{feeder} and the RCDs above it"
+            where = f"the RCDs on the path of {feeder}"
         else:
             here = residual_boards(study).get(feeder, ())
             above = () if feeder == SUPPLY_ID else (feeder, *study.ancestors(feeder))
@@ -128,8 +127,13 @@ def plot_residual(study: Study, feeder: str, *, levels: Any = None, ax: Axes | N
             ax = fig.add_axes((0.1, 0.24, 0.86, 0.68))
         else:
             fig = ax.figure
+        faults_ma: list[float] = []
+        if levels is not None:
+            found = [getattr(levels.by_circuit.get(c), "ief_min_a", None) for c in here]
+            faults_ma = [float(c) * 1000.0 for c in found if c]
         lo = min((b.pickup_min_a for b, _ in groups), default=0.015) * 1000.0 / 3.0
         hi = max((b.idn_a for b, _ in groups), default=0.03) * 1000.0 * 30.0
+        hi = max(hi, 2.0 * min(faults_ma)) if faults_ma else hi
         lo, hi = 10 ** np.floor(np.log10(lo)), 10 ** np.ceil(np.log10(hi))
         grid_ma = np.geomspace(lo, hi, 800)
         ax.set_xscale("log")
@@ -150,13 +154,17 @@ def plot_residual(study: Study, feeder: str, *, levels: Any = None, ax: Axes | N
                 line, = ax.step(grid_ma[shown], edge[shown], where="post", color=colour,
                                 linestyle=dash, linewidth=1.2)
                 line.set_gid(f"rcd-edge:{ids[0]}")
-        if levels is not None:
-            currents = [getattr(levels.by_circuit.get(c), "ief_min_a", None) for c in here]
-            currents = [float(c) * 1000.0 for c in currents if c]
-            if currents and lo <= min(currents) <= hi:
-                marker = ax.axvline(min(currents), color="#444444", linestyle=(0, (4, 2)),
-                                    linewidth=1.3, label="smallest earth fault on the board")
-                marker.set_gid("marker:earth-fault")
+        if faults_ma and lo <= min(faults_ma) <= hi:
+            marker = ax.axvline(min(faults_ma), color="#444444", linestyle=(0, (4, 2)),
+                                linewidth=1.3, label="smallest earth fault on the board "
+                                f"({min(faults_ma) / 1000.0:.3g} A)")
+            marker.set_gid("marker:earth-fault")
+        from matplotlib.ticker import FuncFormatter, LogLocator, NullLocator
+
+        for axis in (ax.xaxis, ax.yaxis):  # plain numbers: mA and s are in the axis labels
+            axis.set_major_locator(LogLocator(base=10.0, numticks=20))
+            axis.set_minor_locator(NullLocator())
+            axis.set_major_formatter(FuncFormatter(lambda v, _: f"{v:g}"))
         ax.grid(True, which="major", color="#b5b5b5", linewidth=0.6)
         ax.set_xlabel("residual current [mA]", fontsize=9)
         ax.set_ylabel("time [s]", fontsize=9)

@@ -2,6 +2,10 @@
 
 from __future__ import annotations
 
+import json
+import re
+from pathlib import Path
+
 import pytest
 
 from coordination import checks, faults, study
@@ -237,3 +241,37 @@ def test_an_rccb_is_left_out_of_the_overcurrent_pairs():
     # but it is an RCD on the path: a 10 mA general type under a 30 mA general type
     assert [(p.upstream, p.downstream, p.verdict) for p in analysis.residual] == [
         ("rccb", "f", "none")]
+
+
+EXAMPLE_TT = Path(__file__).resolve().parents[1] / "examples" / "orchard-cottage-tt.toml"
+
+
+def test_check_json_lists_residual_pairs_after_the_overcurrent_ones(cli):
+    out = cli("check", str(EXAMPLE_TT), "--json")
+    assert out.exit_code == 0
+    rows = json.loads(out.stdout)["pairs"]
+    kinds = [r["protection"] for r in rows]
+    assert set(kinds) == {"overcurrent", "residual"}
+    assert kinds == sorted(kinds)  # "overcurrent" rows first
+    assert {r["verdict"] for r in rows if r["protection"] == "residual"} == {"total"}
+
+
+def test_plot_of_an_rccb_is_its_residual_plot(cli, tmp_path):
+    out = cli("plot", str(EXAMPLE_TT), "--circuit", "workshop-rccb", "-o",
+              str(tmp_path / "rccb.png"))
+    assert out.exit_code == 0 and (tmp_path / "rccb.png").stat().st_size > 0
+
+
+def test_report_of_the_tt_example_has_the_rcds(tmp_path):
+    import pypdf
+
+    from coordination.report import write_report
+
+    target = tmp_path / "tt.pdf"
+    write_report(study.load(EXAMPLE_TT), target, csv=True)
+    text = "\n".join(page.extract_text() for page in pypdf.PdfReader(target).pages)
+    assert "residual current" in text and "IEC 61008-1" in text
+    assert re.search(r"RCCB 30\s", text)  # the register (its device cell may wrap)
+    assert "touch voltage" in text and "IEC 60364-5-53" in text
+    pairs_csv = (tmp_path / "tt-pairs.csv").read_text(encoding="utf-8")
+    assert pairs_csv.count(",residual") == 4
