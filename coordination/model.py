@@ -133,6 +133,11 @@ class Study:
         return MappingProxyType({k: tuple(v) for k, v in kids.items()})
 
     @cached_property
+    def rcd_circuits(self) -> frozenset[str]:
+        """Ids of the circuits that have an RCD (an ``rcd`` table)."""
+        return frozenset(c.id for c in self.circuits if c.rcd is not None)
+
+    @cached_property
     def depth(self) -> Mapping[str, int]:
         """Number of circuits above each circuit (0: fed from the supply)."""
         depths: dict[str, int] = {SUPPLY_ID: -1}

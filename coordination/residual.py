@@ -463,12 +463,11 @@ def rcd_of(study: Any, circuit_id: str) -> ResidualBand | None:
 def rcds_on_path(study: Any, circuit_id: str) -> tuple[tuple[str, ResidualBand], ...]:
     """The RCDs an earth fault on a circuit flows through: its own, then those above, nearest
     first, as (circuit id, band)."""
-    out = []
-    for cid in (circuit_id, *study.ancestors(circuit_id)):
-        band = rcd_of(study, cid)
-        if band is not None:
-            out.append((cid, band))
-    return tuple(out)
+    with_rcd = study.rcd_circuits
+    if not with_rcd:  # most studies: no walk up the tree at all
+        return ()
+    return tuple((cid, rcd_of(study, cid)) for cid in (circuit_id, *study.ancestors(circuit_id))
+                 if cid in with_rcd)
 
 
 def is_rccb(study: Any, circuit_id: str) -> bool:
@@ -492,4 +491,4 @@ def leakage_below_ma(study: Any, circuit_id: str) -> float | None:
 
 def has_rcds(study: Any) -> bool:
     """Whether any circuit of the study has an RCD."""
-    return any(getattr(c, "rcd", None) is not None for c in study.circuits)
+    return bool(study.rcd_circuits)
