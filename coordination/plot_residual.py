@@ -21,6 +21,7 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from coordination.model import SUPPLY_ID, Study
+from coordination.plot import BAND_ALPHA, DASHES, LITERAL_TEXT, PALETTE
 from coordination.residual import rcd_of
 from curves.rcd import ResidualBand
 
@@ -28,10 +29,6 @@ if TYPE_CHECKING:  # pragma: no cover
     from matplotlib.axes import Axes
     from matplotlib.figure import Figure
 
-#: Band colours and edge dashes: our own, as for the time-current plots (lightness differs, so a
-#: greyscale print tells them apart).
-PALETTE = ("#1a3d71", "#d0731e", "#2a6f46", "#421d4b", "#9262b9", "#155862", "#afa333")
-DASHES: tuple[Any, ...] = ("-", "--", "-.", ":", (0, (6, 2, 1, 2)), (0, (1, 1)), (0, (8, 3)))
 #: The time axis [s].
 T_LO_S, T_HI_S = 0.01, 10.0
 
@@ -110,7 +107,7 @@ def plot_residual(study: Study, feeder: str, *, levels: Any = None, ax: Axes | N
     import matplotlib
     from matplotlib.figure import Figure
 
-    with matplotlib.rc_context({"text.parse_math": False}):
+    with matplotlib.rc_context(LITERAL_TEXT):  # user text as written, "$" included
         if feeder != SUPPLY_ID and feeder not in residual_boards(study):  # one circuit's path
             here: tuple[str, ...] = (feeder,)
             above = study.ancestors(feeder)
@@ -148,7 +145,7 @@ def plot_residual(study: Study, feeder: str, *, levels: Any = None, ax: Axes | N
             shown = np.isfinite(band.t_min(i_a))
             label = f"{_names(ids)}: {band.name}"
             fill = ax.fill_between(grid_ma, t_lo, t_hi, where=shown, step="post", color=colour,
-                                   alpha=0.24, linewidth=0, label=label)
+                                   alpha=BAND_ALPHA, linewidth=0, label=label)
             fill.set_gid(f"rcd-band:{ids[0]}")
             for edge in (t_lo, t_hi):
                 line, = ax.step(grid_ma[shown], edge[shown], where="post", color=colour,
