@@ -63,6 +63,12 @@ ADDITIONAL_PROTECTION_IDN_MA = 30.0
 #: 1000 mA for distribution (common practice); 6 and 10 mA devices are for special locations.
 PROPOSED_IDN_MA = (30, 100, 300, 500, 1000)
 
+#: An RCCB (an RCD with no overcurrent device) is credited with breaking an earth fault only up
+#: to this current [A]: the least rated residual making and breaking capacity IΔm of
+#: IEC 61008-1 (10 In or 500 A, whichever is greater; from memory). Above it the overcurrent
+#: device must clear the fault (the safe side: the RCCB's own IΔm is not known).
+RCCB_BREAKING_A = 500.0
+
 #: Where the words of the checks come from.
 TOUCH_VOLTAGE_SOURCE = "IEC 60364-4-41 411.5.3"
 ADDITIONAL_PROTECTION_SOURCE = "IEC 60364-4-41 411.3.3"
@@ -470,9 +476,13 @@ def rcds_on_path(study: Any, circuit_id: str) -> tuple[tuple[str, ResidualBand],
                  if cid in with_rcd)
 
 
-def is_rccb(study: Any, circuit_id: str) -> bool:
-    """A circuit with an ``rcd`` and no overcurrent ``device``: a residual-current switch."""
-    return study.by_id[circuit_id].device is None
+def rcds_breaking(study: Any, circuit_id: str,
+                  current_a: float) -> tuple[tuple[str, ResidualBand], ...]:
+    """The RCDs on a circuit's path (:func:`rcds_on_path`) credited with breaking an earth
+    fault of ``current_a`` [A]: every RCD beside an overcurrent device (an RCBO breaks with its
+    breaker), an RCCB only up to :data:`RCCB_BREAKING_A`."""
+    return tuple((cid, band) for cid, band in rcds_on_path(study, circuit_id)
+                 if study.by_id[cid].device is not None or current_a <= RCCB_BREAKING_A)
 
 
 def rccb_label(study: Any, circuit_id: str) -> str:

@@ -275,3 +275,14 @@ def test_report_of_the_tt_example_has_the_rcds(tmp_path):
     assert "touch voltage" in text and "IEC 60364-5-53" in text
     pairs_csv = (tmp_path / "tt-pairs.csv").read_text(encoding="utf-8")
     assert pairs_csv.count(",residual") == 4
+
+
+def test_an_rccb_is_not_credited_with_breaking_a_large_earth_fault():
+    # IEC 61008-1 (from memory): an RCCB's rated residual making and breaking capacity IΔm is
+    # at least 500 A; above it the overcurrent device must clear the fault (the safe side)
+    from coordination.residual import rcds_breaking
+
+    s = tt_study(final("rccb", device="", extra="rcd = { idn_ma = 30 }"),
+                 final("f", parent="rccb", extra="rcd = { idn_ma = 10 }"))
+    assert [c for c, _ in rcds_breaking(s, "f", 400.0)] == ["f", "rccb"]
+    assert [c for c, _ in rcds_breaking(s, "f", 2000.0)] == ["f"]  # the RCBO breaks with its MCB

@@ -23,7 +23,7 @@ from coordination.checks.disconnection import _rcd_needed
 from coordination.checks.results import CheckResult, _result
 from coordination.criterion import breaking_duty
 from coordination.model import Study
-from coordination.residual import rcds_on_path
+from coordination.residual import rcds_breaking, rcds_on_path
 from curves.band import Band
 from curves.errors import InputError
 
@@ -252,8 +252,9 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
             continue
         t, energy = computed.get(i) or _edge_and_energy(band, i)
         cleared_by = None
-        if rcds and "earth fault" in what:  # an earth fault is a residual current
-            t_rcd, name = min((float(b.t_max(i)), b.name) for _, b in rcds)
+        breaking = rcds_breaking(study, cid, i) if rcds and "earth fault" in what else ()
+        if breaking:  # an earth fault is a residual current
+            t_rcd, name = min((float(b.t_max(i)), b.name) for _, b in breaking)
             if t_rcd < t:  # the RCD clears first: I2t is at most I^2 x its break time
                 t, energy, cleared_by = t_rcd, i * i * t_rcd, name
         need = adiabatic_min_csa_mm2(energy, k) if finite(energy) else math.inf

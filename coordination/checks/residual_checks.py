@@ -26,6 +26,7 @@ from coordination.residual import (
     needs_additional_protection,
     rcd_clearing,
     rcd_of,
+    rcds_breaking,
     rcds_on_path,
     touch_voltage_v,
     tt_earth_fault_a,
@@ -54,7 +55,7 @@ def rcd_disconnection(study: Study, circuit_id: str, ief_a: float,
     first then nearest first (empty when there is none)."""
     current = rcd_earth_fault_a(study, ief_a)
     return tuple(rcd_clearing(cid, band, current, limit_s)
-                 for cid, band in rcds_on_path(study, circuit_id))
+                 for cid, band in rcds_breaking(study, circuit_id, current))
 
 
 def rcd_relied_on(clearings: tuple[RcdClearing, ...]) -> RcdClearing | None:
