@@ -718,6 +718,17 @@ def residual_results(study: Study, levels: Any) -> tuple[PairResult, ...]:
     """
     from coordination.residual import rcd_of, rcds_on_path, residual_pairs
 
+    with_rcd = study.rcd_circuits
+    if not with_rcd:
+        return ()
+    above: dict[str, int] = {}  # RCDs above each circuit, counted parents first
+    for c in study.circuits:
+        above[c.id] = above.get(c.parent, 0) + (c.parent in with_rcd)
+    rows_needed = sum(above[cid] for cid in with_rcd)
+    if rows_needed > MAX_ROWS:
+        raise InputError(f"{rows_needed:,} pairs of RCDs in series to list; at most "
+                         f"{MAX_ROWS:,} are allowed: check the study in parts, one per board",
+                         circuit=max(with_rcd, key=above.__getitem__), key="rcd")
     paths = []
     for c in study.circuits:
         band = rcd_of(study, c.id)

@@ -313,9 +313,17 @@ def residual_pair(upstream: str, up: ResidualBand, downstream: str,
     >>> print(p.verdict, p.decided_by)
     total rule
     """
+    verdict, decided, reason = _selective(up, down)
+    return ResidualPair(upstream, downstream, up, down, verdict, decided, reason)
+
+
+@lru_cache(maxsize=1024)
+def _selective(up: ResidualBand, down: ResidualBand) -> tuple[str, str, str]:
+    """:func:`curves.rcd.residual_selective` once per pair of distinct RCDs (bands hash by
+    their settings): verdict, decided by (in the engine's words) and reason."""
     result = residual_selective(up, down)
-    decided = "time-current" if result.decided_by == "limits" else "rule"
-    return ResidualPair(upstream, downstream, up, down, result.verdict, decided, result.reason)
+    return (result.verdict, "time-current" if result.decided_by == "limits" else "rule",
+            result.reason)
 
 
 def residual_pairs(paths: Iterable[tuple[str, ResidualBand, Sequence[tuple[str, ResidualBand]]]]
