@@ -716,7 +716,7 @@ def residual_results(study: Study, levels: Any) -> tuple[PairResult, ...]:
     ----------
     IEC 60364-5-53 (RCDs in series, from memory); IEC 61008-1 / 61009-1.
     """
-    from coordination.residual import rcd_of, rcds_on_path, residual_pairs
+    from coordination.residual import rcd_of, residual_pairs
 
     with_rcd = study.rcd_circuits
     if not with_rcd:
@@ -729,11 +729,15 @@ def residual_results(study: Study, levels: Any) -> tuple[PairResult, ...]:
         raise InputError(f"{rows_needed:,} pairs of RCDs in series to list; at most "
                          f"{MAX_ROWS:,} are allowed: check the study in parts, one per board",
                          circuit=max(with_rcd, key=above.__getitem__), key="rcd")
+    bands = {cid: rcd_of(study, cid) for cid in with_rcd}
+    chains: dict[str, tuple] = {}  # the RCDs above each circuit, nearest first, parents first
     paths = []
     for c in study.circuits:
-        band = rcd_of(study, c.id)
-        if band is not None:
-            paths.append((c.id, band, rcds_on_path(study, c.id)[1:]))
+        parent_chain = chains.get(c.parent, ())
+        chains[c.id] = (((c.parent, bands[c.parent]), *parent_chain)
+                        if c.parent in with_rcd else parent_chain)
+        if c.id in with_rcd:
+            paths.append((c.id, bands[c.id], chains[c.id]))
     rows = []
     for pair in residual_pairs(paths):
         node = levels.by_circuit.get(pair.downstream)
