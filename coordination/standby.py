@@ -49,6 +49,7 @@ from coordination.checks.breaking_capacity import _breaking_capacity
 from coordination.checks.common import _Edges, a_text, s_text
 from coordination.checks.disconnection import _disconnection_limit
 from coordination.checks.fault_energy import _fault_energy
+from coordination.checks.residual_checks import rcd_earth_fault_a, rcd_reason
 from coordination.checks.results import CheckResult
 from coordination.decay import FaultFamily
 from coordination.faults import (
@@ -61,6 +62,7 @@ from coordination.faults import (
 )
 from coordination.generator import Decrement, StandbySource
 from coordination.model import SUPPLY_ID, Study
+from coordination.residual import RcdClearing, rcds_breaking
 from curves.band import Band
 from curves.errors import InputError
 
@@ -377,12 +379,20 @@ class _DecayEdges(_Edges):
     """The checks' edges read under a case: at each of a node's initial currents, the clearing
     time and energy of the decaying fault behind it (``inf``, never, for a current not given)."""
 
-    def __init__(self, values: Mapping[Band, Mapping[float, tuple[float, float]]]) -> None:
+    def __init__(self, values: Mapping[Band, Mapping[float, tuple[float, float]]],
+                 decrements: Mapping[float, Decrement]) -> None:
         self._values = {band: dict(v) for band, v in values.items()}
+        self._decrements = dict(decrements)
 
     def t_max(self, band: Band, i: float) -> float:
         pair = self._pair(band, i)
         return math.inf if pair is None else pair[0]
+
+    def residual_time(self, band: Any, i: float) -> float:
+        """An RCD's break time under the decaying fault of initial current ``i`` [s]: where the
+        decrement meets its upper edge (``inf`` for a current not given)."""
+        d = self._decrements.get(i)
+        return math.inf if d is None else float(decay.operating_time_s(band.t_max, d)[0])
 
 
 def _node_decrements(case_node: CaseNode, node: NodeFaults) -> list[tuple[float, Decrement]]:
@@ -398,9 +408,12 @@ def case_edges(case: SupplyCase, items: Iterable[tuple[str, Band]]) -> _DecayEdg
     """The clearing times and energies of devices under the case's faults of their circuits:
     ``(circuit id, band)`` items, one vectorised search per distinct band."""
     wanted: dict[Band, list[tuple[float, Decrement]]] = {}
+    decrements: dict[float, Decrement] = {}
     for cid, band in items:
         node = case.levels.by_circuit[cid]
-        wanted.setdefault(band, []).extend(_node_decrements(case.nodes[cid], node))
+        rows = _node_decrements(case.nodes[cid], node)
+        wanted.setdefault(band, []).extend(rows)
+        decrements.update(rows)
     values: dict[Band, dict[float, tuple[float, float]]] = {}
     for band, rows in wanted.items():
         d = Decrement(*(np.array([float(getattr(r, name)) for _, r in rows])
@@ -413,7 +426,7 @@ def case_edges(case: SupplyCase, items: Iterable[tuple[str, Band]]) -> _DecayEdg
             # two faults with one initial current: the later clearing and the larger energy
             old = mine.get(i)
             mine[i] = (t_k, e_k) if old is None else (max(old[0], t_k), max(old[1], e_k))
-    return _DecayEdges(values)
+    return _DecayEdges(values, decrements)
 
 
 def _disconnection(study: Study, case: SupplyCase, cid: str, band: Band,
@@ -442,8 +455,31 @@ def _disconnection(study: Study, case: SupplyCase, cid: str, band: Band,
                "circuit_class": what, "source": source,
                "assumption": "operating time read where the decaying current meets the "
                              "envelope's upper edge (common practice)"}
+    relied = None if ok else _rcd_clearing(study, cid, d, limit)
+    if relied is not None:  # IEC 60364-4-41 411.4.5 (TN), 411.5 (TT)
+        ok, t = True, relied.t_s
+        reason = rcd_reason(relied, cid, f"{band.name} alone would not: {reason}")
+        details.update({"rcd_circuit": relied.circuit, "rcd_device": relied.band.name,
+                        "rcd_current_a": relied.current_a})
     return CheckResult(cid, "disconnection", ok, t, limit, "s", reason, band.basis,
                        MappingProxyType(details), case=case.name)
+
+
+def _rcd_clearing(study: Study, cid: str, d: Decrement, limit_s: float) -> Any:
+    """The nearest RCD on the circuit's path that clears its decaying minimum earth fault in
+    time (its upper edge met by the decrement, as for an overcurrent device), else None."""
+    i0 = float(d.i_sub_a)
+    if not i0 > 0:
+        return None
+    current = rcd_earth_fault_a(study, i0)  # in TT at most c_min U0 / RA
+    scale = current / i0
+    residual = Decrement(i0 * scale, float(d.i_trans_a) * scale, float(d.i_sust_a) * scale,
+                         d.td2_s, d.td1_s)
+    for rcd_cid, rcd_band in rcds_breaking(study, cid, current):
+        t = float(decay.operating_time_s(rcd_band.t_max, residual)[0])
+        if t <= limit_s:
+            return RcdClearing(rcd_cid, rcd_band, current, t, limit_s, True)
+    return None
 
 
 def case_checks(study: Study, case: SupplyCase, circuit_id: str, band: Band,
@@ -488,7 +524,8 @@ def case_checks(study: Study, case: SupplyCase, circuit_id: str, band: Band,
             # "never cleared" means here that the decaying current falls away first
             out.append(replace(energy, reason=_NEVER_WORDS.sub(
                 " (the decaying current falls away before it operates)", energy.reason)))
-        out.append(_breaking_capacity(study, circuit_id, band, node))
+        if study.by_id[circuit_id].device is not None:  # an RCCB breaks no fault current
+            out.append(_breaking_capacity(study, circuit_id, band, node))
     except InputError as error:
         if error.key is not None and error.key.startswith("supply"):
             raise
@@ -549,6 +586,8 @@ def case_pairs(study: Study, case: SupplyCase, *, basis: str | None = None) -> t
     out: list[PairResult] = []
     for cid in case.circuits:
         circuit = study.by_id[cid]
+        if circuit.device is None:  # an RCCB has no overcurrent band (as engine.analyse)
+            continue
         down = bands[cid]
         margin, interval, required = study.pair_settings(cid)
         family = case.nodes[cid].window
@@ -557,6 +596,8 @@ def case_pairs(study: Study, case: SupplyCase, *, basis: str | None = None) -> t
         for up_id in study.ancestors(cid):
             if up_id not in fed:
                 break
+            if study.by_id[up_id].device is None:
+                continue
             up = bands[up_id]
             tested = circuit.tested_limits_a.get(up_id)
             key = (up, down, family, float(margin), float(interval), tested)

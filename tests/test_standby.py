@@ -246,3 +246,20 @@ def test_case_currents_fall_along_the_tree_and_never_rise_in_time(rating, xd2, e
         d = case.nodes[node.circuit].earth_end
         t = np.logspace(-4, 2, 50)
         assert np.all(np.diff(d.current_a(t)) <= 1e-9)
+
+
+def test_an_rcd_disconnects_the_decaying_earth_fault_on_the_generator():
+    """TT (invented electrode values): no overcurrent device clears the earth faults, on either
+    supply; a 300 mA type S RCD on the sub-main and 30 mA RCDs on the finals do, on both."""
+    data = copy.deepcopy(RAW)
+    data["supply"].update(earthing="TT", ze_ohm=21.0, ra_ohm=20.0)
+    data["circuit"][1]["rcd"] = {"idn_ma": 300, "selective": True}
+    for c in data["circuit"][2:]:
+        c["rcd"] = {"idn_ma": 30}
+    result = assess(study.from_dict(data))
+    (case,) = result.cases
+    for r in case.checks:
+        if r.check == "disconnection":
+            assert r.ok and r.details["rcd_circuit"] == r.circuit, r.reason
+            assert "alone would not" in r.reason
+    assert case.ok
