@@ -188,6 +188,13 @@ def window_decrement(node: CaseNode) -> Decrement:
     return node.window.at_initial_a(node.window.bolted_a)
 
 
+def _finite(value: Any) -> float | None:
+    """A current, or None where it does not exist (no line-neutral loop beyond a cable without
+    neutral), as :func:`coordination.faults.compute` gives it."""
+    value = float(value)
+    return value if math.isfinite(value) else None
+
+
 def case_convention(study: Study, source: StandbySource) -> str:
     """The conventions of a standby case, in words (printed with every table and in the JSON).
 
@@ -327,10 +334,10 @@ def case_levels(study: Study, source: StandbySource) -> SupplyCase:
         ief_min_board = v_min / float(zs_board[k])
         values = {
             "circuit": cid, "board": study.board_name(cid), "phases": circuit.phases,
-            "ik3_max_a": ik3, "ik1_max_a": ik1, "ik_max_a": ik3 if three else ik1,
+            "ik3_max_a": ik3, "ik1_max_a": _finite(ik1), "ik_max_a": ik3 if three else ik1,
             "ief_min_a": float(case_node.earth_end.i_sub_a), "zs_ohm": float(zs_end[k]),
             "ik_min_end_a": float(short.i_sub_a), "ik_min_end_kind": case_node.short_end_kind,
-            "ik3_max_end_a": float(three_end[k]), "ik1_max_end_a": float(loop_end[k]),
+            "ik3_max_end_a": float(three_end[k]), "ik1_max_end_a": _finite(loop_end[k]),
             "ik_max_end_a": float(three_end[k] if three else loop_end[k]),
             "zs_board_ohm": float(zs_board[k]), "ief_min_board_a": ief_min_board,
             "r1_r2_ohm": _own(circuit.cable)[6],

@@ -263,3 +263,14 @@ def test_an_rcd_disconnects_the_decaying_earth_fault_on_the_generator():
             assert r.ok and r.details["rcd_circuit"] == r.circuit, r.reason
             assert "alone would not" in r.reason
     assert case.ok
+
+
+def test_a_sub_main_without_neutral_gives_line_line_minima_on_the_generator():
+    data = copy.deepcopy(RAW)
+    data["circuit"][1]["cable"]["neutral_mm2"] = 0
+    data["circuit"] = [c for c in data["circuit"] if c.get("phases", 3) == 3]
+    case = assess(study.from_dict(data)).cases[0]
+    below = [n for n in case.case.levels.nodes if n.circuit != "sm-east"]
+    assert below and all(n.ik1_max_a is None and n.ik_min_end_kind == "line-line"
+                         for n in below)
+    assert all(math.isfinite(r.value) or r.check != "breaking-capacity" for r in case.checks)
