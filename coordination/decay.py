@@ -61,6 +61,9 @@ WINDOW_POINTS = 48
 _LIMIT_XTOL = 1e-4
 
 Edge = Callable[[np.ndarray], np.ndarray]
+#: What every pair's result under a decaying current rests on, in its note.
+_READING = ("the upstream device's time is read where the decaying current meets its lower edge "
+            "(common practice, not a bound: it has carried the larger earlier current)")
 
 
 def _time_grid() -> np.ndarray:
@@ -358,7 +361,7 @@ def compare_decaying(upstream: Band, downstream: Band, faults: FaultFamily, *,
     where = np.flatnonzero(bad)
     if where.size == 0:
         return DecayingSelectivity("total", None, "time-current", window,
-                                   note="selective for every fault in the window")
+                                   note=f"selective for every fault in the window; {_READING}")
     k = int(where[0])
     limit = float(grid[0])
     if k > 0:  # the first non-selective fault, on finer grids between the last two samples
@@ -375,7 +378,5 @@ def compare_decaying(upstream: Band, downstream: Band, faults: FaultFamily, *,
     t = float(t_down[0])
     decided = "energy" if t <= ENERGY_REGION_S * (1 + EQUAL_RTOL) else "time-current"
     verdict = "none" if limit <= downstream.pickup_max_a * (1 + EQUAL_RTOL) else "partial"
-    note = ("the upstream device's time is read where the decaying current meets its lower edge "
-            "(common practice; it has carried the larger earlier current)")
-    return DecayingSelectivity(verdict, limit, decided, window, note=note,
+    return DecayingSelectivity(verdict, limit, decided, window, note=_READING,
                                time_s=t if math.isfinite(t) else None)
