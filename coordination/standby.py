@@ -37,7 +37,7 @@ from __future__ import annotations
 
 import math
 import re
-from collections.abc import Iterable, Mapping
+from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
 from types import MappingProxyType
 from typing import Any
@@ -387,9 +387,9 @@ class _DecayEdges(_Edges):
     time and energy of the decaying fault behind it (``inf``, never, for a current not given)."""
 
     def __init__(self, values: Mapping[Band, Mapping[float, tuple[float, float]]],
-                 decrements: Mapping[float, Decrement]) -> None:
+                 decrements: Mapping[float, Sequence[Decrement]]) -> None:
         self._values = {band: dict(v) for band, v in values.items()}
-        self._decrements = dict(decrements)
+        self._decrements = {i: tuple(d) for i, d in decrements.items()}
 
     def t_max(self, band: Band, i: float) -> float:
         pair = self._pair(band, i)
@@ -397,9 +397,11 @@ class _DecayEdges(_Edges):
 
     def residual_time(self, band: Any, i: float) -> float:
         """An RCD's break time under the decaying fault of initial current ``i`` [s]: where the
-        decrement meets its upper edge (``inf`` for a current not given)."""
-        d = self._decrements.get(i)
-        return math.inf if d is None else float(decay.operating_time_s(band.t_max, d)[0])
+        decrement meets its upper edge (the latest of the faults with that initial current;
+        ``inf`` for a current not given)."""
+        faults = self._decrements.get(i, ())
+        return max((float(decay.operating_time_s(band.t_max, d)[0]) for d in faults),
+                   default=math.inf)
 
 
 def _node_decrements(case_node: CaseNode, node: NodeFaults) -> list[tuple[float, Decrement]]:
@@ -415,12 +417,13 @@ def case_edges(case: SupplyCase, items: Iterable[tuple[str, Band]]) -> _DecayEdg
     """The clearing times and energies of devices under the case's faults of their circuits:
     ``(circuit id, band)`` items, one vectorised search per distinct band."""
     wanted: dict[Band, list[tuple[float, Decrement]]] = {}
-    decrements: dict[float, Decrement] = {}
+    decrements: dict[float, list[Decrement]] = {}
     for cid, band in items:
         node = case.levels.by_circuit[cid]
         rows = _node_decrements(case.nodes[cid], node)
         wanted.setdefault(band, []).extend(rows)
-        decrements.update(rows)
+        for i, d in rows:
+            decrements.setdefault(i, []).append(d)
     values: dict[Band, dict[float, tuple[float, float]]] = {}
     for band, rows in wanted.items():
         d = Decrement(*(np.array([float(getattr(r, name)) for _, r in rows])
