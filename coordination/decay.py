@@ -42,7 +42,7 @@ import numpy as np
 
 from coordination import criterion
 from coordination.criterion import ADJUSTABLE_FAMILIES, EQUAL_RTOL
-from coordination.generator import Decrement, stage_currents_a
+from coordination.generator import Decrement, decrement_current_a, stage_currents_a
 from curves.band import ENERGY_REGION_S, Band
 
 #: The time grid on which a decrement is read [s]: from 10 us (the fault's start: T''d is at
@@ -111,8 +111,10 @@ def operating_time_s(edge: Edge, decrement: Decrement) -> np.ndarray:
     grid interval ``[t_j, t_j+1]`` where ``t_j+1 < edge(I(t_j))``; every other interval before
     the first sampled meeting is searched again on a finer grid, and the meeting found is then
     refined by bisection in log10 t (all faults at once) to the later end of the final bracket
-    (a time at which the edge has been met). A meeting that lasts less than one step of the
-    finer grid (about 0.2 % in time) may be missed.
+    (a time at which the edge has been met). A step edge is also probed at its own time
+    (``x = edge(I(t_j))``), so a definite time met only briefly is found exactly; another
+    meeting that lasts less than one step of the finer grid (about 0.2 % in time) may be
+    missed.
 
     References
     ----------
@@ -163,7 +165,33 @@ def operating_time_s(edge: Edge, decrement: Decrement) -> np.ndarray:
     if todo.size:
         sub = Decrement(*(f[todo] for f in fields), decrement.td2_s, decrement.td1_s)
         result[todo] = _refine(edge, sub, lo[todo], hi[todo])
-    return result
+    return np.minimum(result, _probe(edge, fields, decrement, t, h, first))
+
+
+def _probe(edge: Edge, fields: list[np.ndarray], decrement: Decrement, t: np.ndarray,
+           h: np.ndarray, first: np.ndarray) -> np.ndarray:
+    """Meetings at the edge's own time: where ``x = edge(I(t_j))`` falls inside the next grid
+    interval and the edge is still met there (``edge(I(x)) <= x``), the device operates at x
+    exactly (before x the edge lies above the time). This finds a step edge (a definite time,
+    an instantaneous release) met only briefly, however briefly, before the current falls
+    below its pickup [s] (``inf`` where there is none)."""
+    x = h[:, :-1]
+    columns = np.arange(x.shape[1])[np.newaxis, :]
+    with np.errstate(invalid="ignore"):
+        candidate = (x > t[np.newaxis, :-1]) & (x <= t[np.newaxis, 1:]) & (
+            columns < first[:, np.newaxis])
+    out = np.full(x.shape[0], np.inf)
+    rows, cols = np.nonzero(candidate)
+    if rows.size == 0:
+        return out
+    at = x[rows, cols]
+    current = decrement_current_a(at, fields[0][rows], fields[1][rows], fields[2][rows],
+                                  decrement.td2_s, decrement.td1_s)
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        h_at = np.asarray(edge(np.asarray(current, dtype=float)), dtype=float)
+    met = at >= np.where(np.isnan(h_at), np.inf, h_at)
+    np.minimum.at(out, rows[met], at[met])
+    return out
 
 
 def _refine(edge: Edge, rows: Decrement, a_s: np.ndarray, b_s: np.ndarray) -> np.ndarray:

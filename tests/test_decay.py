@@ -13,6 +13,7 @@ from hypothesis import strategies as st
 from coordination import decay, engine
 from coordination.decay import FaultFamily
 from coordination.generator import Decrement
+from curves.band import Band
 from curves.breaker import thermal_magnetic_band
 from curves.fuse import gg_band
 from curves.mcb import mcb_band
@@ -74,12 +75,13 @@ def test_many_faults_at_once_equal_one_at_a_time() -> None:
 
 
 def test_a_meeting_between_two_samples_is_found() -> None:
-    """An edge met only for an instant between two grid samples (the current falls below the
-    pickup 1 % later): found by the finer search (its step is about 0.2 % in time)."""
+    """A definite-time edge met only for an instant between two grid samples (the current
+    falls below the pickup 0.01 % later, far inside one step of the finer grid): found at its
+    own time by the probe."""
     t_grid = decay._GRID
     t_meet = math.sqrt(t_grid[100] * t_grid[101])  # between two samples
-    # the current falls through 1000 A at 1.01 t_meet
-    i0 = 1000.0 * math.exp(t_meet * 1.01 / 0.3)
+    # the current falls through 1000 A at 1.0001 t_meet
+    i0 = 1000.0 * math.exp(t_meet * 1.0001 / 0.3)
     d = Decrement(i0, i0, 0.0, 0.02, 0.3)
 
     def edge(i: np.ndarray) -> np.ndarray:
@@ -129,3 +131,29 @@ def test_fault_family_initial_currents() -> None:
     np.testing.assert_allclose(got.i_sub_a, want, rtol=1e-12)
     assert np.all(got.i_trans_a <= got.i_sub_a) and np.all(got.i_sust_a == 0)
 
+
+
+def test_the_limit_under_a_definite_time_upstream_is_where_its_pickup_is_still_carried():
+    """U operates at 0.3 s from 700 A, D clears at 0.05 s from 100 A, margin 10 (D's time
+    0.5 s): the pair stops being selective at the fault whose decaying current still carries
+    700 A at 0.3 s, found here by scipy's Brent method (a general-purpose library)."""
+    from scipy import optimize
+
+    def edges(pickup: float, t: float, name: str) -> Band:
+        def edge(i: np.ndarray) -> np.ndarray:
+            return np.where(np.asarray(i) >= pickup, t, np.inf)
+
+        return Band(name, "datasheet", "datasheet", pickup, pickup, pickup, 3600.0,
+                    lower=edge, upper=edge, key=(name,))
+
+    faults = FaultFamily((0.0057 + 0.038j, 0.0057 + 0.079j, None), 0.02 + 0.01j, 230.0, 0.02,
+                         0.3)
+    got = decay.compare_decaying(edges(700.0, 0.3, "U"), edges(100.0, 0.05, "D"), faults,
+                                 margin=10.0)
+
+    def carried(i0: float) -> float:
+        return float(np.ravel(faults.at_initial_a(i0).current_a(0.3))[0]) - 700.0
+
+    want = optimize.brentq(carried, 700.0, faults.bolted_a, xtol=1e-9)
+    assert got.verdict == "partial"
+    assert got.limit_a == pytest.approx(want, rel=5e-4)  # decay._LIMIT_XTOL
