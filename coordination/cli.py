@@ -297,7 +297,7 @@ def faults(study_path: StudyArg, as_json: JsonOption = False) -> None:
 @guarded
 def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption = None) -> None:
     """Selectivity of every upstream/downstream pair, plus the protection checks."""
-    from coordination import checks, engine, tables
+    from coordination import checks, engine, rules, tables
     from coordination.pipeline import assess
 
     s = load_study(study_path)
@@ -308,12 +308,14 @@ def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption 
         payload = {"pairs": Records(analysis.pairs, engine.PairResult.to_json),
                    "summary": analysis.summary(),
                    "checks": Records(result.checks, checks.CheckResult.json_record),
+                   "rules": rules.json_rules(rules.rule_set(s.rules)),
                    "ok": result.ok, "caution": CAUTION}
         echo_json(payload)
     else:
         typer.echo(tables.pair_table(s, result.levels, analysis))
         typer.echo("")
         typer.echo(tables.check_table(result.checks))
+        typer.echo(f"rules: {rules.summary(rules.rule_set(s.rules))}")
         typer.echo("")
         if not analysis.ok:
             uppers = sorted({p.upstream for p in analysis.pairs if not p.ok})

@@ -24,6 +24,7 @@ class Transformer:
     x_r: float = 6.0  # X/R of the transformer
     upstream_pfc_a: float | None = None  # the network's fault level referred to LV [A], or infinite
     upstream_x_r: float = 10.0
+    u_lv_v: float | None = None  # rated voltage on the low-voltage side U_rT [V]; None: sqrt(3) U0
 
 
 @dataclass(frozen=True)
@@ -64,6 +65,10 @@ class Cable:
     x_ohm_per_m: float | None = None  # reactance per metre per conductor; None: common practice
     cpc_material: str | None = None  # None: same as line conductors
     cpc_parallel: int | None = None  # protective conductors in parallel; None: same as parallel
+    cpc_separate: bool = False  # the cpc is installed apart from the cable (IEC 60364-5-54 A.54.2)
+    cpc_armour: bool = False  # the steel-wire armour is the protective conductor
+    armour_mm2: float | None = None  # cross-section of the armour [mm2] (with cpc_armour)
+    armour_ohm_per_m: float | None = None  # its resistance at 20 degC [ohm/m]; None: rho / A
 
 
 @dataclass(frozen=True)
@@ -89,11 +94,16 @@ class Circuit:
     margin: float | None = None  # time margin factor for pairs where this is downstream
     interval_s: float | None = None  # coordination time interval over adjustable breakers [s]
     board: str | None = None  # name of the board this circuit feeds (shown in printouts)
+    sockets: bool = False  # this circuit supplies socket-outlets
+    ring: bool = False  # a ring final circuit: the cable's length_m is the ring's whole length
+    backup_a: Mapping[str, float] = field(default_factory=dict)  # upstream id -> declared [A]
+    conditional_a: float | None = None  # the fed board's devices backed up by this one to [A]
 
     def __post_init__(self) -> None:
         if isinstance(self.device, Mapping) and not isinstance(self.device, MappingProxyType):
             object.__setattr__(self, "device", MappingProxyType(dict(self.device)))
         object.__setattr__(self, "tested_limits_a", MappingProxyType(dict(self.tested_limits_a)))
+        object.__setattr__(self, "backup_a", MappingProxyType(dict(self.backup_a)))
 
 
 @dataclass(frozen=True)
@@ -107,6 +117,7 @@ class Study:
     margin: float = 1.0  # default time margin factor: D's t_max * margin must stay below U's t_min
     interval_s: float = 0.0  # default coordination time interval over adjustable breakers [s]
     source: str | None = None  # path of the study file, when loaded from one
+    rules: str = "iec"  # the rule set of the protection checks: "iec" or "bs7671"
 
     # -- navigation (computed once, iteratively: deep trees never recurse) ----------------------
     @cached_property

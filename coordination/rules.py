@@ -298,3 +298,35 @@ def tagged(rules: RuleSet, text: str) -> str:
     [BS 7671:2018] Zs within limit
     """
     return f"[{rules.name}] {text}"
+
+
+def summary(rules: RuleSet) -> str:
+    """The rule set in one sentence, with its clauses: for the terminal, the JSON and the report.
+
+    Examples
+    --------
+    >>> print(summary(IEC)[:59])
+    IEC 60364: Table 41.1's times for final circuits up to 32 A
+    """
+    if rules.sockets_scope_a == rules.fixed_scope_a:
+        scope = f"final circuits up to {rules.fixed_scope_a:g} A"
+    else:
+        scope = (f"final circuits up to {rules.sockets_scope_a:g} A with socket-outlets and up "
+                 f"to {rules.fixed_scope_a:g} A for fixed equipment")
+    text = (f"{rules.name}: Table 41.1's times for {scope} ({rules.scope.cite}), 5 s (TN) / "
+            f"1 s (TT) for the others; overload {rules.overload.says} ({rules.overload.cite})")
+    if rules.i2_implied is not None:
+        text += f", where {rules.i2_implied.says} ({rules.i2_implied.cite})"
+    return (text + f"; back-up protection only as declared from the maker's tests "
+            f"({rules.backup.cite}).")
+
+
+def json_rules(rules: RuleSet) -> dict[str, str]:
+    """The rule set for the JSON output: ``key``, ``name`` and ``summary``.
+
+    Examples
+    --------
+    >>> print(json_rules(BS7671)["key"])
+    bs7671
+    """
+    return {"key": rules.key, "name": rules.name, "summary": summary(rules)}

@@ -42,6 +42,9 @@ class CheckResult:
     details : mapping
         Further numbers with units in their keys (``zs_ohm``, ``zs_max_ohm``, ``current_a``,
         ``source`` ...), for the JSON output and the report.
+    rules : str
+        The rule set the check applied (``"iec"``, ``"bs7671"``; :mod:`coordination.rules`),
+        also named at the head of ``reason``.
     """
 
     circuit: str
@@ -53,6 +56,7 @@ class CheckResult:
     reason: str
     basis: str
     details: Mapping[str, Any] = field(default_factory=dict)
+    rules: str = "iec"
 
     def __post_init__(self) -> None:
         if self.details.__class__ is not MappingProxyType:  # a read-only view is kept as given
@@ -89,6 +93,7 @@ class CheckResult:
             "unit": self.unit,
             "reason": self.reason,
             "basis": self.basis,
+            "rules": self.rules,
         }
         out = {**head, **self.details}
         if len(out) < len(head) + len(self.details):  # a detail named like a contract key

@@ -12,7 +12,7 @@ from collections.abc import Iterable, Sequence
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from coordination import CAUTION, __version__
+from coordination import CAUTION, __version__, rules
 from coordination.faults import FaultLevels
 from coordination.model import Study
 from coordination.pipeline import Assessment
@@ -101,6 +101,7 @@ def _cover(study: Study, result: Assessment) -> PageBuilder:
             verdict,
         ], y)
         y = block("Bases", [_basis_summary(study, basis)], y)
+        y = block("Rules", [rules.summary(rules.rule_set(study.rules))], y)
         y = block("Standards used", [f"{code}: {what}" for code, what in STANDARDS], y)
         # the caution, boxed
         fig.text(LEFT, y - 0.005, "Caution", fontsize=11, fontweight="bold", color=FAIL_INK,
