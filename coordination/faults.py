@@ -36,7 +36,8 @@ Conventions (also carried in :attr:`FaultLevels.convention` and printed with eve
   currents take ``Ik1 = pfc_a`` and minimum currents a loop of twice the phase impedance. From
   ``ze_ohm`` alone the line-neutral loop is taken equal to Ze, and a three-phase supply's phase
   impedance is bounded by Ze/2 (maximum currents) and Ze (minimum currents). A transformer
-  (IEC 60909-0 clause 6.3): ``Z_T = u_k U_r^2 / S_r`` with ``U_r = sqrt(3) U0``, split by its
+  (IEC 60909-0 clause 6.3): ``Z_T = u_k U_rT^2 / S_r`` with ``U_rT`` its rated low-voltage
+  ``u_lv_v`` (default ``sqrt(3) U0``), split by its
   X/R, and ``K_T = 0.95 c_max / (1 + 0.6 x_T)`` on maximum currents only; an upstream network
   referred to the low-voltage side ``Z_Q = c_max U0 / I_kQ``; a Dyn transformer's zero-sequence
   impedance equals its positive one, so the line-neutral loop at its terminals is

@@ -9,13 +9,15 @@ recursion. The keys, their bounds and the checks across keys and circuits are in
 
 Keys (units in every name that carries a number)::
 
-    [study]       title, basis, margin, interval_s
+    [study]       title, basis, margin, interval_s, rules
     [supply]      u0_v, phases, earthing, pfc_a, pfc_ln_a, ze_ohm, x_r, c_max, c_min
-    [supply.transformer]  rating_kva, impedance_pct, x_r, upstream_pfc_a, upstream_x_r
+    [supply.transformer]  rating_kva, impedance_pct, x_r, upstream_pfc_a, upstream_x_r, u_lv_v
     [[circuit]]   id, from, device, load_a, phases, basis, final, board, selective_to_a,
-                  tested_limits_a, breaking_capacity_a, margin, interval_s
+                  tested_limits_a, breaking_capacity_a, margin, interval_s, sockets, ring,
+                  backup_a, conditional_a
     [circuit.cable]  length_m, csa_mm2, cpc_mm2, material, insulation, iz_a, parallel,
-                  cpc_parallel, neutral_mm2, x_ohm_per_m, cpc_material
+                  cpc_parallel, neutral_mm2, x_ohm_per_m, cpc_material, cpc_separate,
+                  cpc_armour, armour_mm2, armour_ohm_per_m
 """
 
 
@@ -118,7 +120,7 @@ def _transformer(data: Any) -> Transformer:
                                 lo=0.0, hi=MAX_CURRENT_A),
         upstream_x_r=t.number("upstream_x_r", unit="", lo=0.0, hi=MAX_X_R, lo_open=False,
                               default=10.0),
-        u_lv_v=t.number("u_lv_v", unit="V", lo=0.0, hi=2000.0),
+        u_lv_v=t.number("u_lv_v", unit="V", lo=0.0, hi=1e6),  # bounded by U0 in _supply
     )
 
 

@@ -290,3 +290,27 @@ def test_ring_mid_point_matches_cables() -> None:
     # the check's R1 + R2 and the cables module agree (common practice, as above)
     r = cables.ring_r1_r2_ohm(1.0, 2.0)
     assert r == pytest.approx(0.75, rel=1e-12)
+
+
+# IEC 60364-4-43:2008 433.1 against BS 7671:2018 433.1.202 (from memory), through the chooser:
+# Ib 85 A needs a gG100 (the gG series: 80, 100, 125 A); with Iz 100 A its I2 = 1.6 In = 160 A
+# exceeds 1.45 Iz = 145 A, so under IEC no gG fuse-link fits (gG125 > Iz), while BS 7671 keeps
+# gG100 on In <= Iz.
+@pytest.mark.parametrize(("rules", "expected"), [("iec", None), ("bs7671", 100.0)])
+def test_chooser_reads_the_rule_set(rules: str, expected: float | None) -> None:
+    from coordination.choose import choose
+
+    s = _load("""
+[[circuit]]
+id = "tails"
+from = "supply"
+device = "gG100"
+load_a = 85
+[circuit.cable]
+length_m = 3
+csa_mm2 = 25
+iz_a = 100
+""", rules)
+    choice = choose(s, "tails", family="gG")
+    assert choice.found is (expected is not None)
+    assert choice.rating_a == expected
