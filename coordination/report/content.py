@@ -248,8 +248,9 @@ def _supply_lines(study: Study, levels: FaultLevels) -> list[str]:
         t = s.transformer
         upstream = (f", network {format_current(t.upstream_pfc_a)} referred to LV"
                     if t.upstream_pfc_a else ", infinite network assumed")
+        rated = "" if t.u_lv_v is None else f", rated {t.u_lv_v:g} V on its low-voltage side"
         lines.append(f"transformer {t.rating_kva:g} kVA, uk {t.impedance_pct:g} %, X/R "
-                     f"{t.x_r:g}{upstream}")
+                     f"{t.x_r:g}{rated}{upstream}")
     if s.pfc_a is not None:
         lines.append(f"declared prospective fault current {format_current(s.pfc_a)}")
     if s.ze_ohm is not None:
