@@ -9,6 +9,7 @@ memory).
 
 from __future__ import annotations
 
+import dataclasses
 import math
 
 import pytest
@@ -84,8 +85,7 @@ def test_armour_resistance_from_steel(armour_mm2: float, hot_c: float) -> None:
     assert cables.armour_r20_ohm_per_m(armour_mm2) == pytest.approx(r20, rel=1e-12)
     cable = Cable(length_m=50.0, csa_mm2=4.0, cpc_mm2=None,
                   insulation="pvc" if hot_c == 70.0 else "xlpe")
-    armoured = _armoured(cable, armour_mm2, None)
-    run = cables.run_impedances(armoured)
+    run = cables.run_impedances(_armoured(cable, armour_mm2, None))
     assert run.r_cpc_20 == pytest.approx(r20 * 50.0, rel=1e-12)
     assert run.r_cpc_hot == pytest.approx(r20 * 50.0 * (1 + 4.5e-3 * (hot_c - 20.0)), rel=1e-12)
 
@@ -102,11 +102,7 @@ def test_unknown_insulation_is_refused() -> None:
     assert math.isfinite(cables.separate_cpc_k("aluminium", "pvc", 400.0))
 
 
-def _armoured(cable: Cable, armour_mm2: float, ohm_per_m: float | None):
-    """The cable with its armour as the protective conductor (the model's fields, read by
-    ``run_impedances`` through the attribute names the study file uses)."""
-    from types import SimpleNamespace
-
-    fields = {name: getattr(cable, name) for name in cable.__dataclass_fields__}
-    return SimpleNamespace(**fields, cpc_armour=True, armour_mm2=armour_mm2,
-                           armour_ohm_per_m=ohm_per_m)
+def _armoured(cable: Cable, armour_mm2: float, ohm_per_m: float | None) -> Cable:
+    """The cable with its armour as the protective conductor."""
+    return dataclasses.replace(cable, cpc_armour=True, armour_mm2=armour_mm2,
+                               armour_ohm_per_m=ohm_per_m)
