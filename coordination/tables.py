@@ -59,9 +59,11 @@ def fault_table(study: Study, levels: FaultLevels) -> str:
     ]
     head += textwrap.wrap("source: " + levels.source, 100, subsequent_indent="  ")
     rows = []
+    rings = {c.id for c in study.circuits if c.ring}
     for node in levels.nodes:
         rows.append([
-            node.circuit, node.board, str(node.phases), _ka(node.ik3_max_a),
+            node.circuit + (" (ring)" if node.circuit in rings else ""), node.board,
+            str(node.phases), _ka(node.ik3_max_a),
             _ka(node.ik1_max_a), _ka(node.ik_max_a), _ohm(node.zs_ohm), _ka(node.ief_min_a),
             _ka(node.ik_min_end_a) + ("" if node.ik_min_end_kind == "line-neutral" else " LL"),
         ])
@@ -75,6 +77,11 @@ def fault_table(study: Study, levels: FaultLevels) -> str:
         "line-neutral (Ik1) currents and the window's end; at its far end the earth-fault loop "
         "Zs, the minimum earth-fault current Ief and the minimum short-circuit current Ik min "
         "(LL: line-line, the cable has no neutral).", 100, subsequent_indent="  ")
+    if rings:
+        foot += textwrap.wrap(
+            "(ring): a ring final circuit; its far end is the ring's mid-point, where R1 + R2 "
+            "is a quarter of the end-to-end (r1 + r2) (common practice).", 100,
+            subsequent_indent="  ")
     return "\n".join([*head, "", body, "", *foot])
 
 
