@@ -308,14 +308,14 @@ def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption 
         payload = {"pairs": Records(analysis.pairs, engine.PairResult.to_json),
                    "summary": analysis.summary(),
                    "checks": Records(result.checks, checks.CheckResult.json_record),
-                   "rules": rules.json_rules(rules.rule_set(s.rules)),
+                   "rules": rules.json_rules(s.rule_set),
                    "ok": result.ok, "caution": CAUTION}
         echo_json(payload)
     else:
         typer.echo(tables.pair_table(s, result.levels, analysis))
         typer.echo("")
         typer.echo(tables.check_table(result.checks))
-        typer.echo(f"rules: {rules.summary(rules.rule_set(s.rules))}")
+        typer.echo(f"rules: {rules.summary(s.rule_set)}")
         typer.echo("")
         if not analysis.ok:
             uppers = sorted({p.upstream for p in analysis.pairs if not p.ok})

@@ -12,6 +12,8 @@ from functools import cached_property
 from types import MappingProxyType
 from typing import Any
 
+from coordination import rules as national
+
 SUPPLY_ID = "supply"
 
 
@@ -118,6 +120,11 @@ class Study:
     interval_s: float = 0.0  # default coordination time interval over adjustable breakers [s]
     source: str | None = None  # path of the study file, when loaded from one
     rules: str = "iec"  # the rule set of the protection checks: "iec" or "bs7671"
+
+    @cached_property
+    def rule_set(self) -> national.RuleSet:
+        """The rule set of the protection checks (:mod:`coordination.rules`)."""
+        return national.rule_set(self.rules)
 
     # -- navigation (computed once, iteratively: deep trees never recurse) ----------------------
     @cached_property

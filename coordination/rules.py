@@ -56,8 +56,8 @@ class Clause:
         return f"{self.where} (from memory)" if self.from_memory else self.where
 
 
-@dataclass(frozen=True)
-class RuleSet:
+@dataclass(frozen=True, eq=False)  # one object per rule set: identity is equality (and a fast
+class RuleSet:                     # hash for the caches keyed on it)
     """The clauses a study's checks apply, as data.
 
     Parameters

@@ -30,6 +30,7 @@ from __future__ import annotations
 import difflib
 import re
 from collections.abc import Mapping
+from functools import lru_cache
 from types import MappingProxyType
 from typing import Any
 
@@ -259,9 +260,14 @@ def capacity_stated(spec: str | Mapping[str, Any]) -> bool:
             except InputError:
                 return False
             return capacity_stated(parsed)
-        match = _SHORTHAND.match(text)
-        return match is not None and match["cap"] is not None
+        return _shorthand_capacity(text)
     return False
+
+
+@lru_cache(maxsize=1024)
+def _shorthand_capacity(text: str) -> bool:
+    match = _SHORTHAND.match(text)
+    return match is not None and match["cap"] is not None
 
 
 def device_label(band: Band, *, compact: bool = False) -> str:

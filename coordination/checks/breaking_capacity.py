@@ -56,13 +56,13 @@ def _breaking_capacity(study: Study, cid: str, band: Band, node: Any) -> CheckRe
         reason = (f"{kind} fault {a_text(fault)} at the board exceeds {own} of {band.name}, "
                   f"within the {backup.describe(cover)}")
         return _result(cid, "breaking-capacity", True, fault, cover.current_a, "A", reason,
-                       band, details)
+                       band, details, study.rule_set)
     if not math.isfinite(capacity):
         reason = (f"breaking capacity of {band.name} unknown; give the circuit's "
                   "breaking_capacity_a, or declare a back-up (backup_a, or conditional_a on "
                   "the feeder)")
         return _result(cid, "breaking-capacity", False, fault, math.nan, "A", reason, band,
-                       details)
+                       details, study.rule_set)
     if own_ok:
         reason = (f"{band.name} breaks {a_text(capacity)} ({rating}, {origin}) >= {kind} fault "
                   f"{a_text(fault)} at its board")
@@ -74,4 +74,5 @@ def _breaking_capacity(study: Study, cid: str, band: Band, node: Any) -> CheckRe
                   f"{a_text(capacity)} of {band.name} ({origin}){short}: choose a device rated "
                   f"for at least {a_text(fault)}, or declare back-up protection proven by the "
                   "maker's tests (backup_a, or conditional_a on the feeder)")
-    return _result(cid, "breaking-capacity", own_ok, fault, capacity, "A", reason, band, details)
+    return _result(cid, "breaking-capacity", own_ok, fault, capacity, "A", reason, band, details,
+                   study.rule_set)

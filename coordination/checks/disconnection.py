@@ -198,7 +198,7 @@ def _disconnection_limit(study: Study, cid: str, band: Band) -> tuple[float, str
     final = study.is_final(cid)
     sockets = bool(study.by_id[cid].sockets)
     return (*_limit_and_class(study.supply.u0_v, study.supply.earthing, final, sockets,
-                              _in_a(band), rules.rule_set(study.rules)), final)
+                              _in_a(band), study.rule_set), final)
 
 
 @lru_cache(maxsize=1024)
@@ -262,4 +262,5 @@ def _disconnection(study: Study, cid: str, band: Band, node: Any, edges: _Edges)
         else:
             reason = (f"{head}: {times}; shorten the run, enlarge the conductors, choose a "
                       "faster device or use an RCD")
-    return _result(cid, "disconnection", ok, t, limit, "s", reason, band, details)
+    return _result(cid, "disconnection", ok, t, limit, "s", reason, band, details,
+                   study.rule_set)

@@ -346,4 +346,5 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
                   f"{'cpc' if conductor == 'protective' else 'conductors'}, choose a device "
                   "that lets through less energy, or show from the maker's let-through data "
                   f"that it stays within k2S2 = {(k * s) ** 2:.3g} A2s")
-    return _result(cid, "fault-energy", ok, need, s, "mm2", reason, band, details)
+    return _result(cid, "fault-energy", ok, need, s, "mm2", reason, band, details,
+                   study.rule_set)

@@ -156,9 +156,10 @@ def _overload(study: Study, cid: str, band: Band) -> CheckResult | None:
     iz = circuit.cable.iz_a if circuit.cable is not None else None
     if ib is None and iz is None:
         return None
-    ok, value, limit, reason, details = _overload_verdict(band, ib, iz,
-                                                          rules.rule_set(study.rules))
-    return CheckResult(cid, "overload", ok, value, limit, "A", reason, band.basis, details)
+    rule_set = study.rule_set
+    ok, value, limit, reason, details = _overload_verdict(band, ib, iz, rule_set)
+    return CheckResult(cid, "overload", ok, value, limit, "A", reason, band.basis, details,
+                       rule_set.key)
 
 
 @lru_cache(maxsize=4096)
@@ -227,4 +228,4 @@ def _overload_verdict(band: Band, ib: float | None, iz: float | None, rule_set: 
                     details["smaller_device"] = smaller
             reason = (f"{band.name} (I2 {a_text(i2)}): {'; '.join(failing)}: choose "
                       f"{' or '.join(fixes)}{implied_note}")
-    return ok, value, limit, reason, MappingProxyType(details)
+    return ok, value, limit, rules.tagged(rule_set, reason), MappingProxyType(details)

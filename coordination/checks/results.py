@@ -8,6 +8,7 @@ from dataclasses import dataclass, field
 from types import MappingProxyType
 from typing import Any
 
+from coordination.rules import RuleSet, tagged
 from curves.band import Band
 
 #: Check names, in the order they are run and printed.
@@ -102,11 +103,12 @@ class CheckResult:
 
 
 def _result(cid: str, check: str, ok: bool, value: float, limit: float, unit: str, reason: str,
-            band: Band, details: dict[str, Any]) -> CheckResult:
+            band: Band, details: dict[str, Any], rule_set: RuleSet) -> CheckResult:
     """A check's result over a details dict made for it alone (kept as a read-only view of that
-    dict rather than copied: 8,183 copies in a building's check)."""
-    return CheckResult(cid, check, ok, value, limit, unit, reason, band.basis,
-                       MappingProxyType(details))
+    dict rather than copied: 8,183 copies in a building's check), its reason headed by the rule
+    set's name (:func:`coordination.rules.tagged`)."""
+    return CheckResult(cid, check, ok, value, limit, unit, tagged(rule_set, reason), band.basis,
+                       MappingProxyType(details), rule_set.key)
 
 
 def _finite(x: Any) -> Any:

@@ -4,7 +4,6 @@ from __future__ import annotations
 
 from typing import Any
 
-from coordination import rules
 from coordination.checks.breaking_capacity import _breaking_capacity
 from coordination.checks.common import _Edges
 from coordination.checks.disconnection import _disconnection
@@ -90,15 +89,7 @@ def _check_device(study: Study, circuit_id: str, band: Band, node: Any,
         if error.key is not None and error.key.startswith("supply"):
             raise
         raise error.within(circuit=circuit_id) from None
-    rule_set = rules.rule_set(study.rules)
-    return tuple(_named(r, rule_set) for r in results if r is not None)
-
-
-def _named(result: CheckResult, rule_set: rules.RuleSet) -> CheckResult:
-    """The result with its rule set named: in front of its reason, and as ``rules``."""
-    return CheckResult(result.circuit, result.check, result.ok, result.value, result.limit,
-                       result.unit, rules.tagged(rule_set, result.reason), result.basis,
-                       result.details, rule_set.key)
+    return tuple(r for r in results if r is not None)
 
 
 def run(study: Study, levels: FaultLevels) -> tuple[CheckResult, ...]:

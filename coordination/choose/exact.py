@@ -39,7 +39,7 @@ def cheap_failure(problem: Problem, cand: Candidate, band: Band) -> Failure | No
         if setting > iz * (1 + 1e-9):
             return Failure("overload", f"cable: In {setting:g} A > Iz {iz:g} A (Ib <= In <= Iz)",
                            need_a=setting)
-        implied = rules.i2_implied(rules.rule_set(problem.study.rules), band.family)
+        implied = rules.i2_implied(problem.study.rule_set, band.family)
         if i2 > 1.45 * iz * (1 + 1e-9) and not implied:  # as the rule set reads 433.1
             return Failure("overload", f"cable: I2 {i2:.4g} A > 1.45 Iz {1.45 * iz:.4g} A",
                            need_a=i2 / 1.45)

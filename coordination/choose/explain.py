@@ -178,7 +178,7 @@ def _iz_needed(problem: Problem, cand: Candidate) -> float:
     """Iz that In <= Iz and I2 <= 1.45 Iz need [A] (I2 of the worst compliant device; In <= Iz
     alone where the study's rule set holds it enough, :func:`coordination.rules.i2_implied`)."""
     band = device_band(cand.spec, "envelope")
-    if rules.i2_implied(rules.rule_set(problem.study.rules), band.family):
+    if rules.i2_implied(problem.study.rule_set, band.family):
         return cand.setting_a
     return max(cand.setting_a, float(band.pickup_max_a) / 1.45)
 

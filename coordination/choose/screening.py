@@ -205,7 +205,7 @@ def screen_grid(problem: Problem, grid: SettingsGrid) -> np.ndarray:
     if ief <= 0:
         return np.zeros_like(ok)
     circuit = study.by_id[problem.circuit_id]
-    in_scope = rules.in_final_scope(rules.rule_set(study.rules), study.is_final(circuit.id),
+    in_scope = rules.in_final_scope(study.rule_set, study.is_final(circuit.id),
                                     circuit.sockets, grid.ir_a)
     limit = checks.disconnection_time_s(study.supply.u0_v, study.supply.earthing, in_scope)
     lt, st, inst = electronic_parts(np.array([ief]), grid, "envelope")[1]

@@ -101,7 +101,7 @@ def _cover(study: Study, result: Assessment) -> PageBuilder:
             verdict,
         ], y)
         y = block("Bases", [_basis_summary(study, basis)], y)
-        y = block("Rules", [rules.summary(rules.rule_set(study.rules))], y)
+        y = block("Rules", [rules.summary(study.rule_set)], y)
         y = block("Standards used", [f"{code}: {what}" for code, what in STANDARDS], y)
         # the caution, boxed
         fig.text(LEFT, y - 0.005, "Caution", fontsize=11, fontweight="bold", color=FAIL_INK,
