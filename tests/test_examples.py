@@ -17,11 +17,20 @@ SELECTIVITY_DEMOS = ("small-shop.toml", "office-building.toml")
 NAMES = (*SELECTIVITY_DEMOS, "cycle-shop-bs7671.toml")
 
 
+def _assessed(name):
+    s = study.load(EXAMPLES / name)
+    levels = faults.compute(s)
+    return name, s, levels, engine.analyse(s, levels), checks.run(s, levels)
+
+
 @pytest.fixture(scope="module", params=NAMES)
 def example(request):
-    s = study.load(EXAMPLES / request.param)
-    levels = faults.compute(s)
-    return request.param, s, levels, engine.analyse(s, levels), checks.run(s, levels)
+    return _assessed(request.param)
+
+
+@pytest.fixture(scope="module", params=SELECTIVITY_DEMOS)
+def selectivity_demo(request):
+    return _assessed(request.param)
 
 
 def test_every_example_is_listed_in_the_readme():
@@ -40,10 +49,8 @@ def test_example_checks_every_circuit(example):
     assert {r.circuit for r in results} == {c.id for c in s.circuits}
 
 
-def test_example_has_a_shaded_non_selective_pair(example):
-    name, s, levels, analysis, _ = example
-    if name not in SELECTIVITY_DEMOS:
-        pytest.skip("not a selectivity demonstration")
+def test_example_has_a_shaded_non_selective_pair(selectivity_demo):
+    _, s, levels, analysis, _ = selectivity_demo
     open_pairs = [p for p in analysis.pairs if p.verdict != "total"]
     assert open_pairs
     # at least one of them has a crossover zone with area inside its window, which the plot hatches
@@ -53,10 +60,8 @@ def test_example_has_a_shaded_non_selective_pair(example):
 RANK = {"none": 0, "partial": 1, "total": 2}
 
 
-def test_example_plots_its_worst_circuit(example):
-    name, s, levels, analysis, _ = example
-    if name not in SELECTIVITY_DEMOS:
-        pytest.skip("not a selectivity demonstration")
+def test_example_plots_its_worst_circuit(selectivity_demo):
+    _, s, levels, analysis, _ = selectivity_demo
     # the worst pair: the weakest verdict, then the smallest selective share of its window
     worst = min(analysis.pairs, key=lambda p: (RANK[p.verdict], (p.limit_a or 0.0) / p.window_a[1]))
     assert worst.verdict != "total"
