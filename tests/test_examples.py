@@ -11,10 +11,10 @@ from coordination.devices import band_for
 from coordination.plot import plot_circuit
 
 EXAMPLES = Path(__file__).resolve().parents[1] / "examples"
-#: The examples that show a crossover zone on purpose (README: "Examples").
+#: The examples that show a crossover zone on purpose (README: "Examples"); the others pass.
 SELECTIVITY_DEMOS = ("small-shop.toml", "office-building.toml")
 #: Every bundled example.
-NAMES = (*SELECTIVITY_DEMOS, "cycle-shop-bs7671.toml")
+NAMES = (*SELECTIVITY_DEMOS, "orchard-cottage-tt.toml", "cycle-shop-bs7671.toml")
 
 
 def _assessed(name):
@@ -44,8 +44,13 @@ def test_every_example_is_listed_in_the_readme():
 def test_example_checks_every_circuit(example):
     _, s, levels, analysis, results = example
     assert set(levels.by_circuit) == {c.id for c in s.circuits}
-    # every circuit is paired with every circuit above it
-    assert len(analysis.pairs) == sum(len(s.ancestors(c.id)) for c in s.circuits)
+    # every circuit with an overcurrent device is paired with every such circuit above it
+    # (a residual-current switch, rcd without device, has none)
+    def devices_above(cid):
+        return [a for a in s.ancestors(cid) if s.by_id[a].device is not None]
+
+    assert len(analysis.pairs) == sum(len(devices_above(c.id)) for c in s.circuits
+                                      if c.device is not None)
     assert {r.circuit for r in results} == {c.id for c in s.circuits}
 
 
@@ -129,3 +134,19 @@ def test_cycle_shop_passes_under_bs7671_and_differs_under_iec_as_its_readme_says
     # the consumer unit's MCBs pass on the declared conditional rating, not on their own
     ring = under_bs[("shop-ring", "breaking-capacity")]
     assert ring.value > 3000.0 and "declared back-up by tails" in ring.reason
+
+
+def test_the_tt_example_passes_every_check_with_its_rcds():
+    # IEC 60364-4-41 Table 41.1 (TT 0.2 s / 1 s), 411.5.3 (RA x IΔn <= 50 V), 411.3.3; the
+    # residual pairs by IEC 60364-5-53 (from memory)
+    s = study.load(EXAMPLES / "orchard-cottage-tt.toml")
+    assert s.supply.earthing == "TT"
+    levels = faults.compute(s)
+    analysis = engine.analyse(s, levels)
+    results = checks.run(s, levels)
+    assert analysis.ok and all(r.ok for r in results), [r for r in results if not r.ok]
+    names = {r.check for r in results}
+    assert {"touch-voltage", "additional-protection", "leakage"} <= names
+    assert all("RCD" in r.reason for r in results if r.check == "disconnection")
+    assert analysis.residual and all(p.protection == "residual" for p in analysis.residual)
+    assert any(s.by_id[c.id].device is None for c in s.circuits)  # an RCCB
