@@ -307,7 +307,7 @@ def faults(study_path: StudyArg, as_json: JsonOption = False) -> None:
 @guarded
 def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption = None) -> None:
     """Selectivity of every upstream/downstream pair, plus the protection checks."""
-    from coordination import checks, engine, tables
+    from coordination import checks, engine, rules, tables
     from coordination.pipeline import assess
     from coordination.standby import CASE_CHECKS
 
@@ -322,6 +322,7 @@ def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption 
         payload = {"pairs": Records(pairs, engine.PairResult.to_json),
                    "summary": analysis.summary(),
                    "checks": Records(results, checks.CheckResult.json_record),
+                   "rules": rules.json_rules(s.rule_set),
                    "ok": result.ok, "caution": CAUTION}
         if result.cases:
             payload["cases"] = {c.name: {"summary": c.analysis.summary(), "ok": c.ok}
@@ -331,6 +332,7 @@ def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption 
         typer.echo(tables.pair_table(s, result.levels, analysis))
         typer.echo("")
         typer.echo(tables.check_table(result.checks))
+        typer.echo(f"rules: {rules.summary(s.rule_set)}")
         typer.echo("")
         for case in result.cases:
             typer.echo(tables.case_heading(s, case.case))

@@ -38,7 +38,7 @@ from __future__ import annotations
 import math
 import re
 from collections.abc import Iterable, Mapping, Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from types import MappingProxyType
 from typing import Any
 
@@ -50,7 +50,7 @@ from coordination.checks.common import _Edges, a_text, s_text
 from coordination.checks.disconnection import _disconnection_limit
 from coordination.checks.fault_energy import _fault_energy
 from coordination.checks.residual_checks import rcd_earth_fault_a, rcd_reason
-from coordination.checks.results import CheckResult
+from coordination.checks.results import CheckResult, _result
 from coordination.decay import FaultFamily
 from coordination.faults import (
     NODE_FIELDS,
@@ -269,7 +269,7 @@ def case_levels(study: Study, source: StandbySource) -> SupplyCase:
     parent = np.array([index.get(c.parent, n) for c in circuits] + [n], dtype=np.intp)
     own = np.zeros((6, n + 1), dtype=complex)
     for i, c in enumerate(circuits):
-        own[:, i] = _own(c.cable)[:6]
+        own[:, i] = _own(c.cable, c.ring)[:6]
     total = path_sums(own, parent)
     origin = np.zeros(6, dtype=complex) if point == SUPPLY_ID else total[:, index[point]]
     rows = np.array([index[c] for c in fed], dtype=np.intp)
@@ -340,7 +340,7 @@ def case_levels(study: Study, source: StandbySource) -> SupplyCase:
             "ik3_max_end_a": float(three_end[k]), "ik1_max_end_a": _finite(loop_end[k]),
             "ik_max_end_a": float(three_end[k] if three else loop_end[k]),
             "zs_board_ohm": float(zs_board[k]), "ief_min_board_a": ief_min_board,
-            "r1_r2_ohm": _own(circuit.cable)[6],
+            "r1_r2_ohm": _own(circuit.cable, circuit.ring)[6],
             "z_ln_end_ohm": float(z_ln_end[k]) if has_ln[k] else None,
             "ief_max_board_a": max(float(case_node.earth_board.i_sub_a), ief_min_board),
         }
@@ -471,8 +471,8 @@ def _disconnection(study: Study, case: SupplyCase, cid: str, band: Band,
         reason = rcd_reason(relied, cid, f"{band.name} alone would not: {reason}")
         details.update({"rcd_circuit": relied.circuit, "rcd_device": relied.band.name,
                         "rcd_current_a": relied.current_a})
-    return CheckResult(cid, "disconnection", ok, t, limit, "s", reason, band.basis,
-                       MappingProxyType(details), case=case.name)
+    return replace(_result(cid, "disconnection", ok, t, limit, "s", reason, band, details,
+                           study.rule_set), case=case.name)
 
 
 def _rcd_clearing(study: Study, cid: str, d: Decrement, limit_s: float) -> Any:
@@ -520,8 +520,6 @@ def case_checks(study: Study, case: SupplyCase, circuit_id: str, band: Band,
     IEC 60364-4-41:2005, 411.3.2 and Table 41.1; IEC 60364-4-43:2008, 434.5.1, 434.5.2;
     IEC 60364-5-54:2011, 543.1.2.
     """
-    from dataclasses import replace
-
     node = case.levels.by_circuit[circuit_id]
     try:
         if edges is None:

@@ -60,9 +60,11 @@ def fault_table(study: Study, levels: FaultLevels) -> str:
     ]
     head += textwrap.wrap("source: " + levels.source, 100, subsequent_indent="  ")
     rows = []
+    rings = {c.id for c in study.circuits if c.ring}
     for node in levels.nodes:
         rows.append([
-            node.circuit, node.board, str(node.phases), _ka(node.ik3_max_a),
+            node.circuit + (" (ring)" if node.circuit in rings else ""), node.board,
+            str(node.phases), _ka(node.ik3_max_a),
             _ka(node.ik1_max_a), _ka(node.ik_max_a), _ohm(node.zs_ohm), _ka(node.ief_min_a),
             _ka(node.ik_min_end_a) + ("" if node.ik_min_end_kind == "line-neutral" else " LL"),
         ])
@@ -74,13 +76,22 @@ def fault_table(study: Study, levels: FaultLevels) -> str:
         "at the circuit's board (its origin) the maximum three-phase (Ik3) and "
         "line-neutral (Ik1) currents and the window's end; at its far end the earth-fault loop "
         "Zs, the minimum earth-fault current Ief and the minimum short-circuit current Ik min "
-        "(LL: line-line, the cable has no neutral)."))
+        "(LL: line-line, the cable has no neutral)."), RING_NOTE if rings else None)
 
 
-def _with_notes(head: list[str], body: str, convention: str, columns: str) -> str:
-    """A fault table under its head lines, with the convention and the columns in words."""
+#: Under a fault table that has a ring final circuit.
+RING_NOTE = ("(ring): a ring final circuit; its far end is the ring's mid-point, where R1 + R2 "
+             "is a quarter of the end-to-end (r1 + r2) (common practice).")
+
+
+def _with_notes(head: list[str], body: str, convention: str, columns: str,
+                more: str | None = None) -> str:
+    """A fault table under its head lines, with the convention, the columns and any further
+    note in words."""
     foot = textwrap.wrap("convention: " + convention, 100, subsequent_indent="  ")
     foot += textwrap.wrap("columns: " + columns, 100, subsequent_indent="  ")
+    if more:
+        foot += textwrap.wrap(more, 100, subsequent_indent="  ")
     return "\n".join([*head, "", body, "", *foot])
 
 
@@ -130,7 +141,8 @@ def case_fault_table(study: Study, case: SupplyCase) -> str:
     for node in levels.nodes:
         d = case.nodes[node.circuit].earth_end
         rows.append([
-            node.circuit, node.board, str(node.phases), _ka(node.ik3_max_a),
+            node.circuit + (" (ring)" if study.by_id[node.circuit].ring else ""), node.board,
+            str(node.phases), _ka(node.ik3_max_a),
             _ka(node.ik1_max_a), _ka(node.ik_max_a), _ka(node.ief_min_a),
             _ka(float(d.i_trans_a)), _ka(float(d.i_sust_a)),
             _ka(node.ik_min_end_a) + ("" if node.ik_min_end_kind == "line-neutral" else " LL"),
@@ -141,7 +153,8 @@ def case_fault_table(study: Study, case: SupplyCase) -> str:
         "initial (subtransient) currents: at the circuit's board the maximum "
         "three-phase (Ik3) and line-neutral (Ik1) currents and the window's end; at its far "
         "end the minimum earth fault Ief, its transient and sustained values, and the minimum "
-        "short circuit Ik min (LL: line-line)."))
+        "short circuit Ik min (LL: line-line)."),
+        RING_NOTE if any(study.by_id[c].ring for c in case.circuits) else None)
 
 
 # ---------------------------------------------------------------------------------------------
