@@ -293,9 +293,9 @@ def times(
                    "settings": dict(band.settings), "notes": list(band.notes),
                    "points": points})
         return
-    from coordination.text import format_times
+    from coordination.tables import times_table
 
-    typer.echo(format_times(band, points))
+    typer.echo(times_table(band, points))
 
 
 @app.command()
@@ -303,6 +303,7 @@ def times(
 def faults(study_path: StudyArg, as_json: JsonOption = False) -> None:
     """Fault levels at every board and circuit end."""
     from coordination import faults as fault_levels
+    from coordination import tables
 
     s = load_study(study_path)
     levels = fault_levels.compute(s)
@@ -311,7 +312,7 @@ def faults(study_path: StudyArg, as_json: JsonOption = False) -> None:
                    "origin": levels.origin_json(), "convention": levels.convention}
         echo_json(payload)
     else:
-        typer.echo(fault_levels.format_table(s, levels))
+        typer.echo(tables.fault_table(s, levels))
     done(0)
 
 
@@ -319,7 +320,7 @@ def faults(study_path: StudyArg, as_json: JsonOption = False) -> None:
 @guarded
 def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption = None) -> None:
     """Selectivity of every upstream/downstream pair, plus the protection checks."""
-    from coordination import checks, engine
+    from coordination import checks, engine, tables
     from coordination import faults as fault_levels
 
     s = load_study(study_path)
@@ -336,9 +337,9 @@ def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption 
                    "ok": ok, "caution": CAUTION}
         echo_json(payload)
     else:
-        typer.echo(engine.format_table(s, levels, analysis))
+        typer.echo(tables.pair_table(s, levels, analysis))
         typer.echo("")
-        typer.echo(checks.format_table(results))
+        typer.echo(tables.check_table(results))
         typer.echo("")
         if not analysis.ok:
             uppers = sorted({p.upstream for p in analysis.pairs if not p.ok})

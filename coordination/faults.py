@@ -50,7 +50,6 @@ at once by pointer jumping (log2 of the depth numpy steps), so deep chains need 
 from __future__ import annotations
 
 import math
-import textwrap
 from collections.abc import Mapping
 from dataclasses import dataclass, fields
 from functools import cached_property, lru_cache
@@ -61,7 +60,6 @@ import numpy as np
 
 from coordination import cables
 from coordination.model import Cable, Study, Supply
-from coordination.text import table
 
 SQRT3 = math.sqrt(3.0)
 
@@ -580,53 +578,3 @@ def compute(study: Study) -> FaultLevels:
         convention=convention_text(supply),
         u0_v=u0, c_max=c_max, c_min=c_min, source=src.description, k_t=src.k_t,
     )
-
-
-# -- printing ------------------------------------------------------------------------------------
-def _ka(i_a: float | None) -> str:
-    return "-" if i_a is None or not math.isfinite(i_a) else f"{i_a / 1000:.3f}"
-
-
-def _ohm(z: float | None) -> str:
-    if z is None or not math.isfinite(z):
-        return "-"
-    return f"{z:.4f}" if z < 100 else f"{z:.1f}"
-
-
-def format_table(study: Study, levels: FaultLevels) -> str:
-    """The fault levels as a readable table: currents in kA, impedances in ohm.
-
-    Examples
-    --------
-    >>> from coordination.study import from_dict
-    >>> s = from_dict({"supply": {"pfc_a": 16000, "ze_ohm": 0.35, "phases": 1},
-    ...                "circuit": [{"id": "a", "from": "supply", "device": "gG63"}]})
-    >>> print(format_table(s, compute(s)).count("16.000"))
-    3
-    """
-    ik3 = (f"{_ka(levels.origin_ik3_a)} kA" if levels.origin_ik3_a is not None
-           else "n/a (single-phase supply)")
-    head = [
-        f"Fault levels: {study.title}",
-        f"origin: Ik3 max {ik3}, Ik1 (line-neutral) max {_ka(levels.origin_ik1_a)} kA, "
-        f"Ze {_ohm(levels.ze_ohm)} ohm, U0 {levels.u0_v:g} V",
-    ]
-    head += textwrap.wrap("source: " + levels.source, 100, subsequent_indent="  ")
-    rows = []
-    for node in levels.nodes:
-        rows.append([
-            node.circuit, node.board, str(node.phases), _ka(node.ik3_max_a),
-            _ka(node.ik1_max_a), _ka(node.ik_max_a), _ohm(node.zs_ohm), _ka(node.ief_min_a),
-            _ka(node.ik_min_end_a) + ("" if node.ik_min_end_kind == "line-neutral" else " LL"),
-        ])
-    body = table(
-        ["circuit", "board", "ph", "Ik3 kA", "Ik1 kA", "window kA", "Zs ohm", "Ief min kA",
-         "Ik min kA"],
-        rows, "lllrrrrrr")
-    foot = textwrap.wrap("convention: " + levels.convention, 100, subsequent_indent="  ")
-    foot += textwrap.wrap(
-        "columns: at the circuit's board (its origin) the maximum three-phase (Ik3) and "
-        "line-neutral (Ik1) currents and the window's end; at its far end the earth-fault loop "
-        "Zs, the minimum earth-fault current Ief and the minimum short-circuit current Ik min "
-        "(LL: line-line, the cable has no neutral).", 100, subsequent_indent="  ")
-    return "\n".join([*head, "", body, "", *foot])

@@ -1172,7 +1172,7 @@ def run_demo(output_dir: str | os.PathLike) -> int:
     Demo: ...
     0
     """
-    from coordination import checks, engine, faults, study
+    from coordination import checks, engine, faults, study, tables
 
     folder = Path(output_dir)
     if folder.exists() and not folder.is_dir():
@@ -1185,9 +1185,9 @@ def run_demo(output_dir: str | os.PathLike) -> int:
     results = checks.run(s, levels)
     print(f"Demo: {s.title}")
     print(f"study file: {where}\n")
-    print(engine.format_table(s, levels, analysis))
+    print(tables.pair_table(s, levels, analysis))
     print()
-    print(checks.format_table(results))
+    print(tables.check_table(results))
     print()
     folder.mkdir(parents=True, exist_ok=True)
     target = folder / DEMO_REPORT_NAME
