@@ -17,7 +17,13 @@ from collections.abc import Iterable, Sequence
 from typing import TYPE_CHECKING, Any
 
 from coordination.model import Study
-from coordination.text import format_current, format_seconds, significant, table
+from coordination.text import (
+    TERMINAL_COLUMNS,
+    format_current,
+    format_seconds,
+    significant,
+    table,
+)
 
 if TYPE_CHECKING:
     from coordination.checks import CheckResult
@@ -90,12 +96,28 @@ def _pair_ka(value: float | None) -> str:
     return f"{value / 1000:.3g}"
 
 
-def pair_table(study: Study, levels: Any, analysis: Analysis) -> str:
+def _window(window_a: tuple[float, float]) -> str:
+    lo, hi = (float(significant(v, 3)) if math.isfinite(v) else v for v in window_a)
+    return f"{format_current(lo)}-{format_current(hi)}"
+
+
+def pair_table(study: Study, levels: Any, analysis: Analysis, *, unmet_only: bool = False,
+               width: int | None = TERMINAL_COLUMNS) -> str:
     """The pairs grouped by the board the downstream device sits on, and a summary line.
 
-    Columns: circuit, device, above (the upstream circuit and device), verdict, Is [kA], window
-    (A or kA), decided by, band bases (downstream/upstream), required [kA], ok. Devices are in
-    their compact form (an adjustable breaker's kind, rating and Ir; the JSON has the rest).
+    Columns: circuit, device, above (the upstream circuit and device), verdict, Is [kA],
+    required [kA], ok, decided by, window (A or kA). Each board's heading gives its largest
+    fault and the band bases (downstream/upstream) when every pair there shares them, else a
+    column does. Devices are in their compact form (an adjustable breaker's kind, rating and
+    Ir; the JSON has the rest).
+
+    Parameters
+    ----------
+    unmet_only : bool
+        Only the pairs below their required selectivity (the summary ``check`` prints).
+    width : int or None
+        The widest line: the above cells wrap inside their column to fit, between words, never
+        a number (``None``: no limit).
 
     Examples
     --------
@@ -126,31 +148,36 @@ def pair_table(study: Study, levels: Any, analysis: Analysis) -> str:
     label = compact_labels(study, analysis.basis, band_of=engine.band_for)
     groups: dict[str, list[PairResult]] = {}
     for p in analysis.pairs:
+        if unmet_only and p.ok:
+            continue
         groups.setdefault(study.board_name(p.downstream), []).append(p)
-    headers = ["circuit", "device", "above", "verdict", "Is kA", "window", "decided by",
-               "bases", "required kA", "ok"]
     blocks = []
     for board, pairs in groups.items():
+        bases = {(p.downstream_basis, p.upstream_basis) for p in pairs}
+        one_basis = len(bases) == 1
+        headers = ["circuit", "device", "above", "verdict", "Is kA", "required kA", "ok",
+                   "decided by", "window"] + ([] if one_basis else ["bases"])
         rows = []
         previous = None
         for p in pairs:
-            bases = (f"{_BASIS_SHORT.get(p.downstream_basis, p.downstream_basis)}/"
-                     f"{_BASIS_SHORT.get(p.upstream_basis, p.upstream_basis)}")
             first = p.downstream != previous
             previous = p.downstream
-            rows.append([
+            row = [
                 p.downstream if first else "", label[p.downstream] if first else "",
                 f"{p.upstream} ({label[p.upstream]})" if p.upstream_count == 1 else
                 f"{p.upstream} to {p.upstream_last} ({p.upstream_count} x {label[p.upstream]})",
                 _VERDICT_TEXT[p.verdict], _pair_ka(p.limit_a) if p.verdict != "total" else "-",
-                f"{format_current(p.window_a[0])} - {format_current(p.window_a[1])}",
-                p.decided_by, bases,
                 "total" if p.required_a is None else _pair_ka(p.required_a),
-                "yes" if p.ok else "NO",
-            ])
-        top = pairs[0].window_a[1] if pairs else float("nan")
-        blocks.append(f"board {board} (max fault {_pair_ka(top)} kA)\n"
-                      + table(headers, rows, "lllllrlllr"))
+                "yes" if p.ok else "NO", p.decided_by, _window(p.window_a),
+            ]
+            if not one_basis:
+                row.append(_bases(p.downstream_basis, p.upstream_basis))
+            rows.append(row)
+        top = pairs[0].window_a[1]
+        shared = f", bands {_bases(*next(iter(bases)))}" if one_basis else ""
+        blocks.append(f"board {board} (max fault {_pair_ka(top)} kA{shared})\n"
+                      + table(headers, rows, "llllrrrll" + "l" * (not one_basis),
+                              width=width, wrap=2))
     s = analysis.summary()
     if not analysis.pairs:
         blocks.append("no upstream/downstream pairs (a single level of devices)")
@@ -158,6 +185,13 @@ def pair_table(study: Study, levels: Any, analysis: Analysis) -> str:
         f"selectivity: {s['pairs']} pairs, {s['total']} total, {s['partial']} partial, "
         f"{s['none']} none; requirements unmet: {s['unmet']}")
     return "\n\n".join(blocks)
+
+
+def _bases(downstream: str, upstream: str) -> str:
+    """The band bases of a pair: one word when alike, else downstream/upstream (short)."""
+    if downstream == upstream:
+        return downstream
+    return f"{_BASIS_SHORT.get(downstream, downstream)}/{_BASIS_SHORT.get(upstream, upstream)}"
 
 
 # ---------------------------------------------------------------------------------------------
@@ -177,19 +211,95 @@ def _value_text(value: float, unit: str) -> str:
     return f"{value:.3g} {unit}"
 
 
-def check_table(results: Sequence[CheckResult] | Iterable[CheckResult]) -> str:
+#: A check that passes with less than this share of its limit to spare is "near limit".
+NEAR_LIMIT = 0.05
+
+
+def check_margin(result: CheckResult) -> float | None:
+    """The share of the limit a check has to spare: ``1 - value / limit`` (negative: over it).
+
+    For ``disconnection`` it is the earth-fault loop's margin, ``1 - Zs / Zs max``, the figure
+    a designer reads beside the time; ``None`` where there is no finite figure to compare.
+
+    Examples
+    --------
+    >>> from coordination.checks import CheckResult
+    >>> r = CheckResult("c1", "overload", True, 33.0, 34.0, "A", "fine", "envelope")
+    >>> print(round(check_margin(r), 3))
+    0.029
+    """
+    value, limit = result.value, result.limit
+    if result.check == "disconnection":
+        zs, zs_max = result.details.get("zs_ohm"), result.details.get("zs_max_ohm")
+        if zs is not None and zs_max and math.isfinite(zs) and math.isfinite(zs_max):
+            value, limit = zs, zs_max
+    if value is None or limit is None or not (math.isfinite(value) and math.isfinite(limit)):
+        return None
+    if limit <= 0:
+        return None
+    return 1.0 - value / limit
+
+
+def near_limit(result: CheckResult) -> bool:
+    """A check that passes within :data:`NEAR_LIMIT` (5 %) of its limit."""
+    margin = check_margin(result)
+    return bool(result.ok and margin is not None and margin < NEAR_LIMIT)
+
+
+def check_status(result: CheckResult) -> str:
+    """``"ok"``, ``"near limit"`` or ``"FAIL"``."""
+    if not result.ok:
+        return "FAIL"
+    return "near limit" if near_limit(result) else "ok"
+
+
+def check_cells(result: CheckResult) -> tuple[str, str]:
+    """The value and limit cells of a check, each naming what it is.
+
+    ``disconnection``: Zs against the largest Zs with which the device disconnects in time;
+    ``overload``: the comparison that binds (``"I2 46.4 A"`` against ``"1.45 Iz 59.5 A"``);
+    the others their value and limit in their unit.
+    """
+    from coordination.checks.common import ohm_text
+
+    details = result.details
+    if result.check == "disconnection" and details.get("zs_max_ohm") is not None:
+        zs = details.get("zs_ohm")
+        if zs is not None and math.isfinite(zs):
+            return f"Zs {ohm_text(zs)}", f"max {ohm_text(details['zs_max_ohm'])}"
+    if result.check == "overload" and " <= " in str(details.get("binding", "")):
+        left, right = str(details["binding"]).split(" <= ", 1)
+        return (f"{left} {_value_text(result.value, result.unit)}",
+                f"{right} {_value_text(result.limit, result.unit)}")
+    return _value_text(result.value, result.unit), _value_text(result.limit, result.unit)
+
+
+def _margin_text(result: CheckResult) -> str:
+    margin = check_margin(result)
+    if margin is None:
+        return "-"
+    return f"{margin * 100:.1f} %" if abs(margin) < 0.1 else f"{margin * 100:.0f} %"
+
+
+def check_table(results: Sequence[CheckResult] | Iterable[CheckResult], *,
+                attention_only: bool = False, width: int | None = TERMINAL_COLUMNS) -> str:
     """The protection checks as a plain-text table, circuit by circuit, failures marked.
 
     Parameters
     ----------
     results : sequence of CheckResult
         From :func:`coordination.checks.run`.
+    attention_only : bool
+        Only the checks that fail or are near their limit (the summary ``check`` prints).
+    width : int or None
+        The widest line; each row's reason is set under it, wrapped to this width.
 
     Returns
     -------
     str
-        A heading, one row per check (``FAIL`` rows marked with ``!``), the checks that the
-        study gave no data for, and a summary line.
+        A heading, one row per check (result ``ok``, ``near limit`` within 5 % of the limit,
+        or ``FAIL``; value and limit naming what they are; the margin left) with its reason
+        under it, the checks that the study gave no data for, and a summary line.
 
     Examples
     --------
@@ -202,26 +312,33 @@ def check_table(results: Sequence[CheckResult] | Iterable[CheckResult]) -> str:
 
     results = list(results)
     heading = ("Protection checks (worst case a compliant device allows: envelope upper edge, "
-               "maximum let-through; each passes when value <= limit)")
+               "maximum let-through; each passes when value <= limit; near limit: within "
+               f"{NEAR_LIMIT:.0%} of it; disconnection compares the loop impedance Zs)")
     grouped: dict[str, list[CheckResult]] = defaultdict(list)
     for r in results:
         grouped[r.circuit].append(r)
-    order = list(grouped)
     rows = []
+    reasons = []
     missing = []
-    for cid in order:
-        mine = grouped[cid]
-        for i, r in enumerate(mine):
-            rows.append([cid if i == 0 else "", r.check, "ok" if r.ok else "! FAIL",
-                         _value_text(r.value, r.unit), _value_text(r.limit, r.unit), r.reason])
+    for cid, mine in grouped.items():
+        shown = [r for r in mine if not attention_only or not r.ok or near_limit(r)]
+        for i, r in enumerate(shown):
+            value, limit = check_cells(r)
+            rows.append([cid if i == 0 else "", r.check, check_status(r), value, limit,
+                         _margin_text(r)])
+            reasons.append(r.reason)
         present = {r.check for r in mine}
         absent = [c for c in CHECK_NAMES if c not in present]
         if absent:
             missing.append(f"{cid} ({', '.join(absent)})")
-    body = table(["circuit", "check", "result", "value", "limit", "why / what to do"], rows,
-                 "lllrrl") if rows else "(no circuits)"
+    if rows:
+        body = table(["circuit", "check", "result", "value", "limit", "margin"], rows, "lllrrr",
+                     width=width, under=reasons)
+    else:
+        body = "(none fails or is near its limit)" if attention_only else "(no circuits)"
     failed = [r for r in results if not r.ok]
-    n_circ = len(order)
+    near = sum(1 for r in results if near_limit(r))
+    n_circ = len(grouped)
     summary = (f"protection checks: {len(results)} run on {n_circ} "
                f"circuit{'s' if n_circ != 1 else ''}, ")
     if failed:
@@ -229,11 +346,14 @@ def check_table(results: Sequence[CheckResult] | Iterable[CheckResult]) -> str:
         summary += f"{len(failed)} FAIL: {names}"
     else:
         summary += "all pass"
-    lines = [heading, body]
+    if near:
+        summary += f"; {near} near limit"
+    lines = [*textwrap.wrap(heading, width or 10_000), body]
     if missing:
-        lines.append("not checked (the study gives no load_a / cable.iz_a or no cable): "
-                     + "; ".join(missing))
-    lines.append(summary)
+        lines.extend(textwrap.wrap(
+            "not checked (the study gives no load_a / cable.iz_a or no cable): "
+            + "; ".join(missing), width or 10_000, subsequent_indent="  "))
+    lines.extend(textwrap.wrap(summary, width or 10_000, subsequent_indent="  "))
     return "\n".join(lines)
 
 
