@@ -358,6 +358,49 @@ def check_table(results: Sequence[CheckResult] | Iterable[CheckResult], *,
 
 
 # ---------------------------------------------------------------------------------------------
+# what the check command prints
+def check_text(study: Study, levels: Any, analysis: Analysis, results: Sequence[CheckResult],
+               *, every_row: bool = False, study_path: str = "STUDY",
+               width: int | None = TERMINAL_COLUMNS) -> str:
+    """The ``check`` command's printout (the caution is the command's to add).
+
+    By default a summary: the counts, then only the pairs below their required selectivity and
+    the checks that fail or are near their limit, each with its reason; ``every_row`` prints
+    every pair and every check (``check --all``).
+
+    Examples
+    --------
+    >>> from coordination import checks, faults, study
+    >>> from coordination.engine import analyse
+    >>> s = study.from_dict({"supply": {"pfc_a": 6000, "ze_ohm": 0.35, "phases": 1},
+    ...                      "circuit": [{"id": "a", "from": "supply", "device": "B6",
+    ...                                   "phases": 1}]})
+    >>> levels = faults.compute(s)
+    >>> text = check_text(s, levels, analyse(s, levels), checks.run(s, levels))
+    >>> print(text.splitlines()[-1])
+    every pair and every check: coordination check STUDY --all
+    """
+    pairs = pair_table(study, levels, analysis, unmet_only=not every_row, width=width)
+    protection = check_table(results, attention_only=not every_row, width=width)
+    blocks = [f"{study.title}: selectivity of every pair, then the protection checks"]
+    if not every_row:
+        unmet = sum(1 for p in analysis.pairs if not p.ok)
+        blocks.append(f"Pairs below their required selectivity: {unmet}"
+                      + (" (none)" if not unmet else ""))
+    blocks += [pairs, protection]
+    if not analysis.ok:
+        uppers = sorted({p.upstream for p in analysis.pairs if not p.ok})
+        blocks.append("\n".join(textwrap.wrap(
+            "next: for a pair that falls short, choose a larger upstream device "
+            f"(coordination choose {study_path} --circuit {uppers[0]}), give the "
+            "manufacturer's tested limit (tested_limits_a), or state the selectivity the "
+            "circuit needs (selective_to_a).", width or 10_000, subsequent_indent="  ")))
+    if not every_row:
+        blocks.append(f"every pair and every check: coordination check {study_path} --all")
+    return "\n\n".join(blocks)
+
+
+# ---------------------------------------------------------------------------------------------
 # a device's operating times (the times command)
 def times_table(band: Band, points: Sequence[dict]) -> str:
     """The `times` table: earliest and latest operating time per current."""
