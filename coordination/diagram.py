@@ -33,6 +33,7 @@ from collections.abc import Iterator, Mapping, Sequence
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any
 
+from coordination.boards import board_name, board_names, feeder_of
 from coordination.model import SUPPLY_ID, Cable, Study
 from coordination.text import format_current, format_seconds, significant
 from curves.errors import InputError
@@ -49,8 +50,6 @@ MAX_LEVELS = 4
 MAX_NOTES = 14
 #: A PNG or SVG holds one figure; wider than this many columns it would be unreadable.
 MAX_IMAGE_COLUMNS = 400
-#: The name of the board the supply feeds (``Study.board_name`` gives it too).
-ORIGIN = "origin"
 
 COLUMN_IN = 0.42
 MARGIN_IN = 0.6
@@ -143,52 +142,10 @@ class Sheet:
     part: tuple[int, int] = (1, 1)
 
 
-def feeder_of(study: Study, board: str) -> str:
-    """The circuit that feeds a board, given its name as printed or the feeder's id.
-
-    ``"origin"`` (or ``"supply"``) is the board the supply feeds, returned as ``"supply"``.
-
-    Raises
-    ------
-    InputError
-        Naming the key ``--board`` and the boards there are.
-
-    Examples
-    --------
-    >>> from coordination.model import Circuit, Supply
-    >>> s = Study("t", Supply(pfc_a=6000.0), (Circuit("main", "supply", "gG63", board="DB-1"),
-    ...                                       Circuit("lights", "main", "B6")))
-    >>> print(feeder_of(s, "DB-1"), feeder_of(s, "main"), feeder_of(s, "origin"))
-    main main supply
-    """
-    if board in (ORIGIN, SUPPLY_ID):
-        return SUPPLY_ID
-    names = board_names(study)
-    for feeder, name in names.items():
-        if name == board:
-            return feeder
-    if board in names:
-        return board
-    shown = ", ".join(sorted(names.values(), key=str.casefold)[:12])
-    more = "" if len(names) <= 12 else f" and {len(names) - 12} more"
-    what = f"circuit {board!r} feeds no board" if board in study.by_id else f"no board {board!r}"
-    raise InputError(f"{what}; boards: {ORIGIN}, {shown}{more}", key="--board")
-
-
-def board_names(study: Study) -> dict[str, str]:
-    """Each circuit that feeds a board -> the board's name as printed (its ``board`` or id)."""
-    return {cid: study.by_id[cid].board or cid
-            for cid, kids in study.children.items() if kids and cid != SUPPLY_ID}
-
-
-def _board_name(study: Study, node: str) -> str:
-    return ORIGIN if node == SUPPLY_ID else study.by_id[node].board or node
-
-
 def _span(study: Study, node: str) -> int:
     """Columns a board takes at least: its label (its name above its largest fault current)
     stands right of the line coming into it, over the right half of the board's columns."""
-    chars = max(len(_board_name(study, node)), len("Ik3 99.9 kA"))
+    chars = max(len(board_name(study, node)), len("Ik3 99.9 kA"))
     return 2 * max(1, math.ceil((chars * CHAR_EM * BOARD_PT / 72.0 + 0.15) / COLUMN_IN))
 
 
@@ -236,13 +193,13 @@ def _place(study: Study, root: str, kids_of: Mapping[str, Sequence[str]],
         if not kids:
             continue
         level = level_of[node] + 1
-        busbars.append(Busbar(_board_name(study, node), level, x[kids[0]], x[kids[-1]],
+        busbars.append(Busbar(board_name(study, node), level, x[kids[0]], x[kids[-1]],
                               None if node == SUPPLY_ID else node, x_in=x[node]))
         for k in kids:
             if k.startswith("group:"):
                 drops.append(Drop(k[6:], x[k], level, "group", members=tuple(kids_of[k + "/"])))
                 continue
-            drops.append(Drop(k, x[k], level, feeds=_board_name(study, k)
+            drops.append(Drop(k, x[k], level, feeds=board_name(study, k)
                               if kids_of.get(k) else None))
             order.append(k)
     return drops, busbars, width[root]
@@ -284,7 +241,7 @@ def _boards(study: Study) -> Sheet:
         feeders = [c for c in children if study.children.get(c)]
         finals = [c for c in children if not study.children.get(c)]
         if finals:
-            key = f"group:{_board_name(study, node)}"
+            key = f"group:{board_name(study, node)}"
             kids[key + "/"] = finals
             feeders.append(key)
         if feeders:
@@ -298,16 +255,16 @@ def _boards(study: Study) -> Sheet:
 
 def _board(study: Study, feeder: str, circuits: Sequence[str], part: tuple[int, int]) -> Sheet:
     """One board: where it is fed from (a stub), its feeder, its busbar and ``circuits``."""
-    name = _board_name(study, feeder)
+    name = board_name(study, feeder)
     n = len(circuits)
-    drops = [Drop(c, float(i), 1, elsewhere=_board_name(study, c)
+    drops = [Drop(c, float(i), 1, elsewhere=board_name(study, c)
                   if study.children.get(c) else None) for i, c in enumerate(circuits)]
     middle = _between(0.0, n - 1.0, range(n))
     busbars = [Busbar(name, 1, 0.0, float(max(n - 1, 0)), None if feeder == SUPPLY_ID else feeder,
                       x_in=middle)]
     if feeder != SUPPLY_ID:
         parent = study.by_id[feeder].parent
-        busbars.insert(0, Busbar(_board_name(study, parent), 0, middle, middle,
+        busbars.insert(0, Busbar(board_name(study, parent), 0, middle, middle,
                                  None if parent == SUPPLY_ID else parent, stub=True))
         drops.insert(0, Drop(feeder, middle, 0, feeds=name))
     title = f"board {name}" + (f" (sheet {part[0]} of {part[1]})" if part[1] > 1 else "")

@@ -15,6 +15,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from coordination import checks, diagram, engine, faults, study
+from coordination.boards import board_names
 from coordination.devices import compact_labels
 from coordination.model import Circuit, Study, Supply
 from curves.errors import InputError
@@ -59,14 +60,14 @@ def test_office_is_boards_then_one_sheet_per_board():
     sheets = diagram.plan(s)
     assert sheets[0].view == "boards"
     boards = [sheet.board for sheet in sheets[1:]]
-    assert boards == ["origin", *diagram.board_names(s).values()]
+    assert boards == ["origin", *board_names(s).values()]
     # every circuit hangs from its own board on exactly one board sheet
     hanging = Counter(d.key for sheet in sheets[1:] for d in sheet.drops if d.level == 1)
     assert hanging == Counter(c.id for c in s.circuits)
     # the boards sheet: every feeder once, every final circuit in exactly one group
     top = sheets[0]
     feeders = {d.key for d in top.drops if d.kind == "circuit"}
-    assert feeders == set(diagram.board_names(s))
+    assert feeders == set(board_names(s))
     members = Counter(m for d in top.drops if d.kind == "group" for m in d.members)
     assert members == Counter(c.id for c in s.circuits if not s.children.get(c.id))
 
@@ -86,7 +87,7 @@ def test_board_accepts_the_printed_name_or_the_feeder_id():
     by_id = diagram.plan(s, board="sm-ground")
     assert by_name == by_id and by_name[0].board == "DB-G"
     assert diagram.plan(s, board="origin")[0].board == "origin"
-    with pytest.raises(InputError, match=r"--board.*no board 'DB-9'.*DB-G"):
+    with pytest.raises(InputError, match=r"--board.*no circuit or board 'DB-9'.*DB-G"):
         diagram.plan(s, board="DB-9")
     with pytest.raises(InputError, match=r"g-light-lobby.*feeds no board"):
         diagram.plan(s, board="g-light-lobby")
@@ -276,6 +277,6 @@ def test_bad_format_or_board_writes_nothing(tmp_path):
     s = study.load(EXAMPLES / "small-shop.toml")
     with pytest.raises(InputError, match="unknown diagram format 'jpg'"):
         diagram.write_diagram(s, *_assess(s), tmp_path / "x.jpg")
-    with pytest.raises(InputError, match="no board"):
+    with pytest.raises(InputError, match="no circuit or board"):
         diagram.write_diagram(s, *_assess(s), tmp_path / "x.png", board="nowhere")
     assert list(tmp_path.iterdir()) == []
