@@ -448,7 +448,7 @@ def _text(ax: Axes, x: float, y: float, text: str, gid: str, **style: Any) -> An
 
 def draw_sheet(study: Study, levels: Any, sheet: Sheet, found: Problems, device: Mapping[str, str],
                *, number: int = 1, total: int = 1,
-               title_block: Sequence[tuple[str, str]] = ()) -> Figure:
+               title_block: Sequence[tuple[str, str]] = (), counted: str = "sheet") -> Figure:
     """Draw one sheet of the diagram.
 
     Parameters
@@ -463,6 +463,9 @@ def draw_sheet(study: Study, levels: Any, sheet: Sheet, found: Problems, device:
         Each circuit's device as printed (:func:`coordination.devices.compact_labels`).
     number, total : int
         This sheet's number and how many there are.
+    counted : str
+        What is counted in the title block: ``"sheet"`` (a diagram file) or ``"page"`` (a
+        page of the report).
     title_block : sequence of (str, str)
         The study's title-block fields (name, value) for the block in the corner.
 
@@ -523,7 +526,7 @@ def draw_sheet(study: Study, levels: Any, sheet: Sheet, found: Problems, device:
             _text(ax, MARGIN_IN, y, line, f"note:{key}" if key else "note:more", fontsize=7,
                   va="top", family="monospace")
             y -= NOTE_LINE_IN
-        _footer(ax, study, width, number, total, title_block)
+        _footer(ax, study, width, (counted, f"{number} of {total}"), title_block)
     return fig
 
 
@@ -609,13 +612,13 @@ def _draw_drop(ax: Axes, drop: Drop, label: str, mark: int | None, x_of: Any, y_
                 gid=f"continues:{drop.elsewhere}")
 
 
-def _footer(ax: Axes, study: Study, width: float, number: int, total: int,
+def _footer(ax: Axes, study: Study, width: float, count: tuple[str, str],
             title_block: Sequence[tuple[str, str]]) -> None:
     """The title block in the lower right corner: the study's title on its own line, then the
     title-block fields in two columns and the sheet's number; the caution beside it."""
     from matplotlib.patches import Rectangle
 
-    fields = [*title_block, ("sheet", f"{number} of {total}")]
+    fields = [*title_block, count]
     per_column = math.ceil(len(fields) / 2)
     box_w, box_h = 5.2, 0.32 + per_column * 0.15
     x0, y0 = width - MARGIN_IN - box_w, 0.25
