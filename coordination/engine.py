@@ -56,6 +56,7 @@ import numpy as np
 from coordination import criterion
 from coordination.criterion import ADJUSTABLE_FAMILIES, EQUAL_RTOL
 from coordination.devices import band_for
+from coordination.faults import FaultLevels
 from coordination.model import Study
 from coordination.roots import find_crossing
 from curves.band import ENERGY_REGION_S, TIME_CEILING_S, TIME_FLOOR_S, Band
@@ -558,7 +559,7 @@ def _segments(study: Study, head: _Run | None,
     return out
 
 
-def _window_top(levels: Any, circuit_id: str) -> float:
+def _window_top(levels: FaultLevels, circuit_id: str) -> float:
     try:
         node = levels.by_circuit[circuit_id]
     except KeyError:
@@ -566,7 +567,7 @@ def _window_top(levels: Any, circuit_id: str) -> float:
     return float(node.ik_max_a)
 
 
-def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
+def analyse(study: Study, levels: FaultLevels, *, basis: str | None = None) -> Analysis:
     """Selectivity of every circuit under every circuit above it.
 
     Parameters
@@ -679,7 +680,7 @@ def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
 
 # ---------------------------------------------------------------------------------------------
 # geometry, lazily, for plots and the report
-def overlap(study: Study, levels: Any, pair: PairResult | tuple[str, str],
+def overlap(study: Study, levels: FaultLevels, pair: PairResult | tuple[str, str],
             basis: str | None = None) -> BaseGeometry:
     """The crossover zone of a pair: where the upstream may operate before the downstream clears.
 

@@ -403,7 +403,30 @@ NODE_FIELDS = tuple(f.name for f in fields(NodeFaults))
 
 @dataclass(frozen=True)
 class FaultLevels:
-    """Fault levels of a whole study, one :class:`NodeFaults` per circuit (study order)."""
+    """Fault levels of a whole study, one :class:`NodeFaults` per circuit (study order).
+
+    What :func:`compute` returns, and what the engine, the checks, the plots and the report
+    take as ``levels``.
+
+    Attributes
+    ----------
+    nodes : tuple of NodeFaults
+        One per circuit, in study order (:attr:`by_circuit` finds one by its id).
+    origin_ik3_a : float or None
+        Three-phase maximum current at the origin [A]; ``None`` under a single-phase supply.
+    origin_ik1_a : float
+        Line-neutral maximum current at the origin [A].
+    ze_ohm : float
+        External earth-fault loop impedance Ze [ohm], given or taken from the source.
+    convention : str
+        The conventions used, in words (:func:`convention_text`).
+    u0_v, c_max, c_min : float
+        Nominal voltage to earth [V] and the voltage factors of IEC 60909-0 Table 1.
+    source : str
+        The source and how its impedance was found, in words.
+    k_t : float or None
+        The transformer's impedance correction factor K_T (IEC 60909-0, 6.3), if any.
+    """
 
     nodes: tuple[NodeFaults, ...]
     origin_ik3_a: float | None
@@ -418,6 +441,7 @@ class FaultLevels:
 
     @cached_property
     def by_circuit(self) -> Mapping[str, NodeFaults]:
+        """The nodes by circuit id (read-only)."""
         return MappingProxyType({n.circuit: n for n in self.nodes})
 
     def to_json(self) -> dict[str, Any]:

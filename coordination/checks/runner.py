@@ -10,12 +10,13 @@ from coordination.checks.disconnection import _disconnection
 from coordination.checks.fault_energy import _fault_energy
 from coordination.checks.overload import _overload
 from coordination.checks.results import CheckResult
+from coordination.faults import FaultLevels
 from coordination.model import Study
 from curves.band import Band
 from curves.errors import InputError
 
 
-def check_device(study: Study, levels: Any, circuit_id: str,
+def check_device(study: Study, levels: FaultLevels, circuit_id: str,
                  band: Band) -> tuple[CheckResult, ...]:
     """The protection checks of one circuit with a given device.
 
@@ -91,7 +92,7 @@ def _check_device(study: Study, circuit_id: str, band: Band, node: Any,
     return tuple(r for r in results if r is not None)
 
 
-def run(study: Study, levels: Any) -> tuple[CheckResult, ...]:
+def run(study: Study, levels: FaultLevels) -> tuple[CheckResult, ...]:
     """Every protection check of every circuit, on the envelope basis.
 
     Parameters
