@@ -295,7 +295,14 @@ def faults(study_path: StudyArg, as_json: JsonOption = False) -> None:
 
 @app.command()
 @guarded
-def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption = None) -> None:
+def check(
+    study_path: StudyArg,
+    as_json: JsonOption = False,
+    basis: BasisOption = None,
+    every_row: Annotated[bool, typer.Option(
+        "--all", help="Print every pair and every check (default: a summary and what fails "
+        "or is near its limit).")] = False,
+) -> None:
     """Selectivity of every upstream/downstream pair, plus the protection checks."""
     from coordination import checks, engine, tables
     from coordination.pipeline import assess
@@ -311,18 +318,9 @@ def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption 
                    "ok": result.ok, "caution": CAUTION}
         echo_json(payload)
     else:
-        typer.echo(tables.pair_table(s, result.levels, analysis))
+        typer.echo(tables.check_text(s, result.levels, analysis, result.checks,
+                                     every_row=every_row, study_path=str(study_path)))
         typer.echo("")
-        typer.echo(tables.check_table(result.checks))
-        typer.echo("")
-        if not analysis.ok:
-            uppers = sorted({p.upstream for p in analysis.pairs if not p.ok})
-            typer.echo(
-                "next: for a pair that falls short, choose a larger upstream device "
-                f"(coordination choose {study_path} --circuit {uppers[0]}), give the "
-                "manufacturer's tested limit (tested_limits_a), or state the selectivity the "
-                "circuit needs (selective_to_a)."
-            )
         typer.echo(CAUTION)
     raise typer.Exit(0 if result.ok else 1)
 
@@ -334,8 +332,9 @@ def choose(
     circuit: Annotated[str | None, typer.Option("--circuit", help="Circuit id to choose for.")]
     = None,
     board: Annotated[str | None, typer.Option(
-        "--board", help="Choose every sub-main and incomer above the final circuits fed from "
-        "this circuit's board, bottom up ('supply' for the whole study).")] = None,
+        "--board", help="Choose every sub-main and incomer above the final circuits of a "
+        "board, bottom up: the board's name as printed or the id of the circuit feeding it "
+        "('origin' for the whole study).")] = None,
     family: Annotated[str | None, typer.Option(
         "--family", help="Device family to search: B, C, D (MCB types), gG, tm, electronic.")]
     = None,
@@ -394,6 +393,40 @@ def plot(
 
 @app.command()
 @guarded
+def diagram(
+    study_path: StudyArg,
+    output: Annotated[Path, typer.Option("-o", "--output", help="PNG, SVG or PDF file.")],
+    board: Annotated[str | None, typer.Option(
+        "--board", help="Only this board: its name as printed or the id of the circuit "
+        "feeding it ('origin' for the board the supply feeds).")] = None,
+    basis: BasisOption = None,
+) -> None:
+    """Installation diagram: supply, boards and circuits, failing ones marked (a PDF has a
+    sheet per board of a large study; an image the first view)."""
+    gc.enable()  # matplotlib's figures hold reference cycles (see main)
+    from coordination.io import check_output_path
+
+    check_output_path(output, inputs=(study_path,), key="-o")
+    if output.suffix.lower() not in (".png", ".svg", ".pdf"):
+        raise InputError(f"unknown diagram format {output.suffix!r}; allowed: .png, .svg, .pdf",
+                         key="-o")
+    from coordination import diagram as drawing
+    from coordination.pipeline import assess
+
+    s = load_study(study_path)
+    if board is not None:
+        drawing.plan(s, board=board)  # an unknown board is refused before anything is computed
+    result = assess(s, check_basis(basis))
+    verdict(0 if result.ok else 1)
+    sheets = drawing.write_diagram(s, result.levels, result.analysis, result.checks, output,
+                                   board=board, title_block=s.title_block)
+    typer.echo(f"wrote {output} ({sheets} sheet{'s' if sheets != 1 else ''})")
+    typer.echo(CAUTION)
+    raise typer.Exit(0 if result.ok else 1)
+
+
+@app.command()
+@guarded
 def report(
     study_path: StudyArg,
     output: Annotated[Path, typer.Option("-o", "--output", help="The PDF to write.")],
@@ -445,8 +478,8 @@ def main() -> NoReturn:
     The cyclic garbage collector is off: a check builds a few hundred thousand acyclic objects
     that reference counting frees, and the collector's passes over them cost 0.05 s of a
     2,061-circuit check for nothing freed (docs/performance.md). The commands that draw
-    (``plot``, ``report``, ``demo``) turn it back on: matplotlib's figures hold reference
-    cycles.
+    (``plot``, ``diagram``, ``report``, ``demo``) turn it back on: matplotlib's figures hold
+    reference cycles.
 
     From Python, call the functions the commands call (or ``app`` through typer's test runner).
     """

@@ -9,7 +9,8 @@ recursion. The keys, their bounds and the checks across keys and circuits are in
 
 Keys (units in every name that carries a number)::
 
-    [study]       title, basis, margin, interval_s
+    [study]       title, basis, margin, interval_s; the title block: client, project,
+                  reference, revision, designer, checker, date
     [supply]      u0_v, phases, earthing, pfc_a, pfc_ln_a, ze_ohm, x_r, c_max, c_min
     [supply.transformer]  rating_kva, impedance_pct, x_r, upstream_pfc_a, upstream_x_r
     [[circuit]]   id, from, device, load_a, phases, basis, final, board, selective_to_a,
@@ -21,6 +22,7 @@ Keys (units in every name that carries a number)::
 
 from __future__ import annotations
 
+import datetime as dt
 import os
 import stat
 from collections.abc import Mapping
@@ -48,6 +50,8 @@ from coordination.study_rules import (
     STUDY_KEYS,
     SUPPLY_KEYS,
     TABLES,
+    TITLE_BLOCK_CHARS,
+    TITLE_BLOCK_KEYS,
     TOP_KEYS,
     TRANSFORMER_KEYS,
     ZE_PFC_TOLERANCE,
@@ -80,6 +84,8 @@ __all__ = [
     "STUDY_KEYS",
     "SUPPLY_KEYS",
     "TABLES",
+    "TITLE_BLOCK_CHARS",
+    "TITLE_BLOCK_KEYS",
     "TOP_KEYS",
     "TRANSFORMER_KEYS",
     "ZE_PFC_TOLERANCE",
@@ -97,12 +103,34 @@ def _study_table(data: Any, source: str | None) -> dict[str, Any]:
         title = Path(source).stem if source else "untitled study"
     return {
         "title": title,
+        "title_block": _title_block(t),
         "basis": t.choice("basis", BASES, default="typical"),
         "margin": t.number("margin", unit="(factor)", lo=1.0, hi=10.0, lo_open=False,
                            default=1.0),
         "interval_s": t.number("interval_s", unit="s", lo=0.0, hi=10.0, lo_open=False,
                                default=0.0),
     }
+
+
+def _title_block(t: Table) -> tuple[tuple[str, str], ...]:
+    """The title-block keys given, in :data:`TITLE_BLOCK_KEYS` order: one line of text each
+    (``date`` may also be a TOML date), at most :data:`TITLE_BLOCK_CHARS` characters."""
+    fields = []
+    for key in TITLE_BLOCK_KEYS:
+        value = t.data.get(key)
+        if key == "date" and isinstance(value, dt.date | dt.datetime):
+            fields.append((key, value.isoformat()))
+            continue
+        text = t.text(key, what="a line of text" + (" or a TOML date" if key == "date" else ""))
+        if text is None:
+            continue
+        if "\n" in text or "\r" in text or len(text) > TITLE_BLOCK_CHARS:
+            raise t.error(key, f"{key} must be one line of at most {TITLE_BLOCK_CHARS} "
+                               f"characters (it fills a box of the title block), not "
+                               f"{len(text)} characters" + (" on several lines"
+                                                            if "\n" in text else ""))
+        fields.append((key, text.strip()))
+    return tuple(fields)
 
 
 def _transformer(data: Any) -> Transformer:
@@ -369,6 +397,7 @@ def from_dict(data: Any, source: str | None = None) -> Study:
         margin=study_fields["margin"],
         interval_s=study_fields["interval_s"],
         source=source,
+        title_block=study_fields["title_block"],
     )
     check_devices(study)
     return study
