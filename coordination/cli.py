@@ -306,6 +306,7 @@ def check(
     """Selectivity of every upstream/downstream pair, plus the protection checks."""
     from coordination import checks, engine, tables
     from coordination.pipeline import assess
+    from coordination.text import fit_lines
 
     s = load_study(study_path)
     result = assess(s, check_basis(basis))
@@ -321,7 +322,7 @@ def check(
         typer.echo(tables.check_text(s, result.levels, analysis, result.checks,
                                      every_row=every_row, study_path=str(study_path)))
         typer.echo("")
-        typer.echo(CAUTION)
+        typer.echo(fit_lines(CAUTION))
     raise typer.Exit(0 if result.ok else 1)
 
 

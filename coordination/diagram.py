@@ -33,6 +33,7 @@ from collections.abc import Iterator, Mapping, Sequence
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any
 
+from coordination import CAUTION
 from coordination.boards import board_name, board_names, feeder_of
 from coordination.model import SUPPLY_ID, Cable, Study
 from coordination.text import format_current, format_seconds, significant
@@ -71,8 +72,6 @@ LABEL_GAP_IN = 0.08
 LINE = "#1b1b1b"
 FAIL_EDGE = "#a3161b"
 MUTED = "#555555"
-CAUTION = ("Design aid: verify every result against the manufacturers' data; local codes and a "
-           "qualified, licensed person decide.")
 
 
 # -- the plan (pure) ---------------------------------------------------------------------------

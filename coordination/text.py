@@ -85,6 +85,23 @@ def format_current(i_a: float | None) -> str:
 TERMINAL_COLUMNS = 120
 
 
+def fit_lines(text: str, width: int = TERMINAL_COLUMNS) -> str:
+    """A sentence for the terminal: whole when it fits, else broken after its first ``; ``
+    (between clauses) and wrapped there.
+
+    Examples
+    --------
+    >>> print(fit_lines("Check the cable; a person decides.", 20))
+    Check the cable;
+    a person decides.
+    """
+    if len(text) <= width:
+        return text
+    head, sep, tail = text.partition("; ")
+    parts = [head + sep.rstrip(), tail] if sep else [text]
+    return "\n".join(line for part in parts if part for line in textwrap.wrap(part, width))
+
+
 def table(headers: Sequence[str], rows: Sequence[Sequence[str]], align: str | None = None, *,
           width: int | None = None, wrap: int | Sequence[int] | None = None,
           under: Sequence[str] | None = None) -> str:
