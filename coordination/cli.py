@@ -387,7 +387,8 @@ def plot(
     if circuit not in s.by_id:
         raise InputError(f"no circuit {circuit!r} in the study", key="--circuit")
     result = assess(s, check_basis(basis))
-    fig = plotting.plot_circuit(s, result.levels, result.analysis, circuit)
+    fig = plotting.plot_circuit(s, result.levels, result.analysis, circuit,
+                                results=result.checks)
     plotting.save_figure(fig, output)
     typer.echo(f"wrote {output}")
 

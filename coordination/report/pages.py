@@ -128,7 +128,7 @@ def _plot_page(study: Study, result: Assessment, entry: PlannedPlot) -> PageBuil
         fig = new_page(study, heading)
         ax = fig.add_axes((0.11, 0.42, 0.84, 0.49))
         plot_circuit(study, levels, analysis, circuit_id, basis=basis, ax=ax,
-                     title=f"{circuit_id} and the devices above it")
+                     title=f"{circuit_id} and the devices above it", results=result.checks)
         chain = (circuit_id, *study.ancestors(circuit_id))
         y = 0.235
         parent = study.by_id[circuit_id].parent
