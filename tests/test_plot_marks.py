@@ -75,7 +75,7 @@ def test_the_time_axis_says_what_a_time_below_10_ms_is():
 
 
 def test_each_is_mark_names_its_upstream_to_three_figures():
-    s, _, analysis, ax = _plot(EXAMPLES / "office-building.toml", "1t-kettles")
+    _, _, analysis, ax = _plot(EXAMPLES / "office-building.toml", "1t-kettles")
     found = _artists(ax)
     marks = {g: a[0].get_text() for g, a in found.items() if g.startswith("limit:")}
     assert marks
@@ -93,7 +93,7 @@ def test_each_is_mark_names_its_upstream_to_three_figures():
 
 
 def test_a_tested_limit_is_marked():
-    s, _, analysis, ax = _plot(TESTED, "washer")
+    _, _, analysis, ax = _plot(TESTED, "washer")
     (line,) = _artists(ax)["tested:main>washer"]
     assert set(line.get_xdata()) == {1500.0}
     assert any("tested limit" in t.get_text() and "1.5 kA" in t.get_text()
