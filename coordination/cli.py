@@ -313,7 +313,7 @@ def check(
     analysis = result.analysis
     verdict(0 if result.ok else 1)
     if as_json:
-        payload = {"pairs": Records(analysis.pairs, engine.PairResult.to_json),
+        payload = {"pairs": Records(analysis.all_pairs, engine.PairResult.to_json),
                    "summary": analysis.summary(),
                    "checks": Records(result.checks, checks.CheckResult.json_record),
                    "ok": result.ok, "caution": CAUTION}
@@ -371,6 +371,9 @@ def plot(
     circuit: Annotated[str, typer.Option("--circuit", help="Circuit id to plot.")],
     output: Annotated[Path, typer.Option("-o", "--output", help="PNG, SVG or PDF file.")],
     basis: BasisOption = None,
+    residual: Annotated[bool, typer.Option(
+        "--residual", help="Residual-current plot (mA) of the circuit's RCD and the RCDs above "
+        "it; the only plot of an RCCB (rcd without device).")] = False,
 ) -> None:
     """Time-current plot of a circuit and everything above it."""
     gc.enable()  # matplotlib's figures hold reference cycles (see main)
@@ -387,8 +390,18 @@ def plot(
     if circuit not in s.by_id:
         raise InputError(f"no circuit {circuit!r} in the study", key="--circuit")
     result = assess(s, check_basis(basis))
-    fig = plotting.plot_circuit(s, result.levels, result.analysis, circuit,
-                                results=result.checks)
+    if residual or s.by_id[circuit].device is None:
+        from coordination.plot_residual import plot_residual
+        from coordination.residual import rcds_on_path
+
+        if not rcds_on_path(s, circuit):
+            raise InputError(f"circuit {circuit!r} has no RCD on it or above it to draw; "
+                             "allowed: --residual for a circuit with an rcd on its path",
+                             key="--residual")
+        fig = plot_residual(s, circuit, levels=result.levels)
+    else:
+        fig = plotting.plot_circuit(s, result.levels, result.analysis, circuit,
+                                    results=result.checks)
     plotting.save_figure(fig, output)
     typer.echo(f"wrote {output}")
 

@@ -356,15 +356,17 @@ def _check_value(value: float, unit: str) -> str:
 def problems(analysis: Any, results: Sequence[Any]) -> Problems:
     """Each circuit's unmet selectivity requirements and failed protection checks, in words.
 
-    A pair is unmet when its ``ok`` is false (below the required selectivity); a check when
-    its ``ok`` is false. Circuits that miss nothing are absent.
+    A pair is unmet when its ``ok`` is false (below the required selectivity; RCDs in series
+    included); a check when its ``ok`` is false. Circuits that miss nothing are absent.
     """
     found: dict[str, list[str]] = {}
-    for p in analysis.pairs:
+    for p in analysis.all_pairs:
         if p.ok:
             continue
         above = p.upstream_span
-        if p.verdict == "none":
+        if p.protection == "residual":
+            words = f"RCD not selective with the RCD of {above}"
+        elif p.verdict == "none":
             words = f"not selective with {above} even in overload"
         else:
             need = ("total" if p.required_a is None

@@ -178,8 +178,11 @@ def pair_table(study: Study, levels: Any, analysis: Analysis, *, unmet_only: boo
         blocks.append(f"board {board} (max fault {_pair_ka(top)} kA{shared})\n"
                       + table(headers, rows, "llllrrrll" + "l" * (not one_basis),
                               width=width, wrap=2))
+    residual = [p for p in analysis.residual if not (unmet_only and p.ok)]
+    if residual:
+        blocks.append(residual_pair_table(residual, width=width))
     s = analysis.summary()
-    if not analysis.pairs:
+    if not analysis.all_pairs:
         blocks.append("no upstream/downstream pairs (a single level of devices)")
     blocks.append(
         f"selectivity: {s['pairs']} pairs, {s['total']} total, {s['partial']} partial, "
@@ -192,6 +195,40 @@ def _bases(downstream: str, upstream: str) -> str:
     if downstream == upstream:
         return downstream
     return f"{_BASIS_SHORT.get(downstream, downstream)}/{_BASIS_SHORT.get(upstream, upstream)}"
+
+
+def _ma(i_a: float) -> str:
+    return f"{i_a * 1000:.4g} mA" if i_a < 1.0 else format_current(i_a)
+
+
+def residual_pair_table(pairs: Sequence[PairResult],
+                        width: int | None = TERMINAL_COLUMNS) -> str:
+    """The pairs of RCDs in series: one row each, and the note of each pair decided by the
+    rule (the range of residual current the limit values leave unproven).
+
+    Examples
+    --------
+    >>> from coordination.engine import PairResult
+    >>> p = PairResult("up", "down", "none", None, (0.015, 900.0), "rule", "envelope",
+    ...                "envelope", None, False, "RCD 30 mA type A", "RCD 30 mA type A",
+    ...                "upstream is a general type", protection="residual")
+    >>> print(residual_pair_table([p]).splitlines()[0])
+    residual-current selectivity (RCDs in series; residual current on the window)
+    """
+    headers = ["circuit", "RCD", "above", "verdict", "window", "decided by", "ok"]
+    rows = []
+    notes: dict[str, list[str]] = {}  # one note for every pair it reads the same for
+    for p in pairs:
+        rows.append([p.downstream, p.downstream_device, f"{p.upstream} ({p.upstream_device})",
+                     _VERDICT_TEXT[p.verdict],
+                     f"{_ma(p.window_a[0])} - {_ma(p.window_a[1])}", p.decided_by,
+                     "yes" if p.ok else "NO"])
+        if p.decided_by == "rule":
+            notes.setdefault(p.note, []).append(f"{p.upstream} over {p.downstream}")
+    lines = ["residual-current selectivity (RCDs in series; residual current on the window)",
+             table(headers, rows, "llllllr", width=width, wrap=2)]
+    lines += [f"  {', '.join(names)}: {note}" for note, names in notes.items()]
+    return "\n".join(lines)
 
 
 # ---------------------------------------------------------------------------------------------
@@ -308,7 +345,7 @@ def check_table(results: Sequence[CheckResult] | Iterable[CheckResult], *,
     >>> print(check_table([r]).splitlines()[-1])
     protection checks: 1 run on 1 circuit, all pass
     """
-    from coordination.checks import CHECK_NAMES
+    from coordination.checks.results import CIRCUIT_CHECK_NAMES
 
     results = list(results)
     heading = ("Protection checks (worst case a compliant device allows: envelope upper edge, "
@@ -328,7 +365,7 @@ def check_table(results: Sequence[CheckResult] | Iterable[CheckResult], *,
                          _margin_text(r)])
             reasons.append(r.reason)
         present = {r.check for r in mine}
-        absent = [c for c in CHECK_NAMES if c not in present]
+        absent = [c for c in CIRCUIT_CHECK_NAMES if c not in present]
         if absent:
             missing.append(f"{cid} ({', '.join(absent)})")
     if rows:
@@ -384,17 +421,23 @@ def check_text(study: Study, levels: Any, analysis: Analysis, results: Sequence[
     protection = check_table(results, attention_only=not every_row, width=width)
     blocks = [f"{study.title}: selectivity of every pair, then the protection checks"]
     if not every_row:
-        unmet = sum(1 for p in analysis.pairs if not p.ok)
+        unmet = sum(1 for p in analysis.all_pairs if not p.ok)
         blocks.append(f"Pairs below their required selectivity: {unmet}"
                       + (" (none)" if not unmet else ""))
     blocks += [pairs, protection]
-    if not analysis.ok:
-        uppers = sorted({p.upstream for p in analysis.pairs if not p.ok})
+    uppers = sorted({p.upstream for p in analysis.pairs if not p.ok})
+    if uppers:
         blocks.append("\n".join(textwrap.wrap(
             "next: for a pair that falls short, choose a larger upstream device "
             f"(coordination choose {study_path} --circuit {uppers[0]}), give the "
             "manufacturer's tested limit (tested_limits_a), or state the selectivity the "
             "circuit needs (selective_to_a).", width or 10_000, subsequent_indent="  ")))
+    if any(not p.ok for p in analysis.residual):
+        blocks.append("\n".join(textwrap.wrap(
+            "next: for RCDs in series that are not selective, make the upstream one type S "
+            "(selective = true) or delayed (delay_s), with an I\u0394n at least 3 times the "
+            "downstream one's (IEC 60364-5-53, from memory).", width or 10_000,
+            subsequent_indent="  ")))
     if not every_row:
         blocks.append(f"every pair and every check: coordination check {study_path} --all")
     return "\n\n".join(blocks)

@@ -24,6 +24,7 @@ def loader_tables() -> dict[str, tuple[str, ...]]:
     The one place that imports the loader's key tuples: when they move to another module, fix
     the imports here.
     """
+    from coordination.residual import RCD_KEYS
     from coordination.study import (
         CABLE_KEYS,
         CIRCUIT_KEYS,
@@ -41,6 +42,7 @@ def loader_tables() -> dict[str, tuple[str, ...]]:
         "[supply.transformer]": TRANSFORMER_KEYS,
         "[[circuit]]": CIRCUIT_KEYS,
         "[circuit.cable]": CABLE_KEYS,
+        "[circuit.rcd]": RCD_KEYS,
     }
     # a device's inline table takes ``family`` besides its family's own keys
     for family, keys in FAMILY_KEYS.items():
@@ -135,6 +137,7 @@ def _keys_used(data: dict) -> list[tuple[str, str]]:
     for circuit in data.get("circuit", []):
         used += [("[[circuit]]", k) for k in circuit]
         used += [("[circuit.cable]", k) for k in circuit.get("cable", {})]
+        used += [("[circuit.rcd]", k) for k in circuit.get("rcd", {})]
         device = circuit.get("device")
         if isinstance(device, dict):
             family = str(device.get("family", "")).strip().lower().removeprefix("breaker-")

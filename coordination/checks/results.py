@@ -11,7 +11,11 @@ from typing import Any
 from curves.band import Band
 
 #: Check names, in the order they are run and printed.
-CHECK_NAMES = ("disconnection", "overload", "fault-energy", "breaking-capacity")
+CHECK_NAMES = ("disconnection", "overload", "fault-energy", "breaking-capacity",
+               "touch-voltage", "additional-protection", "leakage")
+#: The checks every circuit with an overcurrent device has data for, or is listed "not
+#: checked" without (the residual-current checks apply only where there are RCDs or sockets).
+CIRCUIT_CHECK_NAMES = CHECK_NAMES[:4]
 
 
 # -------------------------------------------------------------------------------------------
