@@ -84,13 +84,16 @@ def test_diagram_command_refuses_in_one_line_and_writes_nothing(cli, tmp_path):
     assert keep.read_bytes() == b"mine"
 
 
-def test_the_title_block_keys_load_in_order(tmp_path):
-    text = OFFICE.read_text(encoding="utf-8").replace(
+def test_the_title_block_keys_load_in_order():
+    text = SHOP.read_text(encoding="utf-8").replace(
         '[study]\n', '[study]\ndate = 2026-11-30\nclient = "Invented Estates"\nrevision = "C"\n',
         1)
     s = study.loads(text)
     assert s.title_block == (("client", "Invented Estates"), ("revision", "C"),
                              ("date", "2026-11-30"))
+    office = study.load(OFFICE)
+    assert [key for key, _ in office.title_block] == [
+        "client", "project", "reference", "revision", "designer", "checker", "date"]
 
 
 @pytest.mark.parametrize(("line", "fragment"), [
