@@ -364,6 +364,18 @@ def choose(
     raise typer.Exit(0 if all(r.found for r in results) else 1)
 
 
+def _drawing_output(output: Path, study_path: Path, what: str) -> None:
+    """Before a command draws: the collector back on (matplotlib's figures hold reference
+    cycles, see main), and the output path checked (not the study, a PNG, SVG or PDF)."""
+    gc.enable()
+    from coordination.io import check_output_path
+
+    check_output_path(output, inputs=(study_path,), key="-o")
+    if output.suffix.lower() not in (".png", ".svg", ".pdf"):
+        raise InputError(f"unknown {what} format {output.suffix!r}; allowed: .png, .svg, .pdf",
+                         key="-o")
+
+
 @app.command()
 @guarded
 def plot(
@@ -376,13 +388,7 @@ def plot(
         "it; the only plot of an RCCB (rcd without device).")] = False,
 ) -> None:
     """Time-current plot of a circuit and everything above it."""
-    gc.enable()  # matplotlib's figures hold reference cycles (see main)
-    from coordination.io import check_output_path
-
-    check_output_path(output, inputs=(study_path,), key="-o")
-    if output.suffix.lower() not in (".png", ".svg", ".pdf"):
-        raise InputError(f"unknown plot format {output.suffix!r}; allowed: .png, .svg, .pdf",
-                         key="-o")
+    _drawing_output(output, study_path, "plot")
     from coordination import plot as plotting
     from coordination.pipeline import assess
 
@@ -418,13 +424,7 @@ def diagram(
 ) -> None:
     """Installation diagram: supply, boards and circuits, failing ones marked (a PDF has a
     sheet per board of a large study; an image the first view)."""
-    gc.enable()  # matplotlib's figures hold reference cycles (see main)
-    from coordination.io import check_output_path
-
-    check_output_path(output, inputs=(study_path,), key="-o")
-    if output.suffix.lower() not in (".png", ".svg", ".pdf"):
-        raise InputError(f"unknown diagram format {output.suffix!r}; allowed: .png, .svg, .pdf",
-                         key="-o")
+    _drawing_output(output, study_path, "diagram")
     from coordination import diagram as drawing
     from coordination.pipeline import assess
 
