@@ -245,7 +245,7 @@ def _notes_page(study: Study, levels: FaultLevels, omitted: Sequence[str] = (),
 
 #: The most diagram pages a report carries (the boards' sheet first, then the boards in study
 #: order); the diagram command draws every sheet.
-MAX_DIAGRAM_PAGES = 40
+MAX_DIAGRAM_PAGES = 24
 
 
 def _diagram_pages(study: Study, result: Assessment) -> tuple[list[PageBuilder], int]:
