@@ -43,6 +43,10 @@ if TYPE_CHECKING:  # pragma: no cover
     from matplotlib.axes import Axes
     from matplotlib.figure import Figure
 
+    from coordination.checks import CheckResult
+    from coordination.engine import Analysis
+    from coordination.faults import FaultLevels
+
 #: Circuits across one sheet; a study with more is drawn as boards plus one sheet per board.
 MAX_COLUMNS = 26
 #: Busbar levels down one sheet of the whole installation.
@@ -353,7 +357,7 @@ def _check_value(value: float, unit: str) -> str:
     return f"{significant(value, 3)} {unit}"
 
 
-def problems(analysis: Any, results: Sequence[Any]) -> Problems:
+def problems(analysis: Analysis, results: Sequence[CheckResult]) -> Problems:
     """Each circuit's unmet selectivity requirements and failed protection checks, in words.
 
     A pair is unmet when its ``ok`` is false (below the required selectivity; RCDs in series
@@ -400,7 +404,7 @@ def cable_text(cable: Cable | None) -> str:
     return f"{par}{cable.csa_mm2:g}{cpc} mm2 {metal} {cable.insulation}, {cable.length_m:g} m"
 
 
-def _board_fault(study: Study, levels: Any, busbar: Busbar) -> str:
+def _board_fault(study: Study, levels: FaultLevels, busbar: Busbar) -> str:
     """The largest fault current at a board: three-phase where there is one, else line-neutral."""
     if busbar.feeder is None:
         ik3, ik1 = levels.origin_ik3_a, levels.origin_ik1_a
@@ -428,13 +432,13 @@ def _label_in(text: str) -> float:
     return longest * CHAR_EM * LABEL_PT / 72.0
 
 
-def _supply_text(study: Study, levels: Any) -> str:
+def _supply_text(study: Study, levels: FaultLevels) -> str:
     s = study.supply
     if s.transformer is not None:
         source = (f"transformer {s.transformer.rating_kva:g} kVA, "
                   f"{s.transformer.impedance_pct:g} %")
     elif s.pfc_a is not None:
-        source = f"supply fault level {format_current(s.pfc_a)}"
+        source = f"prospective fault current {format_current(s.pfc_a)}"
     else:
         source = "supply"
     ze = f", Ze {significant(levels.ze_ohm, 3)} ohm" if levels.ze_ohm else ""
@@ -447,8 +451,8 @@ def _text(ax: Axes, x: float, y: float, text: str, gid: str, **style: Any) -> An
     return artist
 
 
-def draw_sheet(study: Study, levels: Any, sheet: Sheet, found: Problems, device: Mapping[str, str],
-               *, number: int = 1, total: int = 1,
+def draw_sheet(study: Study, levels: FaultLevels, sheet: Sheet, found: Problems,
+               device: Mapping[str, str], *, number: int = 1, total: int = 1,
                title_block: Sequence[tuple[str, str]] = (), counted: str = "sheet") -> Figure:
     """Draw one sheet of the diagram.
 
@@ -561,7 +565,8 @@ def _notes(marked: Sequence[Drop], found: Problems) -> list[tuple[str | None, st
     return notes
 
 
-def _draw_busbar(ax: Axes, study: Study, levels: Any, bar: Busbar, x_of: Any, y_of: Any) -> None:
+def _draw_busbar(ax: Axes, study: Study, levels: FaultLevels, bar: Busbar, x_of: Any,
+                 y_of: Any) -> None:
     y = y_of(bar.level)
     if bar.stub:
         x = x_of(bar.x0)
@@ -637,7 +642,8 @@ def _footer(ax: Axes, study: Study, width: float, count: tuple[str, str],
 
 
 # -- the whole diagram -------------------------------------------------------------------------
-def figures(study: Study, levels: Any, analysis: Any, results: Sequence[Any], *,
+def figures(study: Study, levels: FaultLevels, analysis: Analysis,
+            results: Sequence[CheckResult], *,
             board: str | None = None, max_columns: int | None = MAX_COLUMNS,
             title_block: Sequence[tuple[str, str]] = ()) -> Iterator[Figure]:
     """Every sheet of the diagram as a figure, one at a time (:func:`plan`, :func:`draw_sheet`).
@@ -655,7 +661,8 @@ def figures(study: Study, levels: Any, analysis: Any, results: Sequence[Any], *,
                          title_block=title_block)
 
 
-def write_diagram(study: Study, levels: Any, analysis: Any, results: Sequence[Any],
+def write_diagram(study: Study, levels: FaultLevels, analysis: Analysis,
+                  results: Sequence[CheckResult],
                   path: str | os.PathLike, *, board: str | None = None,
                   title_block: Sequence[tuple[str, str]] = ()) -> int:
     """Write the diagram: every sheet into a PDF, or one image (PNG, SVG) of the first view.
