@@ -250,6 +250,9 @@ def _value_text(value: float, unit: str) -> str:
 
 #: A check that passes with less than this share of its limit to spare is "near limit".
 NEAR_LIMIT = 0.05
+#: Checks with no margin to tell: a rated sensitivity against the 30 mA the standard names
+#: (additional protection) is met or not, and a 30 mA RCD is the usual choice, not a near miss.
+NO_MARGIN = ("additional-protection",)
 
 
 def check_margin(result: CheckResult) -> float | None:
@@ -265,16 +268,28 @@ def check_margin(result: CheckResult) -> float | None:
     >>> print(round(check_margin(r), 3))
     0.029
     """
+    if result.check in NO_MARGIN:
+        return None
     value, limit = result.value, result.limit
-    if result.check == "disconnection":
-        zs, zs_max = result.details.get("zs_ohm"), result.details.get("zs_max_ohm")
-        if zs is not None and zs_max and math.isfinite(zs) and math.isfinite(zs_max):
-            value, limit = zs, zs_max
+    loop = _loop(result)
+    if loop is not None:
+        value, limit = loop
     if value is None or limit is None or not (math.isfinite(value) and math.isfinite(limit)):
         return None
     if limit <= 0:
         return None
     return 1.0 - value / limit
+
+
+def _loop(result: CheckResult) -> tuple[float, float] | None:
+    """Zs and the largest Zs for a disconnection the circuit's overcurrent device makes;
+    ``None`` for one an RCD makes (its time against the limit is the figure then)."""
+    if result.check != "disconnection" or result.details.get("rcd_device"):
+        return None
+    zs, zs_max = result.details.get("zs_ohm"), result.details.get("zs_max_ohm")
+    if zs is not None and zs_max and math.isfinite(zs) and math.isfinite(zs_max):
+        return zs, zs_max
+    return None
 
 
 def near_limit(result: CheckResult) -> bool:
@@ -293,17 +308,20 @@ def check_status(result: CheckResult) -> str:
 def check_cells(result: CheckResult) -> tuple[str, str]:
     """The value and limit cells of a check, each naming what it is.
 
-    ``disconnection``: Zs against the largest Zs with which the device disconnects in time;
+    ``disconnection``: Zs against the largest Zs with which the device disconnects in time
+    (where an RCD disconnects, its time against the limit, marked RCD);
     ``overload``: the comparison that binds (``"I2 46.4 A"`` against ``"1.45 Iz 59.5 A"``);
     the others their value and limit in their unit.
     """
     from coordination.checks.common import ohm_text
 
     details = result.details
-    if result.check == "disconnection" and details.get("zs_max_ohm") is not None:
-        zs = details.get("zs_ohm")
-        if zs is not None and math.isfinite(zs):
-            return f"Zs {ohm_text(zs)}", f"max {ohm_text(details['zs_max_ohm'])}"
+    loop = _loop(result)
+    if loop is not None:
+        return f"Zs {ohm_text(loop[0])}", f"max {ohm_text(loop[1])}"
+    if result.check == "disconnection" and details.get("rcd_device"):
+        return (f"RCD {_value_text(result.value, result.unit)}",
+                f"max {_value_text(result.limit, result.unit)}")
     if result.check == "overload" and " <= " in str(details.get("binding", "")):
         left, right = str(details["binding"]).split(" <= ", 1)
         return (f"{left} {_value_text(result.value, result.unit)}",

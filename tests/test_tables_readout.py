@@ -17,7 +17,7 @@ from coordination.text import TERMINAL_COLUMNS, table
 EXAMPLES = Path(__file__).resolve().parents[1] / "examples"
 
 
-@pytest.fixture(scope="module", params=["small-shop.toml", "office-building.toml"])
+@pytest.fixture(scope="module", params=sorted(p.name for p in EXAMPLES.glob("*.toml")))
 def example(request):
     s = study.load(EXAMPLES / request.param)
     levels = faults.compute(s)
@@ -101,3 +101,19 @@ def test_attention_shows_failures_and_near_limits_with_their_reasons(example):
     every = tables.check_table(results)
     assert len(every.splitlines()) > len(text.splitlines())
     assert every.splitlines()[-1] == text.splitlines()[-1]
+
+
+def test_a_disconnection_an_rcd_makes_reads_as_its_time():
+    # the circuit's overcurrent device alone would not disconnect (Zs over its max); the RCD does
+    r = CheckResult("c1", "disconnection", True, 0.04, 0.2, "s", "reason", "envelope",
+                    {"zs_ohm": 21.4, "zs_max_ohm": 1.37, "rcd_device": "RCD 30 mA type A"})
+    assert tables.check_cells(r) == ("RCD 40 ms", "max 0.2 s")
+    assert tables.check_margin(r) == pytest.approx(0.8)
+    assert tables.check_status(r) == "ok"
+
+
+def test_additional_protection_has_no_margin():
+    # a 30 mA RCD against the 30 mA IEC 60364-4-41 411.3.3 names is met, not a near miss
+    r = CheckResult("c1", "additional-protection", True, 30.0, 30.0, "mA", "reason", "envelope")
+    assert tables.check_margin(r) is None
+    assert tables.check_status(r) == "ok"
