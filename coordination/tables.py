@@ -227,7 +227,10 @@ def residual_pair_table(pairs: Sequence[PairResult],
             notes.setdefault(p.note, []).append(f"{p.upstream} over {p.downstream}")
     lines = ["residual-current selectivity (RCDs in series; residual current on the window)",
              table(headers, rows, "llllllr", width=width, wrap=2)]
-    lines += [f"  {', '.join(names)}: {note}" for note, names in notes.items()]
+    for note, names in notes.items():  # each note wrapped to the width, indented
+        lines += textwrap.wrap(f"{', '.join(names)}: {note}", width or 10_000,
+                               initial_indent="  ", subsequent_indent="    ",
+                               break_on_hyphens=False)
     return "\n".join(lines)
 
 
