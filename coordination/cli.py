@@ -427,6 +427,7 @@ def diagram(
     _drawing_output(output, study_path, "diagram")
     from coordination import diagram as drawing
     from coordination.pipeline import assess
+    from coordination.text import fit_lines
 
     s = load_study(study_path)
     if board is not None:
@@ -436,7 +437,7 @@ def diagram(
     sheets = drawing.write_diagram(s, result.levels, result.analysis, result.checks, output,
                                    board=board, title_block=s.title_block)
     typer.echo(f"wrote {output} ({sheets} sheet{'s' if sheets != 1 else ''})")
-    typer.echo(CAUTION)
+    typer.echo(fit_lines(CAUTION))
     raise typer.Exit(0 if result.ok else 1)
 
 
