@@ -304,7 +304,7 @@ def check(
         "or is near its limit).")] = False,
 ) -> None:
     """Selectivity of every upstream/downstream pair, plus the protection checks."""
-    from coordination import checks, engine, tables
+    from coordination import checks, engine, rules, tables
     from coordination.pipeline import assess
     from coordination.text import fit_lines
 
@@ -316,6 +316,7 @@ def check(
         payload = {"pairs": Records(analysis.all_pairs, engine.PairResult.to_json),
                    "summary": analysis.summary(),
                    "checks": Records(result.checks, checks.CheckResult.json_record),
+                   "rules": rules.json_rules(s.rule_set),
                    "ok": result.ok, "caution": CAUTION}
         echo_json(payload)
     else:

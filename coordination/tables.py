@@ -65,9 +65,11 @@ def fault_table(study: Study, levels: FaultLevels) -> str:
     ]
     head += textwrap.wrap("source: " + levels.source, 100, subsequent_indent="  ")
     rows = []
+    rings = {c.id for c in study.circuits if c.ring}
     for node in levels.nodes:
         rows.append([
-            node.circuit, node.board, str(node.phases), _ka(node.ik3_max_a),
+            node.circuit + (" (ring)" if node.circuit in rings else ""), node.board,
+            str(node.phases), _ka(node.ik3_max_a),
             _ka(node.ik1_max_a), _ka(node.ik_max_a), _ohm(node.zs_ohm), _ka(node.ief_min_a),
             _ka(node.ik_min_end_a) + ("" if node.ik_min_end_kind == "line-neutral" else " LL"),
         ])
@@ -81,6 +83,11 @@ def fault_table(study: Study, levels: FaultLevels) -> str:
         "line-neutral (Ik1) currents and the window's end; at its far end the earth-fault loop "
         "Zs, the minimum earth-fault current Ief and the minimum short-circuit current Ik min "
         "(LL: line-line, the cable has no neutral).", 100, subsequent_indent="  ")
+    if rings:
+        foot += textwrap.wrap(
+            "(ring): a ring final circuit; its far end is the ring's mid-point, where R1 + R2 "
+            "is a quarter of the end-to-end (r1 + r2) (common practice).", 100,
+            subsequent_indent="  ")
     return "\n".join([*head, "", body, "", *foot])
 
 
@@ -445,7 +452,11 @@ def check_text(study: Study, levels: Any, analysis: Analysis, results: Sequence[
         unmet = sum(1 for p in analysis.all_pairs if not p.ok)
         blocks.append(f"Pairs below their required selectivity: {unmet}"
                       + (" (none)" if not unmet else ""))
+    from coordination import rules
+
     blocks += [pairs, protection]
+    blocks[-1] += "\n" + "\n".join(textwrap.wrap(f"rules: {rules.summary(study.rule_set)}",
+                                                  width or 10_000, subsequent_indent="  "))
     uppers = sorted({p.upstream for p in analysis.pairs if not p.ok})
     if uppers:
         blocks.append("\n".join(textwrap.wrap(

@@ -120,7 +120,10 @@ def test_json_written_a_block_at_a_time_is_the_whole(cli, block, monkeypatch):
     levels = faults.compute(s)
     analysis = engine.analyse(s, levels)
     results = checks.run(s, levels)
+    from coordination import rules
+
     whole = {**analysis.to_json(), "checks": [r.to_json() for r in results],
+             "rules": rules.json_rules(rules.rule_set(s.rules)),
              "ok": analysis.ok and all(r.ok for r in results), "caution": module.CAUTION}
     assert streamed == module.json_bytes(whole) + b"\n"
 

@@ -15,6 +15,7 @@ from typing import Any
 
 import numpy as np
 
+from coordination import rules
 from coordination.choose.candidates import (
     FAMILY_NOUNS,
     FAMILY_WORDS,
@@ -173,10 +174,13 @@ def _search_variant(problem: Problem, variant: Problem, groups: list[Any]) -> tu
     return winner, band, failures
 
 
-def _iz_needed(cand: Candidate) -> float:
-    """Iz that In <= Iz and I2 <= 1.45 Iz need [A] (I2 of the worst compliant device)."""
-    i2 = float(device_band(cand.spec, "envelope").pickup_max_a)
-    return max(cand.setting_a, i2 / 1.45)
+def _iz_needed(problem: Problem, cand: Candidate) -> float:
+    """Iz that In <= Iz and I2 <= 1.45 Iz need [A] (I2 of the worst compliant device; In <= Iz
+    alone where the study's rule set holds it enough, :func:`coordination.rules.i2_implied`)."""
+    band = device_band(cand.spec, "envelope")
+    if rules.i2_implied(problem.study.rule_set, band.family):
+        return cand.setting_a
+    return max(cand.setting_a, float(band.pickup_max_a) / 1.45)
 
 
 def _remedy_cable(problem: Problem, groups: list[Any]) -> tuple[bool, str] | None:
@@ -192,7 +196,7 @@ def _remedy_cable(problem: Problem, groups: list[Any]) -> tuple[bool, str] | Non
     if winner is None or band is None:
         return False, ("a larger cable alone would not be enough: " + _summary(
             problem, failures, limit=REMEDY_SEGMENTS, still=True))
-    need = _iz_needed(winner)
+    need = _iz_needed(problem, winner)
     for _ in range(3):  # confirm with the cable's Iz raised to the need, as `check` would see it
         need = _ceil_sig(need)
         cable = dataclasses.replace(problem.study.by_id[problem.circuit_id].cable, iz_a=need)

@@ -28,7 +28,8 @@ STANDARDS = (
     ("IEC 60909-0", "short-circuit currents in three-phase a.c. systems (simplified for LV)"),
     ("IEC 60364-4-41", "protection against electric shock: disconnection times (Table 41.1)"),
     ("IEC 60364-4-43", "protection against overcurrent: overload and fault energy (k^2 S^2)"),
-    ("IEC 60364-5-54", "earthing arrangements and protective conductors (Table A.54.3)"),
+    ("IEC 60364-5-54", "earthing arrangements and protective conductors (Tables A.54.2, "
+                       "A.54.3, A.54.4)"),
     ("IEC 60228", "conductors of insulated cables: resistance at 20 degC"),
     ("BS 7671 Table 41.3", "maximum earth-fault loop impedance for circuit-breakers"),
 )
@@ -320,8 +321,9 @@ def _supply_lines(study: Study, levels: FaultLevels) -> list[str]:
         t = s.transformer
         upstream = (f", network {format_current(t.upstream_pfc_a)} referred to LV"
                     if t.upstream_pfc_a else ", infinite network assumed")
+        rated = "" if t.u_lv_v is None else f", rated {t.u_lv_v:g} V on its low-voltage side"
         lines.append(f"transformer {t.rating_kva:g} kVA, uk {t.impedance_pct:g} %, X/R "
-                     f"{t.x_r:g}{upstream}")
+                     f"{t.x_r:g}{rated}{upstream}")
     if s.pfc_a is not None:
         lines.append(f"declared prospective fault current {format_current(s.pfc_a)}")
     if s.ze_ohm is not None:
@@ -393,9 +395,13 @@ NOTES = (
     ("Protection checks", (
         "Disconnection times (IEC 60364-4-41 Table 41.1), overload (Ib <= In <= Iz, "
         "I2 <= 1.45 Iz), fault energy (k^2 S^2 >= I2t, IEC 60364-4-43) and breaking capacity, "
-        "always on the envelope basis whatever the selectivity basis.")),
+        "always on the envelope basis whatever the selectivity basis. The study's rule set "
+        "(IEC 60364, or BS 7671 with its own scope of Table 41.1 and its 433.1.202, recalled "
+        "from memory) is named on the cover and in front of every check's reason. A breaking "
+        "capacity below the fault passes only on a declared back-up or conditional rating: "
+        "the maker's tested data, to be verified against the maker's documents.")),
     ("Not covered", (
-        "Residual-current devices, back-up (cascade) ratings unless given as tested limits, "
+        "Residual-current devices, back-up (cascade) ratings other than those declared, "
         "earth-fault protection settings, ambient derating of devices, harmonics, voltage drop "
         "and discrimination under motor starting are outside this report. Manufacturers' "
         "selectivity tables and curves take precedence over the standard-based bands used "

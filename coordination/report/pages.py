@@ -13,7 +13,7 @@ from collections.abc import Iterable, Sequence
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from coordination import CAUTION, __version__
+from coordination import CAUTION, __version__, rules
 from coordination.faults import FaultLevels
 from coordination.model import Study
 from coordination.pipeline import Assessment
@@ -108,6 +108,7 @@ def _cover(study: Study, result: Assessment) -> PageBuilder:
             verdict,
         ], y)
         y = block("Bases", [_basis_summary(study, basis)], y)
+        y = block("Rules", [rules.summary(study.rule_set)], y)
         from coordination.residual import has_rcds
 
         used = STANDARDS + (RCD_STANDARDS if has_rcds(study) else ())
