@@ -132,6 +132,8 @@ class Study:
     margin: float = 1.0  # default time margin factor: D's t_max * margin must stay below U's t_min
     interval_s: float = 0.0  # default coordination time interval over adjustable breakers [s]
     source: str | None = None  # path of the study file, when loaded from one
+    title_block: tuple[tuple[str, str], ...] = ()  # (key, text) of the [study] title-block keys
+    # given (client, project, reference, revision, designer, checker, date), in that order
     rules: str = "iec"  # the rule set of the protection checks: "iec" or "bs7671"
 
     @cached_property

@@ -24,10 +24,10 @@ canvas: no window, no pyplot state, safe in a server and in a notebook.
 Every artist that stands for something carries a ``gid`` so that tests and callers can find it:
 ``band:<id>``, ``edge:<id>``, ``tag:<id>`` (the band's label), ``zone:<upstream>><downstream>``,
 ``zone-mark:<upstream>><downstream>`` (a small zone's box and strip),
-``limit:<upstream>><downstream>``, ``marker:max-fault``, ``marker:min-earth-fault``,
-``marker:load``, ``withstand:line``, ``withstand:cpc``, and on a circuit a standby source
-feeds ``decrement:<case>:max-fault`` and ``decrement:<case>:min-earth-fault`` (the decaying
-currents, :mod:`coordination.standby`).
+``limit:<upstream>><downstream>`` (Is, the upstream named), ``marker:max-fault``,
+``marker:min-earth-fault``, ``marker:load``, ``withstand:line``, ``withstand:cpc``, and those of
+:mod:`coordination.plot_marks` (the 10 ms line, tested limits, the disconnection check's point,
+a standby source's decaying faults).
 """
 
 from __future__ import annotations
@@ -42,11 +42,13 @@ from typing import TYPE_CHECKING, Any, NamedTuple
 import numpy as np
 
 from coordination import checks, engine
+from coordination.checks import CheckResult
 from coordination.devices import band_for
 from coordination.engine import Analysis, PairResult
 from coordination.faults import FaultLevels, NodeFaults
 from coordination.io import atomic_path
 from coordination.model import Cable, Study
+from coordination.plot_marks import TIME_LABEL, current_text, draw_decrements
 from coordination.text import format_current, format_seconds, positive_or_none
 from curves.band import TIME_CEILING_S, TIME_FLOOR_S, Band
 from curves.errors import InputError
@@ -85,11 +87,6 @@ ZONE_MARK_PT = 7.0
 WITHSTAND_STYLE = {
     "line": {"color": "#5c3d2e", "linestyle": (0, (10, 3)), "linewidth": 1.2},
     "cpc": {"color": "#a0785a", "linestyle": (0, (3, 2, 3, 6)), "linewidth": 1.2},
-}
-#: The decaying fault currents of a standby source (our own colour: a dark teal).
-DECREMENT_STYLE = {
-    "max-fault": {"color": "#0b5e55", "linestyle": "-", "linewidth": 1.8},
-    "min-earth-fault": {"color": "#0b5e55", "linestyle": (0, (5, 2, 1, 2)), "linewidth": 1.5},
 }
 
 #: The adiabatic equation holds for faults up to 5 s (IEC 60364-4-43, 434.5.2).
@@ -362,7 +359,8 @@ def _literal_text(draw: Any) -> Any:
 @_literal_text
 def plot_circuit(study: Study, levels: FaultLevels, analysis: Analysis, circuit_id: str, *,
                  basis: str | None = None, ax: Axes | None = None,
-                 title: str | None = None, cases: Sequence[Any] = ()) -> Figure:
+                 title: str | None = None,
+                 results: Sequence[CheckResult] | None = None, cases: Sequence[Any] = ()) -> Figure:
     """Time-current plot of a circuit's device and every device above it.
 
     Parameters
@@ -383,10 +381,12 @@ def plot_circuit(study: Study, levels: FaultLevels, analysis: Analysis, circuit_
         on their figure before calling: labels are laid out for their size.
     title : str, optional
         Axes title; by default the study title and the circuit.
+    results : sequence of CheckResult, optional
+        The study's protection checks (:func:`coordination.checks.run`): the disconnection
+        check's operating point is marked on the minimum earth-fault line. By default the
+        circuit's checks are run here.
     cases : sequence of SupplyCase, optional
-        Standby sources (:func:`coordination.standby.case_levels`); on a circuit one feeds,
-        its decaying maximum fault at the board and minimum earth fault at the far end are
-        drawn as curves I(t), which meet each band where that device operates.
+        Standby sources: their decaying faults on the circuit (:func:`plot_marks.draw_decrements`).
 
     Returns
     -------
@@ -443,11 +443,12 @@ def plot_circuit(study: Study, levels: FaultLevels, analysis: Analysis, circuit_
     limits = _draw_zones(ax, layout, key, study, levels, analysis, chain, drawn, bands, basis)
     _draw_markers(ax, layout, key, study.board_name(circuit_id),
                   levels.by_circuit.get(circuit_id), circuit.load_a)
+    _draw_reading_marks(ax, layout, key, study, levels, analysis, circuit_id, drawn, i_min,
+                        results)
     if circuit.cable is not None:
         _draw_withstand(ax, layout, key, circuit.cable)
     for case in cases:
-        if circuit_id in case.nodes:
-            _draw_decrements(ax, key, case, circuit_id, i_min)
+        draw_decrements(ax, key, case, circuit_id, i_min)
     # labels: the Is marks first, then each band's circuit id, clear of each other
     _place_limits(ax, layout, limits)
     _place_tags(ax, layout, tags)
@@ -554,7 +555,7 @@ def _draw_zones(ax: Axes, layout: _Layout, key: list[tuple[Any, str]], study: St
         polys = _geometry_polygons(engine.overlap(study, levels, pair, basis))
         limit = positive_or_none(pair.limit_a)
         if polys:
-            where = f", Is {format_current(limit)}" if limit is not None else ""
+            where = f", Is {current_text(limit)}" if limit is not None else ""
             hatch = ZONE_HATCHES[zones % len(ZONE_HATCHES)]
             label = (f"crossover, both may operate: {pair.upstream} over {pair.downstream}"
                      f"{where}")
@@ -596,7 +597,7 @@ def _draw_markers(ax: Axes, layout: _Layout, key: list[tuple[Any, str]], board: 
     for name, current, text in markers:
         if current is None:
             continue
-        label = text.format(board=board, i=format_current(current))
+        label = text.format(board=board, i=current_text(current))
         line = ax.axvline(current, zorder=5, gid=f"marker:{name}", label=label,
                           **MARKER_STYLE[name])
         key.append((line, label))
@@ -631,25 +632,32 @@ def _draw_withstand(ax: Axes, layout: _Layout, key: list[tuple[Any, str]],
         layout.lines.append(LineString(_points(ax, [i_a, i_b], [t_hi, TIME_FLOOR_S])))
 
 
-def _draw_decrements(ax: Axes, key: list[tuple[Any, str]], case: Any, circuit_id: str,
-                     i_min: float) -> None:
-    """A standby source's decaying faults on this circuit, as curves (I(t), t): the maximum
-    fault at the board and the minimum earth fault at the far end."""
-    from coordination.generator import decrement_curve
-    from coordination.standby import window_decrement
+def _draw_reading_marks(ax: Axes, layout: _Layout, key: list[tuple[Any, str]], study: Study,
+                        levels: FaultLevels, analysis: Analysis, circuit_id: str,
+                        drawn: Sequence[tuple[str, str, int]], i_min: float,
+                        results: Sequence[CheckResult] | None) -> None:
+    """The 10 ms line of the energy region, the tested limits of the pairs drawn and the
+    disconnection check's operating point (:mod:`coordination.plot_marks`)."""
+    from shapely.geometry import LineString
 
-    node = case.nodes[circuit_id]
-    for name, decrement, what in (
-            ("max-fault", window_decrement(node), "maximum fault at the board"),
-            ("min-earth-fault", node.earth_end, "minimum earth fault at far end")):
-        i, t = decrement_curve(decrement, t_from_s=TIME_FLOOR_S, t_to_s=TIME_CEILING_S,
-                               floor_a=i_min)
-        if i.size < 2:
-            continue
-        label = f"{case.name}: {what}, {format_current(float(i[0]))} decaying"
-        (line,) = ax.plot(i, t, zorder=5, gid=f"decrement:{case.name}:{name}", label=label,
-                          **DECREMENT_STYLE[name])
-        key.append((line, label))
+    from coordination import plot_marks
+
+    plot_marks.draw_energy_region(ax, i_min)
+    shown = {cid for cid, _, _ in drawn}
+    pairs = [p for p in pairs_in_chain(analysis, _chain(study, circuit_id))
+             if p.upstream in shown and p.downstream in shown]
+    for current in plot_marks.draw_tested_limits(ax, key, pairs):
+        layout.lines.append(LineString(_points(ax, [current, current],
+                                               [TIME_FLOOR_S, TIME_CEILING_S])))
+    if results is None and circuit_id in levels.by_circuit:
+        results = checks.check_device(study, levels, circuit_id,
+                                      band_for(study, circuit_id, "envelope"))
+    own = next((r for r in results or () if r.circuit == circuit_id
+                and r.check == "disconnection"), None)
+    point = plot_marks.draw_disconnection_point(ax, key, own)
+    if point is not None:
+        layout.lines.append(LineString(_points(ax, [point[0] * 0.97, point[0] * 1.03],
+                                               [point[1], point[1]])))
 
 
 def _dress_axes(ax: Axes, i_min: float, i_max: float, title: str) -> None:
@@ -668,7 +676,7 @@ def _dress_axes(ax: Axes, i_min: float, i_max: float, title: str) -> None:
     ax.add_collection(_minor_grid(i_min, i_max, TIME_FLOOR_S, TIME_CEILING_S))
     ax.tick_params(labelsize=8)
     ax.set_xlabel("prospective current [A]", fontsize=9)
-    ax.set_ylabel("time [s]", fontsize=9)
+    ax.set_ylabel(TIME_LABEL, fontsize=9)
     ax.set_title(title, fontsize=10, y=1.01)  # a fixed position: no layout pass over the ticks
 
 
@@ -725,7 +733,7 @@ def _place_limits(ax: Axes, layout: _Layout, limits: Sequence[_Limit]) -> None:
     from shapely.geometry import LineString
 
     for name, limit, t_at in limits:
-        text = f"Is {format_current(limit)}"
+        text = f"{name.split('>', 1)[0]}: Is {current_text(limit)}"  # the upstream named
         anchor = _points(ax, [limit], [t_at])[0]
         candidates = []
         for dx, dy in LIMIT_OFFSETS:

@@ -9,7 +9,8 @@ recursion. The keys, their bounds and the checks across keys and circuits are in
 
 Keys (units in every name that carries a number)::
 
-    [study]       title, basis, margin, interval_s, rules
+    [study]       title, basis, margin, interval_s, rules; the title block: client, project,
+                  reference, revision, designer, checker, date
     [supply]      u0_v, phases, earthing, pfc_a, pfc_ln_a, ze_ohm, x_r, c_max, c_min, ra_ohm
     [supply.transformer]  rating_kva, impedance_pct, x_r, upstream_pfc_a, upstream_x_r, u_lv_v
     [[supply.standby]]  name, rating_kva, u0_v, xd2_pct, xd1_pct, td2_s, td1_s, x0_pct,
@@ -26,6 +27,7 @@ Keys (units in every name that carries a number)::
 
 from __future__ import annotations
 
+import datetime as dt
 import os
 import stat
 from collections.abc import Mapping
@@ -56,6 +58,8 @@ from coordination.study_rules import (
     STUDY_KEYS,
     SUPPLY_KEYS,
     TABLES,
+    TITLE_BLOCK_CHARS,
+    TITLE_BLOCK_KEYS,
     TOP_KEYS,
     TRANSFORMER_KEYS,
     ZE_PFC_TOLERANCE,
@@ -92,6 +96,8 @@ __all__ = [
     "STUDY_KEYS",
     "SUPPLY_KEYS",
     "TABLES",
+    "TITLE_BLOCK_CHARS",
+    "TITLE_BLOCK_KEYS",
     "TOP_KEYS",
     "TRANSFORMER_KEYS",
     "ZE_PFC_TOLERANCE",
@@ -109,6 +115,7 @@ def _study_table(data: Any, source: str | None) -> dict[str, Any]:
         title = Path(source).stem if source else "untitled study"
     return {
         "title": title,
+        "title_block": _title_block(t),
         "basis": t.choice("basis", BASES, default="typical"),
         "margin": t.number("margin", unit="(factor)", lo=1.0, hi=10.0, lo_open=False,
                            default=1.0),
@@ -116,6 +123,27 @@ def _study_table(data: Any, source: str | None) -> dict[str, Any]:
                                default=0.0),
         "rules": t.choice("rules", tuple(rules.RULE_SETS), default=rules.DEFAULT),
     }
+
+
+def _title_block(t: Table) -> tuple[tuple[str, str], ...]:
+    """The title-block keys given, in :data:`TITLE_BLOCK_KEYS` order: one line of text each
+    (``date`` may also be a TOML date), at most :data:`TITLE_BLOCK_CHARS` characters."""
+    fields = []
+    for key in TITLE_BLOCK_KEYS:
+        value = t.data.get(key)
+        if key == "date" and isinstance(value, dt.date | dt.datetime):
+            fields.append((key, value.isoformat()))
+            continue
+        text = t.text(key, what="a line of text" + (" or a TOML date" if key == "date" else ""))
+        if text is None:
+            continue
+        if "\n" in text or "\r" in text or len(text) > TITLE_BLOCK_CHARS:
+            raise t.error(key, f"{key} must be one line of at most {TITLE_BLOCK_CHARS} "
+                               f"characters (it fills a box of the title block), not "
+                               f"{len(text)} characters" + (" on several lines"
+                                                            if "\n" in text else ""))
+        fields.append((key, text.strip()))
+    return tuple(fields)
 
 
 def _transformer(data: Any) -> Transformer:
@@ -504,6 +532,7 @@ def from_dict(data: Any, source: str | None = None) -> Study:
         margin=study_fields["margin"],
         interval_s=study_fields["interval_s"],
         source=source,
+        title_block=study_fields["title_block"],
         rules=study_fields["rules"],
     )
     check_standby(study)

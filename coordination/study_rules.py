@@ -21,7 +21,11 @@ from coordination.model import SUPPLY_ID, Cable, Study
 from curves.errors import InputError
 
 TOP_KEYS = ("study", "supply", "circuit")
-STUDY_KEYS = ("title", "basis", "margin", "interval_s", "rules")
+#: The title block's fields, in the order the cover, the footers and the diagram show them.
+TITLE_BLOCK_KEYS = ("client", "project", "reference", "revision", "designer", "checker", "date")
+#: The longest a title-block field may be [characters]: it must fit its box.
+TITLE_BLOCK_CHARS = 80
+STUDY_KEYS = ("title", "basis", "margin", "interval_s", "rules", *TITLE_BLOCK_KEYS)
 SUPPLY_KEYS = ("u0_v", "phases", "earthing", "pfc_a", "pfc_ln_a", "ze_ohm", "x_r", "c_max",
                "c_min", "transformer", "ra_ohm", "standby")
 TRANSFORMER_KEYS = ("rating_kva", "impedance_pct", "x_r", "upstream_pfc_a", "upstream_x_r",

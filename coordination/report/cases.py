@@ -128,7 +128,7 @@ def _plot_page(study: Study, result: Assessment, case: CaseAssessment,
         ax = fig.add_axes((0.11, 0.42, 0.84, 0.49))
         plot_circuit(study, result.levels, result.analysis, circuit_id, basis=result.basis,
                      ax=ax, title=f"{circuit_id} and the devices above it",
-                     cases=[case.case])
+                     results=result.checks, cases=[case.case])
         text = (f"Drawn: circuit {circuit_id} with every device above it, and the decaying "
                 f"faults of standby source {case.name!r} (a curve meets a band where that "
                 "device operates; the checks read the envelope). What fails on this source:")
