@@ -12,7 +12,7 @@ from typing import TYPE_CHECKING, Any
 
 from coordination.model import Study
 
-from .content import _check_cell, _pair_table, ka_text, sentence
+from .content import FAILURES_INTRO, _check_cell, _check_failures, _pair_table, ka_text, sentence
 from .layout import (
     INK,
     LEFT,
@@ -78,23 +78,22 @@ def _fault_table(case: CaseAssessment) -> TableSpec:
 
 
 def _check_matrix(case: CaseAssessment) -> TableSpec:
+    """One row per circuit the source feeds, one column per check; only the cells of failed
+    checks are set in the failure ink (as the normal supply's, ``content._check_matrix``)."""
     by_circuit: dict[str, dict[str, Any]] = {}
     for r in case.checks:
         by_circuit.setdefault(r.circuit, {})[r.check] = r
-    rows, flags = [], []
+    rows, flags, failing = [], [], []
     for cid in case.case.circuits:
         mine = by_circuit.get(cid, {})
         rows.append((cid, *(_check_cell(mine[k]) if k in mine else "-"
                             for k, _ in CASE_COLUMNS)))
         flags.append(any(not r.ok for r in mine.values()))
+        failing.append(tuple(j for j, (k, _) in enumerate(CASE_COLUMNS, start=1)
+                             if k in mine and not mine[k].ok))
     return TableSpec(("circuit", *(title for _, title in CASE_COLUMNS)), (0.0, 1.0, 1.0, 1.0),
-                     tuple(rows), "llll", wrap=(1, 2, 3), fit=(0,), flags=tuple(flags))
-
-
-def _failures(case: CaseAssessment) -> TableSpec:
-    rows = [(r.circuit, r.check, r.reason) for r in case.checks if not r.ok]
-    return TableSpec(("circuit", "check", "what to do"), (0.0, 0.0, 1.0), tuple(rows), "lll",
-                     wrap=(2,), fit=(0, 1), flags=(True,) * len(rows))
+                     tuple(rows), "llll", wrap=(1, 2, 3), fit=(0,), flags=tuple(flags),
+                     failing=tuple(failing))
 
 
 def heading_of(study: Study, case: CaseAssessment) -> str:
@@ -124,7 +123,7 @@ def _plot_page(study: Study, result: Assessment, case: CaseAssessment,
     def build(number: int, total: int) -> Figure:
         from coordination.plot import plot_circuit
 
-        fig = new_page(study, f"{heading_of(study, case)}: {circuit_id}")
+        fig = new_page(study, f"Standby source {case.name!r}: {circuit_id}")
         ax = fig.add_axes((0.11, 0.42, 0.84, 0.49))
         plot_circuit(study, result.levels, result.analysis, circuit_id, basis=result.basis,
                      ax=ax, title=f"{circuit_id} and the devices above it",
@@ -143,7 +142,7 @@ def _plot_page(study: Study, result: Assessment, case: CaseAssessment,
                  for p in case.analysis.for_circuit(circuit_id) if not p.ok]
         if rows:
             spec = TableSpec(("what", "why"), (0.0, 1.0), tuple(rows), "ll", wrap=(1,),
-                             fit=(0,), flags=(True,) * len(rows))
+                             fit=(0,), flags=(True,) * len(rows), failing=((0,),) * len(rows))
             draw_table(fig, spec, range(len(rows)), y - 0.006)
         finish_page(fig, number, total)
         return fig
@@ -163,8 +162,8 @@ def case_pages(study: Study, result: Assessment,
     """Every standby source's section: fault levels, selectivity, checks, failures, plots."""
     pages: list[PageBuilder] = []
     for case in result.cases:
-        title = heading_of(study, case)
-        pages += table_pages(study, f"{title}: fault levels",
+        title = f"Standby source {case.name!r}"
+        pages += table_pages(study, f"{heading_of(study, case)}: fault levels",
                              (*CASE_FAULTS_INTRO, sentence(case.case.levels.convention)),
                              _fault_table(case))
         if case.analysis.pairs:
@@ -172,11 +171,10 @@ def case_pages(study: Study, result: Assessment,
                                  _pair_table(study, case.analysis))
         pages += table_pages(study, f"{title}: protection checks", CASE_CHECKS_INTRO,
                              _check_matrix(case))
-        failures = _failures(case)
+        failures = _check_failures(case.checks)
         if failures.rows:
-            pages += table_pages(study, f"{title}: failed checks",
-                                 ("Each failed check on this source and what to do.",),
-                                 failures)
+            pages += table_pages(study, f"{title}: checks that fail or are near their limit",
+                                 FAILURES_INTRO, failures)
         for cid in _failing(case)[:max_plots]:
             pages.append(_plot_page(study, result, case, cid))
     return pages
