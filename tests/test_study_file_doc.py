@@ -32,6 +32,7 @@ def loader_tables() -> dict[str, tuple[str, ...]]:
         TOP_KEYS,
         TRANSFORMER_KEYS,
     )
+    from coordination.motors import INRUSH_KEYS, MOTOR_KEYS
     from curves.spec import FAMILY_KEYS
 
     tables = {
@@ -41,6 +42,8 @@ def loader_tables() -> dict[str, tuple[str, ...]]:
         "[supply.transformer]": TRANSFORMER_KEYS,
         "[[circuit]]": CIRCUIT_KEYS,
         "[circuit.cable]": CABLE_KEYS,
+        "[circuit.motor]": MOTOR_KEYS,
+        "[circuit.inrush]": INRUSH_KEYS,
     }
     # a device's inline table takes ``family`` besides its family's own keys
     for family, keys in FAMILY_KEYS.items():
