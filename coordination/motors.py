@@ -32,7 +32,7 @@ The test (:func:`starting_verdict`): each device on the chain, from the circuit'
 origin, carries the start current plus the running load of the board it feeds (its circuit's
 Ib; for an ancestor whose Ib counts the motor's FLC this counts the motor twice: the trip side).
 It does not operate during the start when its lower edge ``t_min`` at that current is at least
-the start time, on the study's selectivity basis; and the first peak stays below its lowest
+the start time, on the study's selectivity basis; and the first peak stays at or below its lowest
 instantaneous pickup, an r.m.s. setting compared here with a peak (the safe side by up to
 sqrt(2)). The lower edges are those of a device started cold; a device already warm from its
 running load trips sooner (not modelled, said in every verdict).
@@ -216,7 +216,8 @@ class DeviceAtStart:
     holds_time : bool
         ``t_min_s >= duration``.
     holds_peak : bool
-        ``peak_a < instantaneous_a`` (True with no instantaneous release).
+        ``peak_a <= instantaneous_a`` (True with no instantaneous release): a release does not
+        act at its lower pickup limit itself (IEC 60898-1 test d, IEC 60947-2 at 0.8 Ii).
     """
 
     circuit: str
@@ -268,7 +269,7 @@ class StartingVerdict:
                     f"({self.basis} basis); choose a device with a later band at that current, "
                     "or a shorter or softer start")
         if not b.holds_peak:
-            return (f"{what}: {b.device} ({b.circuit}) sees a first peak of {_a(b.peak_a)}, at or "
+            return (f"{what}: {b.device} ({b.circuit}) sees a first peak of {_a(b.peak_a)}, "
                     f"above its lowest instantaneous pickup {_a(b.instantaneous_a)}; choose a "
                     "higher instantaneous pickup or a start with a lower current")
         spare = (f"the closest, {b.device} ({b.circuit}), waits {b.t_min_s:.3g} s at "
@@ -527,7 +528,7 @@ def device_at_start(profile: StartProfile, device: ChainDevice) -> DeviceAtStart
     pickup = min(pickups) if pickups else None
     peak = profile.peak_a + device.running_a
     holds_time = t_min >= profile.duration_s * (1 - TIME_RTOL)
-    holds_peak = pickup is None or peak < pickup
+    holds_peak = pickup is None or peak <= pickup
     return DeviceAtStart(device.circuit, device.band.name, current, t_min, t_env, peak, pickup,
                          holds_time, holds_peak)
 

@@ -24,6 +24,7 @@ def loader_tables() -> dict[str, tuple[str, ...]]:
     The one place that imports the loader's key tuples: when they move to another module, fix
     the imports here.
     """
+    from coordination.motors import INRUSH_KEYS, MOTOR_KEYS
     from coordination.study import (
         CABLE_KEYS,
         CIRCUIT_KEYS,
@@ -32,7 +33,6 @@ def loader_tables() -> dict[str, tuple[str, ...]]:
         TOP_KEYS,
         TRANSFORMER_KEYS,
     )
-    from coordination.motors import INRUSH_KEYS, MOTOR_KEYS
     from curves.spec import FAMILY_KEYS
 
     tables = {
