@@ -93,10 +93,13 @@ def in_process(path: Path) -> dict[str, float]:
 
 
 def _stages(path: Path) -> dict[str, float]:
-    from coordination import checks, devices, engine, faults, study
+    from coordination import checks, devices, engine, faults, study, study_rules, tables
+    from coordination.checks import common, disconnection, fault_energy, overload
     from coordination.cli import to_json
 
-    for module in (checks, devices, engine, faults, study):  # every cache, as a new process
+    # every cache, as a new process (the checks' caches live in their package's modules)
+    for module in (devices, engine, faults, study, study_rules, common, disconnection,
+                   fault_energy, overload):
         for value in vars(module).values():
             if callable(getattr(value, "cache_clear", None)):
                 value.cache_clear()
@@ -111,8 +114,8 @@ def _stages(path: Path) -> dict[str, float]:
     t3 = time.perf_counter()
     results = checks.run(s, levels)
     t4 = time.perf_counter()
-    engine.format_table(s, levels, analysis)
-    checks.format_table(results)
+    tables.pair_table(s, levels, analysis)
+    tables.check_table(results)
     t5 = time.perf_counter()
     to_json({**analysis.to_json(), "checks": [r.json_record() for r in results]})
     t6 = time.perf_counter()

@@ -23,7 +23,7 @@ from types import SimpleNamespace
 HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE.parent))
 
-from coordination import engine  # noqa: E402
+from coordination import engine, tables  # noqa: E402
 from coordination.devices import _band  # noqa: E402
 from coordination.model import Circuit, Study, Supply  # noqa: E402
 
@@ -106,7 +106,7 @@ def main() -> None:
         engine.analyse(s, levels)
         warm.append(time.perf_counter() - t0)
     t0 = time.perf_counter()
-    text = engine.format_table(s, levels, analysis)
+    text = tables.pair_table(s, levels, analysis)
     t_table = time.perf_counter() - t0
     t0 = time.perf_counter()
     analysis.to_json()

@@ -6,6 +6,11 @@ The Python API and the command line call the same functions::
     s = study.load("examples/small-shop.toml")
     levels = faults.compute(s)
     analysis = engine.analyse(s, levels)
+
+or all three stages at once, as ``check`` runs them::
+
+    from coordination.pipeline import assess
+    result = assess(s)  # result.levels, result.analysis, result.checks, result.ok
 """
 
 __version__ = "0.1.0"

@@ -118,7 +118,7 @@ def guarded(command: Callable[..., Any]) -> Callable[..., Any]:
             fail(str(error))
         except BrokenPipeError:
             _quiet_stdout()
-            done(_verdict if _verdict is not None else 0)
+            raise typer.Exit(_verdict if _verdict is not None else 0) from None
         except (OSError, UnicodeError) as error:
             if isinstance(error, OSError):
                 fail(_os_message(error))
@@ -212,32 +212,10 @@ def echo_json(value: Any) -> None:
 #: Thread counts of the BLAS libraries numpy may be built with (OpenBLAS, MKL), read when numpy
 #: is first imported.
 BLAS_THREADS = ("OPENBLAS_NUM_THREADS", "MKL_NUM_THREADS")
-#: Set by commands that draw figures: they need the collector and the interpreter's full exit.
-_figures = False
-#: Set by :func:`main`: the command line runs as its own process, which a command may end where
-#: it finishes (:func:`done`). Unset in process (the tests' runner, the Python API).
+#: Set by :func:`main`: the command line runs as its own process, whose stdout a failed write may
+#: point at the null device (:func:`_quiet_stdout`). Unset in process (the tests' runner, the
+#: Python API).
 _own_process = False
-
-
-def _figures_ahead() -> None:
-    """Before a command draws: turn the garbage collector back on (matplotlib's figures hold
-    reference cycles) and let the process end with the interpreter's full teardown."""
-    global _figures
-    _figures = True
-    gc.enable()
-
-
-def done(code: int) -> NoReturn:
-    """Finish a command with exit ``code``.
-
-    In its own process, a command that drew no figure ends the process right here
-    (:func:`_leave`): returning would first free its results one object at a time (0.01-0.02 s
-    after a building's check) for memory the operating system takes back at once. In process
-    it raises ``typer.Exit(code)`` as usual.
-    """
-    if _own_process and not _figures:
-        _leave(code)
-    raise typer.Exit(code)
 
 
 def load_study(path: Path):
@@ -293,9 +271,9 @@ def times(
                    "settings": dict(band.settings), "notes": list(band.notes),
                    "points": points})
         return
-    from coordination.text import format_times
+    from coordination.tables import times_table
 
-    typer.echo(format_times(band, points))
+    typer.echo(times_table(band, points))
 
 
 @app.command()
@@ -303,6 +281,7 @@ def times(
 def faults(study_path: StudyArg, as_json: JsonOption = False) -> None:
     """Fault levels at every board and circuit end."""
     from coordination import faults as fault_levels
+    from coordination import tables
 
     s = load_study(study_path)
     levels = fault_levels.compute(s)
@@ -311,34 +290,30 @@ def faults(study_path: StudyArg, as_json: JsonOption = False) -> None:
                    "origin": levels.origin_json(), "convention": levels.convention}
         echo_json(payload)
     else:
-        typer.echo(fault_levels.format_table(s, levels))
-    done(0)
+        typer.echo(tables.fault_table(s, levels))
 
 
 @app.command()
 @guarded
 def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption = None) -> None:
     """Selectivity of every upstream/downstream pair, plus the protection checks."""
-    from coordination import checks, engine
-    from coordination import faults as fault_levels
+    from coordination import checks, engine, tables
+    from coordination.pipeline import assess
 
     s = load_study(study_path)
-    levels = fault_levels.compute(s)
-    analysis = engine.analyse(s, levels, basis=check_basis(basis))
-    results = checks.run(s, levels)
-    ok = analysis.ok and all(r.ok for r in results)
-    verdict(0 if ok else 1)
+    result = assess(s, check_basis(basis))
+    analysis = result.analysis
+    verdict(0 if result.ok else 1)
     if as_json:
-        # held until done(): in its own process nothing is freed one object at a time
         payload = {"pairs": Records(analysis.pairs, engine.PairResult.to_json),
                    "summary": analysis.summary(),
-                   "checks": Records(results, checks.CheckResult.json_record),
-                   "ok": ok, "caution": CAUTION}
+                   "checks": Records(result.checks, checks.CheckResult.json_record),
+                   "ok": result.ok, "caution": CAUTION}
         echo_json(payload)
     else:
-        typer.echo(engine.format_table(s, levels, analysis))
+        typer.echo(tables.pair_table(s, result.levels, analysis))
         typer.echo("")
-        typer.echo(checks.format_table(results))
+        typer.echo(tables.check_table(result.checks))
         typer.echo("")
         if not analysis.ok:
             uppers = sorted({p.upstream for p in analysis.pairs if not p.ok})
@@ -349,7 +324,7 @@ def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption 
                 "circuit needs (selective_to_a)."
             )
         typer.echo(CAUTION)
-    done(0 if ok else 1)
+    raise typer.Exit(0 if result.ok else 1)
 
 
 @app.command()
@@ -386,7 +361,7 @@ def choose(
     else:
         typer.echo(chooser.format_results(results))
         typer.echo(CAUTION)
-    done(0 if all(r.found for r in results) else 1)
+    raise typer.Exit(0 if all(r.found for r in results) else 1)
 
 
 @app.command()
@@ -398,23 +373,21 @@ def plot(
     basis: BasisOption = None,
 ) -> None:
     """Time-current plot of a circuit and everything above it."""
-    _figures_ahead()
+    gc.enable()  # matplotlib's figures hold reference cycles (see main)
     from coordination.io import check_output_path
 
     check_output_path(output, inputs=(study_path,), key="-o")
     if output.suffix.lower() not in (".png", ".svg", ".pdf"):
         raise InputError(f"unknown plot format {output.suffix!r}; allowed: .png, .svg, .pdf",
                          key="-o")
-    from coordination import engine
-    from coordination import faults as fault_levels
     from coordination import plot as plotting
+    from coordination.pipeline import assess
 
     s = load_study(study_path)
     if circuit not in s.by_id:
         raise InputError(f"no circuit {circuit!r} in the study", key="--circuit")
-    levels = fault_levels.compute(s)
-    analysis = engine.analyse(s, levels, basis=check_basis(basis))
-    fig = plotting.plot_circuit(s, levels, analysis, circuit)
+    result = assess(s, check_basis(basis))
+    fig = plotting.plot_circuit(s, result.levels, result.analysis, circuit)
     plotting.save_figure(fig, output)
     typer.echo(f"wrote {output}")
 
@@ -429,7 +402,7 @@ def report(
     basis: BasisOption = None,
 ) -> None:
     """The selectivity report of the whole study (PDF)."""
-    _figures_ahead()
+    gc.enable()  # matplotlib's figures hold reference cycles (see main)
     from coordination.io import check_output_path
 
     check_output_path(output, inputs=(study_path,), key="-o")
@@ -455,7 +428,7 @@ def demo(
     = Path("coordination-demo"),
 ) -> None:
     """Run check and the report on the bundled example installation."""
-    _figures_ahead()
+    gc.enable()  # matplotlib's figures hold reference cycles (see main)
     from coordination import report as reporting
 
     code = reporting.run_demo(output_dir)
@@ -465,19 +438,17 @@ def demo(
 def main() -> NoReturn:
     """Console entry point: usage errors, like input errors, are one line and exit code 2.
 
-    The cyclic garbage collector is off for a command: a check builds a few hundred thousand
-    acyclic objects that reference counting frees, and the collector's passes over them cost
-    0.03 s of a 2,061-circuit check (20 passes even at a raised threshold) for nothing freed;
-    peak memory is the same with it off (73 MB for that check, 41 MB for a chooser over the
-    whole building). ``plot``, ``report`` and ``demo`` turn it back on (matplotlib's figures
-    hold reference cycles). The process then ends through :func:`_leave`.
-
     The tool does no linear algebra, so numpy's BLAS gets one thread (unless the environment
-    says otherwise): starting a pool of BLAS threads on import cost 0.01-0.02 s a command.
+    says otherwise): starting a pool of BLAS threads on import cost 0.01-0.02 s a command
+    (docs/performance.md).
 
-    It ends the process without unwinding (``os._exit``), so it is the program's entry point
-    only; from Python, call the functions the commands call (or ``app`` through typer's test
-    runner).
+    The cyclic garbage collector is off: a check builds a few hundred thousand acyclic objects
+    that reference counting frees, and the collector's passes over them cost 0.05 s of a
+    2,061-circuit check for nothing freed (docs/performance.md). The commands that draw
+    (``plot``, ``report``, ``demo``) turn it back on: matplotlib's figures hold reference
+    cycles.
+
+    From Python, call the functions the commands call (or ``app`` through typer's test runner).
     """
     global _own_process
     _own_process = True
@@ -485,7 +456,7 @@ def main() -> NoReturn:
         os.environ.setdefault(name, "1")
     gc.disable()
     signal.signal(signal.SIGTERM, _terminate)
-    _leave(_run())
+    sys.exit(_flushed(_run()))
 
 
 def _terminate(signum: int, frame: Any) -> None:
@@ -533,24 +504,22 @@ def _run() -> int:
     return code if isinstance(code, int) else 0
 
 
-def _leave(code: int) -> NoReturn:
-    """End the process with ``code``; after a command that drew no figure, without teardown.
+def _flushed(code: int) -> int:
+    """Flush stdout and stderr before the interpreter exits; the exit code.
 
-    The interpreter's own exit frees every object and module one by one: 0.02-0.04 s after a
-    building's check (a tenth of the command), for memory the operating system takes back at
-    once. Nothing is lost by skipping it there: the output is flushed first, and those commands
-    register no exit handlers and hold no open files. Commands that draw take the ordinary exit
-    (matplotlib registers exit handlers).
+    A reader that closed its end early has what it wanted: the code stays. A write that fails
+    (a full disk, say) leaves the output incomplete: one line on stderr and code 2. Either way
+    stdout then points at the null device, so that the interpreter's own flush at exit finds
+    nothing left to fail on.
     """
-    if _figures:
-        sys.exit(code)
     out, err = sys.stdout, sys.stderr  # None where the stream was closed before the start
     try:
         if out is not None:
             out.flush()
-    except BrokenPipeError:  # a reader that closed its end early has what it wanted
-        pass
-    except OSError as error:  # a full disk, say: the output is incomplete
+    except BrokenPipeError:
+        _quiet_stdout()
+    except OSError as error:
+        _quiet_stdout()
         if err is not None:
             err.write(f"error: the output could not be written: {error.strerror or error}\n")
         code = 2
@@ -559,7 +528,7 @@ def _leave(code: int) -> NoReturn:
             err.flush()
     except OSError:
         pass
-    os._exit(code)
+    return code
 
 
 if __name__ == "__main__":  # pragma: no cover

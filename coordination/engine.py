@@ -55,7 +55,8 @@ import numpy as np
 
 from coordination import criterion
 from coordination.criterion import ADJUSTABLE_FAMILIES, EQUAL_RTOL
-from coordination.devices import band_for, compact_labels
+from coordination.devices import band_for
+from coordination.faults import FaultLevels
 from coordination.model import Study
 from coordination.roots import find_crossing
 from curves.band import ENERGY_REGION_S, TIME_CEILING_S, TIME_FLOOR_S, Band
@@ -558,7 +559,7 @@ def _segments(study: Study, head: _Run | None,
     return out
 
 
-def _window_top(levels: Any, circuit_id: str) -> float:
+def _window_top(levels: FaultLevels, circuit_id: str) -> float:
     try:
         node = levels.by_circuit[circuit_id]
     except KeyError:
@@ -566,7 +567,7 @@ def _window_top(levels: Any, circuit_id: str) -> float:
     return float(node.ik_max_a)
 
 
-def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
+def analyse(study: Study, levels: FaultLevels, *, basis: str | None = None) -> Analysis:
     """Selectivity of every circuit under every circuit above it.
 
     Parameters
@@ -679,7 +680,7 @@ def analyse(study: Study, levels: Any, *, basis: str | None = None) -> Analysis:
 
 # ---------------------------------------------------------------------------------------------
 # geometry, lazily, for plots and the report
-def overlap(study: Study, levels: Any, pair: PairResult | tuple[str, str],
+def overlap(study: Study, levels: FaultLevels, pair: PairResult | tuple[str, str],
             basis: str | None = None) -> BaseGeometry:
     """The crossover zone of a pair: where the upstream may operate before the downstream clears.
 
@@ -804,82 +805,3 @@ def _zone(up: Band, down: Band, start: float, hi: float, margin: float,
     if not polygons:
         return Polygon()
     return polygons[0] if len(polygons) == 1 else MultiPolygon(polygons)
-
-
-# ---------------------------------------------------------------------------------------------
-# the terminal table
-_BASIS_SHORT = {"typical": "typ", "envelope": "env", "datasheet": "data"}
-_VERDICT_TEXT = {"total": "total", "partial": "partial", "none": "none"}
-
-
-def _ka(value: float | None) -> str:
-    if value is None or not math.isfinite(value):
-        return "-"
-    return f"{value / 1000:.3g}"
-
-
-def format_table(study: Study, levels: Any, analysis: Analysis) -> str:
-    """The pairs grouped by the board the downstream device sits on, and a summary line.
-
-    Columns: circuit, device, above (the upstream circuit and device), verdict, Is [kA], window
-    (A or kA), decided by, band bases (downstream/upstream), required [kA], ok. Devices are in
-    their compact form (an adjustable breaker's kind, rating and Ir; the JSON has the rest).
-
-    Examples
-    --------
-    >>> from coordination import study, faults
-    >>> s = study.loads('''
-    ... [study]
-    ... title = "two fuses"
-    ... [supply]
-    ... pfc_a = 16000
-    ... [[circuit]]
-    ... id = "main"
-    ... from = "supply"
-    ... device = "gG100"
-    ... [[circuit]]
-    ... id = "sub"
-    ... from = "main"
-    ... device = "gG63"
-    ... ''')
-    >>> levels = faults.compute(s)
-    >>> print(format_table(s, levels, analyse(s, levels)).splitlines()[-1].split(":")[0])
-    selectivity
-    """
-    from coordination.text import format_current, table
-
-    label = compact_labels(study, analysis.basis, band_of=band_for)
-    groups: dict[str, list[PairResult]] = {}
-    for p in analysis.pairs:
-        groups.setdefault(study.board_name(p.downstream), []).append(p)
-    headers = ["circuit", "device", "above", "verdict", "Is kA", "window", "decided by",
-               "bases", "required kA", "ok"]
-    blocks = []
-    for board, pairs in groups.items():
-        rows = []
-        previous = None
-        for p in pairs:
-            bases = (f"{_BASIS_SHORT.get(p.downstream_basis, p.downstream_basis)}/"
-                     f"{_BASIS_SHORT.get(p.upstream_basis, p.upstream_basis)}")
-            first = p.downstream != previous
-            previous = p.downstream
-            rows.append([
-                p.downstream if first else "", label[p.downstream] if first else "",
-                f"{p.upstream} ({label[p.upstream]})" if p.upstream_count == 1 else
-                f"{p.upstream} to {p.upstream_last} ({p.upstream_count} x {label[p.upstream]})",
-                _VERDICT_TEXT[p.verdict], _ka(p.limit_a) if p.verdict != "total" else "-",
-                f"{format_current(p.window_a[0])} - {format_current(p.window_a[1])}",
-                p.decided_by, bases,
-                "total" if p.required_a is None else _ka(p.required_a),
-                "yes" if p.ok else "NO",
-            ])
-        top = pairs[0].window_a[1] if pairs else float("nan")
-        blocks.append(f"board {board} (max fault {_ka(top)} kA)\n"
-                      + table(headers, rows, "lllllrlllr"))
-    s = analysis.summary()
-    if not analysis.pairs:
-        blocks.append("no upstream/downstream pairs (a single level of devices)")
-    blocks.append(
-        f"selectivity: {s['pairs']} pairs, {s['total']} total, {s['partial']} partial, "
-        f"{s['none']} none; requirements unmet: {s['unmet']}")
-    return "\n\n".join(blocks)

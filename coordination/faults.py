@@ -50,7 +50,6 @@ at once by pointer jumping (log2 of the depth numpy steps), so deep chains need 
 from __future__ import annotations
 
 import math
-import textwrap
 from collections.abc import Mapping
 from dataclasses import dataclass, fields
 from functools import cached_property, lru_cache
@@ -61,7 +60,6 @@ import numpy as np
 
 from coordination import cables
 from coordination.model import Cable, Study, Supply
-from coordination.text import table
 
 SQRT3 = math.sqrt(3.0)
 
@@ -405,7 +403,30 @@ NODE_FIELDS = tuple(f.name for f in fields(NodeFaults))
 
 @dataclass(frozen=True)
 class FaultLevels:
-    """Fault levels of a whole study, one :class:`NodeFaults` per circuit (study order)."""
+    """Fault levels of a whole study, one :class:`NodeFaults` per circuit (study order).
+
+    What :func:`compute` returns, and what the engine, the checks, the plots and the report
+    take as ``levels``.
+
+    Attributes
+    ----------
+    nodes : tuple of NodeFaults
+        One per circuit, in study order (:attr:`by_circuit` finds one by its id).
+    origin_ik3_a : float or None
+        Three-phase maximum current at the origin [A]; ``None`` under a single-phase supply.
+    origin_ik1_a : float
+        Line-neutral maximum current at the origin [A].
+    ze_ohm : float
+        External earth-fault loop impedance Ze [ohm], given or taken from the source.
+    convention : str
+        The conventions used, in words (:func:`convention_text`).
+    u0_v, c_max, c_min : float
+        Nominal voltage to earth [V] and the voltage factors of IEC 60909-0 Table 1.
+    source : str
+        The source and how its impedance was found, in words.
+    k_t : float or None
+        The transformer's impedance correction factor K_T (IEC 60909-0, 6.3), if any.
+    """
 
     nodes: tuple[NodeFaults, ...]
     origin_ik3_a: float | None
@@ -420,6 +441,7 @@ class FaultLevels:
 
     @cached_property
     def by_circuit(self) -> Mapping[str, NodeFaults]:
+        """The nodes by circuit id (read-only)."""
         return MappingProxyType({n.circuit: n for n in self.nodes})
 
     def to_json(self) -> dict[str, Any]:
@@ -580,53 +602,3 @@ def compute(study: Study) -> FaultLevels:
         convention=convention_text(supply),
         u0_v=u0, c_max=c_max, c_min=c_min, source=src.description, k_t=src.k_t,
     )
-
-
-# -- printing ------------------------------------------------------------------------------------
-def _ka(i_a: float | None) -> str:
-    return "-" if i_a is None or not math.isfinite(i_a) else f"{i_a / 1000:.3f}"
-
-
-def _ohm(z: float | None) -> str:
-    if z is None or not math.isfinite(z):
-        return "-"
-    return f"{z:.4f}" if z < 100 else f"{z:.1f}"
-
-
-def format_table(study: Study, levels: FaultLevels) -> str:
-    """The fault levels as a readable table: currents in kA, impedances in ohm.
-
-    Examples
-    --------
-    >>> from coordination.study import from_dict
-    >>> s = from_dict({"supply": {"pfc_a": 16000, "ze_ohm": 0.35, "phases": 1},
-    ...                "circuit": [{"id": "a", "from": "supply", "device": "gG63"}]})
-    >>> print(format_table(s, compute(s)).count("16.000"))
-    3
-    """
-    ik3 = (f"{_ka(levels.origin_ik3_a)} kA" if levels.origin_ik3_a is not None
-           else "n/a (single-phase supply)")
-    head = [
-        f"Fault levels: {study.title}",
-        f"origin: Ik3 max {ik3}, Ik1 (line-neutral) max {_ka(levels.origin_ik1_a)} kA, "
-        f"Ze {_ohm(levels.ze_ohm)} ohm, U0 {levels.u0_v:g} V",
-    ]
-    head += textwrap.wrap("source: " + levels.source, 100, subsequent_indent="  ")
-    rows = []
-    for node in levels.nodes:
-        rows.append([
-            node.circuit, node.board, str(node.phases), _ka(node.ik3_max_a),
-            _ka(node.ik1_max_a), _ka(node.ik_max_a), _ohm(node.zs_ohm), _ka(node.ief_min_a),
-            _ka(node.ik_min_end_a) + ("" if node.ik_min_end_kind == "line-neutral" else " LL"),
-        ])
-    body = table(
-        ["circuit", "board", "ph", "Ik3 kA", "Ik1 kA", "window kA", "Zs ohm", "Ief min kA",
-         "Ik min kA"],
-        rows, "lllrrrrrr")
-    foot = textwrap.wrap("convention: " + levels.convention, 100, subsequent_indent="  ")
-    foot += textwrap.wrap(
-        "columns: at the circuit's board (its origin) the maximum three-phase (Ik3) and "
-        "line-neutral (Ik1) currents and the window's end; at its far end the earth-fault loop "
-        "Zs, the minimum earth-fault current Ief and the minimum short-circuit current Ik min "
-        "(LL: line-line, the cable has no neutral).", 100, subsequent_indent="  ")
-    return "\n".join([*head, "", body, "", *foot])

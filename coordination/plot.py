@@ -35,12 +35,14 @@ import math
 import os
 from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING, Any, NamedTuple
 
 import numpy as np
 
-from coordination import checks
+from coordination import checks, engine
 from coordination.devices import band_for
+from coordination.engine import Analysis, PairResult
+from coordination.faults import FaultLevels, NodeFaults
 from coordination.io import atomic_path
 from coordination.model import Cable, Study
 from coordination.text import format_current, format_seconds, positive_or_none
@@ -226,6 +228,18 @@ class _Layout:
     lines: list[Any]
     edges: list[Any]
 
+    @classmethod
+    def empty(cls, ax: Axes) -> _Layout:
+        """Nothing placed yet; the frame is the axes' area, 1 pt inside."""
+        from shapely.geometry import box
+
+        frame = ax.get_position().bounds  # figure fraction: x, y, width, height
+        fig_w_pt, fig_h_pt = (float(v) * 72.0 for v in ax.figure.get_size_inches())
+        return cls(frame=box(frame[0] * fig_w_pt + 1, frame[1] * fig_h_pt + 1,
+                             (frame[0] + frame[2]) * fig_w_pt - 1,
+                             (frame[1] + frame[3]) * fig_h_pt - 1),
+                   texts=[], zones=[], bands={}, lines=[], edges=[])
+
     def score(self, box: Any, own: str | None, weights: dict[str, float]) -> float:
         if not self.frame.contains(box):
             return 1e6
@@ -305,7 +319,7 @@ def _minor_grid(x_lo: float, x_hi: float, y_lo: float, y_hi: float) -> Any:
     return LineCollection(segments, colors="#e6e6e6", linewidths=0.4, zorder=0.5)
 
 
-def pairs_in_chain(analysis: Any, chain: Sequence[str]) -> list[Any]:
+def pairs_in_chain(analysis: Analysis, chain: Sequence[str]) -> list[PairResult]:
     """The engine's pairs whose upstream and downstream are both in a chain of circuits."""
     members = set(chain)
     return [p for cid in reversed(chain) for p in analysis.for_circuit(cid)
@@ -333,7 +347,7 @@ def _literal_text(draw: Any) -> Any:
 
 
 @_literal_text
-def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
+def plot_circuit(study: Study, levels: FaultLevels, analysis: Analysis, circuit_id: str, *,
                  basis: str | None = None, ax: Axes | None = None,
                  title: str | None = None) -> Figure:
     """Time-current plot of a circuit's device and every device above it.
@@ -381,14 +395,10 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
     ...                             if (c.get_gid() or "").startswith("band:")]))
     log 2
     """
-    from matplotlib.colors import to_rgba
     from matplotlib.figure import Figure
-    from matplotlib.patches import Patch
-    from matplotlib.ticker import FuncFormatter, LogLocator, NullLocator
-    from shapely.geometry import LineString, Polygon, box
 
     if basis is None:
-        basis = getattr(analysis, "basis", None)
+        basis = analysis.basis
     chain = _chain(study, circuit_id)
     bands = {cid: band_for(study, cid, basis) for cid in chain}
     # the circuit, then the engine's rows above it: ancestors in a row with one device are one
@@ -396,42 +406,88 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
     drawn = [(circuit_id, circuit_id, 1)] + [
         (p.upstream, p.upstream_last or p.upstream, p.upstream_count)
         for p in analysis.for_circuit(circuit_id)]
-    node = levels.by_circuit.get(circuit_id)
     circuit = study.by_id[circuit_id]
+    i_min, i_max = _current_span(levels, chain, bands, circuit.load_a)
 
-    # -- current span: below the smallest pickup to a bit past the largest fault in the chain
+    standalone = ax is None
+    if ax is None:
+        fig = Figure(figsize=(9.0, 7.6))
+        ax = fig.add_axes((0.1, 0.27, 0.86, 0.65))
+    else:
+        fig = ax.figure
+    ax.set_xscale("log")
+    ax.set_yscale("log")
+    ax.set_xlim(i_min, i_max)
+    ax.set_ylim(TIME_FLOOR_S, TIME_CEILING_S)
+    layout = _Layout.empty(ax)
+    key: list[tuple[Any, str]] = []  # the legend: (handle, label)
+
+    tags = _draw_bands(ax, layout, key, bands, drawn, i_min, i_max)
+    limits = _draw_zones(ax, layout, key, study, levels, analysis, chain, drawn, bands, basis)
+    _draw_markers(ax, layout, key, study.board_name(circuit_id),
+                  levels.by_circuit.get(circuit_id), circuit.load_a)
+    if circuit.cable is not None:
+        _draw_withstand(ax, layout, key, circuit.cable)
+    # labels: the Is marks first, then each band's circuit id, clear of each other
+    _place_limits(ax, layout, limits)
+    _place_tags(ax, layout, tags)
+    _dress_axes(ax, i_min, i_max,
+                title or f"{study.title}\n{circuit_id} and the devices above it")
+    _draw_key(ax, key)
+    if standalone:
+        from coordination import CAUTION
+
+        fig.text(0.1, 0.015, CAUTION, fontsize=6.5, color="#444444")
+    return fig
+
+
+# -- the drawing steps of plot_circuit, each on the Axes it is given ---------------------------
+class _Tag(NamedTuple):
+    """A band's label to place: its circuit id (or run of ids), colour and edges."""
+
+    cid: str
+    text: str
+    colour: str
+    grid: np.ndarray
+    t_lo: np.ndarray
+    t_hi: np.ndarray
+
+
+class _Limit(NamedTuple):
+    """An Is mark to place: the pair's name, Is [A] and the time at its mark [s]."""
+
+    name: str
+    current_a: float
+    t_s: float
+
+
+def _current_span(levels: FaultLevels, chain: Sequence[str], bands: dict[str, Band],
+                  load_a: float | None) -> tuple[float, float]:
+    """The current axis [A]: below the smallest pickup to a bit past the largest fault in the
+    chain, whole decades, at least one."""
     faults_a = [positive_or_none(getattr(levels.by_circuit.get(cid), key, None))
                 for key in ("ik_max_a", "ik3_max_a") for cid in chain]
     faults_a = [f for f in faults_a if f]
     lows = [v for v in (*(positive_or_none(b.pickup_min_a) for b in bands.values()),
-                        positive_or_none(circuit.load_a)) if v]
+                        positive_or_none(load_a)) if v]
     i_min = 10.0 ** math.floor(math.log10(0.7 * min(lows))) if lows else 1.0
     top = max(faults_a) if faults_a else 100.0 * max(b.rating_a for b in bands.values())
     i_max = 10.0 ** math.ceil(math.log10(1.3 * top))
     if i_max <= i_min:  # a fault level below every pickup: still a decade to draw in
         i_max = 10.0 * i_min
+    return i_min, i_max
 
-    if ax is None:
-        fig = Figure(figsize=(9.0, 7.6))
-        ax = fig.add_axes((0.1, 0.27, 0.86, 0.65))
-        standalone = True
-    else:
-        fig = ax.figure
-        standalone = False
-    ax.set_xscale("log")
-    ax.set_yscale("log")
-    ax.set_xlim(i_min, i_max)
-    ax.set_ylim(TIME_FLOOR_S, TIME_CEILING_S)
-    frame = ax.get_position().bounds  # figure fraction: x, y, width, height
-    fig_w_pt, fig_h_pt = (float(v) * 72.0 for v in fig.get_size_inches())
-    layout = _Layout(
-        frame=box(frame[0] * fig_w_pt + 1, frame[1] * fig_h_pt + 1,
-                  (frame[0] + frame[2]) * fig_w_pt - 1, (frame[1] + frame[3]) * fig_h_pt - 1),
-        texts=[], zones=[], bands={}, lines=[], edges=[])
-    key_entries: list[tuple[Any, str]] = []  # legend: (handle, label)
 
-    # -- bands, downstream first (drawn last so it sits on top); alike devices in a row once
-    tags: list[tuple[str, str, str, np.ndarray, np.ndarray, np.ndarray]] = []
+def _draw_bands(ax: Axes, layout: _Layout, key: list[tuple[Any, str]], bands: dict[str, Band],
+                drawn: Sequence[tuple[str, str, int]], i_min: float,
+                i_max: float) -> list[_Tag]:
+    """Each band between its edges, downstream drawn last so that it sits on top; alike devices
+    in a row once. Adds them to the key, downstream first; returns their labels to place."""
+    from matplotlib.colors import to_rgba
+    from matplotlib.patches import Patch
+    from shapely.geometry import LineString
+
+    tags: list[_Tag] = []
     band_keys: list[tuple[Any, str]] = []
     for k, (cid, last, count) in reversed(list(enumerate(drawn))):
         band = bands[cid]
@@ -453,14 +509,22 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
         # the key shows the band as it is drawn: its fill with its edges' colour and dashes
         band_keys.append((Patch(facecolor=to_rgba(colour, BAND_ALPHA), edgecolor=colour,
                                 linestyle=dash, linewidth=1.3, gid=f"key:{cid}"), label))
-        tags.append((cid, cid if count == 1 else f"{cid} to {last}", colour, grid, t_lo, t_hi))
-    key_entries.extend(reversed(band_keys))  # downstream first, as the bands are numbered
+        tags.append(_Tag(cid, cid if count == 1 else f"{cid} to {last}", colour, grid, t_lo,
+                         t_hi))
+    key.extend(reversed(band_keys))  # downstream first, as the bands are numbered
     tags.reverse()
+    return tags
 
-    # -- crossover zones and their limits
-    from coordination import engine
 
-    limits: list[tuple[str, float, float]] = []  # (pair name, Is [A], time at its mark [s])
+def _draw_zones(ax: Axes, layout: _Layout, key: list[tuple[Any, str]], study: Study,
+                levels: FaultLevels, analysis: Analysis, chain: Sequence[str],
+                drawn: Sequence[tuple[str, str, int]], bands: dict[str, Band],
+                basis: str | None) -> list[_Limit]:
+    """The crossover zone of each pair drawn that is not selective throughout, hatched (boxed
+    too when small); adds them to the key and returns their Is marks to place."""
+    from shapely.geometry import Polygon
+
+    limits: list[_Limit] = []
     zones = 0
     shown = {cid for cid, _, _ in drawn}
     for pair in pairs_in_chain(analysis, chain):
@@ -476,7 +540,7 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
                      f"{where}")
             patch = _zone_patch(polys, f"zone:{name}", label, hatch)
             ax.add_patch(patch)
-            key_entries.append((patch, label))
+            key.append((patch, label))
             zones += 1
             for poly in polys:
                 ring = 10.0 ** np.asarray(poly.exterior.coords, dtype=np.float64)
@@ -492,57 +556,67 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
                 xs = np.concatenate([np.asarray(p.exterior.coords)[:, 0] for p in polys])
                 ys = np.concatenate([np.asarray(p.exterior.coords)[:, 1] for p in polys])
                 t_at = float(10.0 ** ys[int(np.argmin(xs))])
-            limits.append((name, limit, t_at))
+            limits.append(_Limit(name, limit, t_at))
+    return limits
 
-    # -- vertical markers
-    board = study.board_name(circuit_id)
+
+def _draw_markers(ax: Axes, layout: _Layout, key: list[tuple[Any, str]], board: str,
+                  node: NodeFaults | None, load_a: float | None) -> None:
+    """Vertical lines at the maximum fault at the board, the minimum earth fault at the far end
+    and the design current Ib (each where known)."""
+    from shapely.geometry import LineString
+
     markers = [
         ("max-fault", positive_or_none(getattr(node, "ik_max_a", None)),
          "maximum fault at {board}: {i}"),
         ("min-earth-fault", positive_or_none(getattr(node, "ief_min_a", None)),
          "minimum earth fault at the far end: {i}"),
-        ("load", positive_or_none(circuit.load_a), "design current Ib: {i}"),
+        ("load", positive_or_none(load_a), "design current Ib: {i}"),
     ]
-    for key, current, text in markers:
+    for name, current, text in markers:
         if current is None:
             continue
         label = text.format(board=board, i=format_current(current))
-        line = ax.axvline(current, zorder=5, gid=f"marker:{key}", label=label,
-                          **MARKER_STYLE[key])
-        key_entries.append((line, label))
+        line = ax.axvline(current, zorder=5, gid=f"marker:{name}", label=label,
+                          **MARKER_STYLE[name])
+        key.append((line, label))
         layout.lines.append(LineString(_points(ax, [current, current],
                                                [TIME_FLOOR_S, TIME_CEILING_S])))
 
-    # -- adiabatic withstand of the circuit's conductors, as the protection checks take them at
-    # the board, where the faults are largest: one conductor of several in parallel carries a
-    # fault just past the board (the checks take all of them only for far-end faults)
-    cable: Cable | None = circuit.cable
-    if cable is not None:
-        sizes = checks.conductor_sizes(cable)
-        line_count = max(int(cable.parallel or 1), 1)
-        cpc_count = max(round(sizes.cpc_mm2 / sizes.cpc_each_mm2), 1) if sizes.cpc_each_mm2 else 1
-        for key, s_mm2, k, count, what in (
-            ("line", float(cable.csa_mm2), sizes.k_line, line_count, "line conductor"),
-            ("cpc", sizes.cpc_each_mm2, sizes.k_cpc, cpc_count, "protective conductor"),
-        ):
-            t_hi = min(ADIABATIC_LIMIT_S, TIME_CEILING_S)
-            i_a = k * s_mm2 / math.sqrt(t_hi)
-            i_b = k * s_mm2 / math.sqrt(TIME_FLOOR_S)
-            size = (f"{s_mm2:g} mm\u00b2 (one of {count} in parallel)" if count > 1
-                    else f"{s_mm2:g} mm\u00b2")
-            label = f"{what} {size} withstand, k={k:g}: k\u00b2S\u00b2/I\u00b2"
-            (line,) = ax.plot([i_a, i_b], [t_hi, TIME_FLOOR_S], zorder=4, gid=f"withstand:{key}",
-                              label=label, **WITHSTAND_STYLE[key])
-            key_entries.append((line, label))
-            layout.lines.append(LineString(_points(ax, [i_a, i_b], [t_hi, TIME_FLOOR_S])))
 
-    # -- labels: the Is marks first, then each band's circuit id, clear of each other
-    _place_limits(ax, layout, limits)
-    _place_tags(ax, layout, tags)
+def _draw_withstand(ax: Axes, layout: _Layout, key: list[tuple[Any, str]],
+                    cable: Cable) -> None:
+    """The adiabatic withstand of the circuit's line and protective conductors, as the
+    protection checks take them at the board, where the faults are largest: one conductor of
+    several in parallel carries a fault just past the board (the checks take all of them only
+    for far-end faults)."""
+    from shapely.geometry import LineString
 
-    # -- axes, ticks, legend
-    # major ticks and grid at every decade; the minor grid (2 to 9 in each decade) is one line
-    # collection rather than minor ticks, which keeps drawing fast
+    sizes = checks.conductor_sizes(cable)
+    line_count = max(int(cable.parallel or 1), 1)
+    cpc_count = max(round(sizes.cpc_mm2 / sizes.cpc_each_mm2), 1) if sizes.cpc_each_mm2 else 1
+    for name, s_mm2, k, count, what in (
+        ("line", float(cable.csa_mm2), sizes.k_line, line_count, "line conductor"),
+        ("cpc", sizes.cpc_each_mm2, sizes.k_cpc, cpc_count, "protective conductor"),
+    ):
+        t_hi = min(ADIABATIC_LIMIT_S, TIME_CEILING_S)
+        i_a = k * s_mm2 / math.sqrt(t_hi)
+        i_b = k * s_mm2 / math.sqrt(TIME_FLOOR_S)
+        size = (f"{s_mm2:g} mm\u00b2 (one of {count} in parallel)" if count > 1
+                else f"{s_mm2:g} mm\u00b2")
+        label = f"{what} {size} withstand, k={k:g}: k\u00b2S\u00b2/I\u00b2"
+        (line,) = ax.plot([i_a, i_b], [t_hi, TIME_FLOOR_S], zorder=4, gid=f"withstand:{name}",
+                          label=label, **WITHSTAND_STYLE[name])
+        key.append((line, label))
+        layout.lines.append(LineString(_points(ax, [i_a, i_b], [t_hi, TIME_FLOOR_S])))
+
+
+def _dress_axes(ax: Axes, i_min: float, i_max: float, title: str) -> None:
+    """Ticks and grid at every decade, the minor grid, the axis labels and the title."""
+    from matplotlib.ticker import FuncFormatter, LogLocator, NullLocator
+
+    # the minor grid (2 to 9 in each decade) is one line collection rather than minor ticks,
+    # which keeps drawing fast
     ax.xaxis.set_major_locator(LogLocator(base=10.0, numticks=20))
     ax.yaxis.set_major_locator(LogLocator(base=10.0, numticks=20))
     ax.xaxis.set_minor_locator(NullLocator())
@@ -554,9 +628,12 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
     ax.tick_params(labelsize=8)
     ax.set_xlabel("prospective current [A]", fontsize=9)
     ax.set_ylabel("time [s]", fontsize=9)
-    ax.set_title(title or f"{study.title}\n{circuit_id} and the devices above it", fontsize=10,
-                 y=1.01)  # a fixed position: no layout pass over the tick labels
-    handles, labels = zip(*key_entries, strict=True) if key_entries else ((), ())
+    ax.set_title(title, fontsize=10, y=1.01)  # a fixed position: no layout pass over the ticks
+
+
+def _draw_key(ax: Axes, key: Sequence[tuple[Any, str]]) -> None:
+    """The legend below the axes, in two columns."""
+    handles, labels = zip(*key, strict=True) if key else ((), ())
     legend = ax.legend(list(handles), list(labels), loc="upper left",
                        bbox_to_anchor=(0.0, -0.09), ncol=2, fontsize=6.5, frameon=False,
                        title="key", title_fontsize=7.5, alignment="left", handlelength=3.2,
@@ -567,11 +644,6 @@ def plot_circuit(study: Study, levels: Any, analysis: Any, circuit_id: str, *,
         if (original.get_gid() or "").startswith("key:"):
             shown.set_linestyle(original.get_linestyle())
             shown.set_gid(original.get_gid())
-    if standalone:
-        from coordination import CAUTION
-
-        fig.text(0.1, 0.015, CAUTION, fontsize=6.5, color="#444444")
-    return fig
 
 
 def _small_zone_mark(ax: Axes, polygons: Sequence[Any], gid: str, hatch: str) -> Any | None:
@@ -607,7 +679,7 @@ def _small_zone_mark(ax: Axes, polygons: Sequence[Any], gid: str, hatch: str) ->
     return box(cx - half_w, bottom, cx + half_w, cy + half_h)
 
 
-def _place_limits(ax: Axes, layout: _Layout, limits: Sequence[tuple[str, float, float]]) -> None:
+def _place_limits(ax: Axes, layout: _Layout, limits: Sequence[_Limit]) -> None:
     """The Is marks, each where it covers no other label, zone or withstand line."""
     from shapely.geometry import LineString
 
@@ -631,7 +703,7 @@ def _place_limits(ax: Axes, layout: _Layout, limits: Sequence[tuple[str, float, 
 
 
 def _place_tags(ax: Axes, layout: _Layout,
-                tags: Sequence[tuple[str, str, str, np.ndarray, np.ndarray, np.ndarray]]) -> None:
+                tags: Sequence[_Tag]) -> None:
     """Each band's circuit id beside the band at a long time, near its pickup, where it covers
     no Is mark, zone, other label or other band (the best place found)."""
     for cid, text, colour, grid, t_lo, t_hi in tags:

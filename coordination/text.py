@@ -6,8 +6,6 @@ import math
 from collections.abc import Sequence
 from typing import Any
 
-from curves.band import Band
-
 
 def finite_or_none(value: Any) -> float | None:
     """``float(value)`` when it is a finite number, else ``None`` (for optional numbers shown).
@@ -102,16 +100,3 @@ def table(headers: Sequence[str], rows: Sequence[Sequence[str]], align: str | No
     rule = "  ".join("-" * w for w in widths)
     return "\n".join([fmt.format(*headers).rstrip(), rule,
                       *(fmt.format(*row).rstrip() for row in rows)])
-
-
-def format_times(band: Band, points: Sequence[dict]) -> str:
-    """The `times` table: earliest and latest operating time per current."""
-    head = f"{band.name}  basis: {band.basis}"
-    rows = [
-        [format_current(p["current_a"]), significant(p["current_a"] / band.rating_a, 3),
-         format_seconds(p["t_min_s"]), format_seconds(p["t_max_s"])]
-        for p in points
-    ]
-    body = table(["current", "x In", "earliest (t_min)", "latest (t_max)"], rows, "rrrr")
-    notes = "".join(f"\nnote: {n}" for n in band.notes)
-    return f"{head}\n{body}{notes}"

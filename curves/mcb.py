@@ -97,8 +97,8 @@ TYPICAL_TOLERANCE = 0.10
 TYPICAL_LET_THROUGH_EXPONENT = 1.5
 
 #: Standard values of rated short-circuit capacity Icn [A]: IEC 60898-1, 5.3.4 (1500, 3000, 4500,
-#: 6000, 10 000 A; above 10 000 A, 15 000, 20 000 and 25 000 A). REFERENCE.md: from memory
-#: (clause number from memory too).
+#: 6000, 10 000 A; above 10 000 A, 15 000, 20 000 and 25 000 A). Values from memory (the
+#: clause number too).
 MCB_ICN_A: tuple[float, ...] = (1500.0, 3000.0, 4500.0, 6000.0, 10000.0, 15000.0, 20000.0,
                                 25000.0)
 
@@ -177,7 +177,7 @@ def class_let_through_table(
     References
     ----------
     EN 60898-1, Annex ZA (energy-limiting classes); the 10 kA column is confirmed, the others
-    are from memory (REFERENCE.md).
+    are from memory.
 
     Examples
     --------

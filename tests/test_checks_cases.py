@@ -15,7 +15,7 @@ from pathlib import Path
 
 import pytest
 
-from coordination import checks, faults, study
+from coordination import checks, faults, study, tables
 from coordination.devices import band_for
 from coordination.model import Cable, Circuit, Study, Supply
 from curves.band import Band
@@ -505,7 +505,7 @@ def test_result_json_has_the_contract_keys() -> None:
 
 def test_format_table_marks_failures_and_sums_up() -> None:
     results = run_one(one_circuit(), node(zs_ohm=1.52))
-    text = checks.format_table(results)
+    text = tables.check_table(results)
     assert "FAIL" in text
     assert text.splitlines()[-1].startswith("protection checks:")
     assert "c1 disconnection" in text.splitlines()[-1]

@@ -1,7 +1,7 @@
 """The command as a whole process: what ``main`` adds around the commands.
 
-``main`` ends a command that drew no figure without the interpreter's teardown (``os._exit``);
-these tests make sure nothing written is lost by it and that exit codes survive it.
+``main`` flushes the streams itself before the interpreter exits (a closed pipe, a full disk);
+these tests make sure nothing written is lost and that exit codes survive it.
 """
 
 from __future__ import annotations

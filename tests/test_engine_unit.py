@@ -14,7 +14,7 @@ from types import SimpleNamespace
 import numpy as np
 import pytest
 
-from coordination import engine
+from coordination import engine, tables
 from coordination.devices import band_for
 from coordination.model import Circuit, Study, Supply
 from curves.band import ENERGY_REGION_S, TIME_FLOOR_S, Band
@@ -317,7 +317,7 @@ def test_format_table_groups_by_board(patched):
     s = tree_study()
     lv = levels_for(s, {"top": 16_000.0, "mid": 12_000.0, "leaf": 30_000.0, "leaf2": 10_000.0})
     a = engine.analyse(s, lv)
-    text = engine.format_table(s, lv, a)
+    text = tables.pair_table(s, lv, a)
     assert "board origin" not in text  # 'top' has no upstream pair
     assert "board DB-1" in text
     assert "board top" in text  # mid and leaf2 sit on top's board (named by its id)

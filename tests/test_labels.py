@@ -18,7 +18,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from typer.testing import CliRunner
 
-from coordination import choose, engine, faults, study
+from coordination import choose, engine, faults, study, tables
 from coordination.cli import app
 from coordination.devices import band_for, compact_labels
 from coordination.plot import plot_circuit
@@ -95,7 +95,7 @@ def test_no_printed_device_label_of_the_examples_starts_with_a_letter_code(examp
 
 def test_the_terminal_table_shows_the_compact_labels(example):
     _, s, levels, analysis = example
-    text = engine.format_table(s, levels, analysis)
+    text = tables.pair_table(s, levels, analysis)
     compact = compact_labels(s)
     # the device column: each circuit's compact label follows its id on its first row
     for c in s.circuits:

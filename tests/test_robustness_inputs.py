@@ -360,9 +360,9 @@ def test_a_long_table_keeps_its_failing_rows_first_and_says_so(flags, limit):
 def test_the_report_names_what_it_left_out(tmp_path, monkeypatch):
     from pypdf import PdfReader
 
-    from coordination import report
+    from coordination.report import layout
 
-    monkeypatch.setattr(report, "MAX_TABLE_ROWS", 3)
+    monkeypatch.setattr(layout, "MAX_TABLE_ROWS", 3)
     out = tmp_path / "shop.pdf"
     result = runner.invoke(app, ["report", str(ROOT / "examples" / "small-shop.toml"),
                                  "-o", str(out)])
