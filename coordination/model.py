@@ -12,6 +12,8 @@ from functools import cached_property
 from types import MappingProxyType
 from typing import Any
 
+from coordination.motors import Inrush, Motor
+
 SUPPLY_ID = "supply"
 
 
@@ -89,6 +91,8 @@ class Circuit:
     margin: float | None = None  # time margin factor for pairs where this is downstream
     interval_s: float | None = None  # coordination time interval over adjustable breakers [s]
     board: str | None = None  # name of the board this circuit feeds (shown in printouts)
+    motor: Motor | None = None  # the motor it feeds: its start and overload relay
+    inrush: Inrush | None = None  # an inrush load: its first peak and duration
 
     def __post_init__(self) -> None:
         if isinstance(self.device, Mapping) and not isinstance(self.device, MappingProxyType):

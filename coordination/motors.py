@@ -218,6 +218,8 @@ class DeviceAtStart:
     holds_peak : bool
         ``peak_a <= instantaneous_a`` (True with no instantaneous release): a release does not
         act at its lower pickup limit itself (IEC 60898-1 test d, IEC 60947-2 at 0.8 Ii).
+    relay : bool
+        The device is a motor's overload relay joined with its short-circuit device.
     """
 
     circuit: str
@@ -229,6 +231,7 @@ class DeviceAtStart:
     instantaneous_a: float | None
     holds_time: bool
     holds_peak: bool
+    relay: bool = False
 
     @property
     def holds(self) -> bool:
@@ -264,10 +267,11 @@ class StartingVerdict:
         what = (f"start {_a(p.current_a)} for {p.duration_s:g} s ({p.kind}), first peak "
                 f"{_a(p.peak_a)}")
         if not b.holds_time:
+            fix = ("an overload relay of a higher trip class (IEC 60947-4-1: 20 or 30 for a "
+                   "heavy start)" if b.relay else "a device with a later band at that current")
             return (f"{what}: {b.device} ({b.circuit}) carries {_a(b.current_a)} and may "
                     f"operate after {b.t_min_s:.3g} s, before the start ends "
-                    f"({self.basis} basis); choose a device with a later band at that current, "
-                    "or a shorter or softer start")
+                    f"({self.basis} basis); choose {fix}, or a shorter or softer start")
         if not b.holds_peak:
             return (f"{what}: {b.device} ({b.circuit}) sees a first peak of {_a(b.peak_a)}, "
                     f"above its lowest instantaneous pickup {_a(b.instantaneous_a)}; choose a "
@@ -530,7 +534,7 @@ def device_at_start(profile: StartProfile, device: ChainDevice) -> DeviceAtStart
     holds_time = t_min >= profile.duration_s * (1 - TIME_RTOL)
     holds_peak = pickup is None or peak <= pickup
     return DeviceAtStart(device.circuit, device.band.name, current, t_min, t_env, peak, pickup,
-                         holds_time, holds_peak)
+                         holds_time, holds_peak, device.band.family == "motor-circuit")
 
 
 def starting_verdict(profile: StartProfile, chain: Sequence[ChainDevice]) -> StartingVerdict:

@@ -13,9 +13,11 @@ Keys (units in every name that carries a number)::
     [supply]      u0_v, phases, earthing, pfc_a, pfc_ln_a, ze_ohm, x_r, c_max, c_min
     [supply.transformer]  rating_kva, impedance_pct, x_r, upstream_pfc_a, upstream_x_r
     [[circuit]]   id, from, device, load_a, phases, basis, final, board, selective_to_a,
-                  tested_limits_a, breaking_capacity_a, margin, interval_s
+                  tested_limits_a, breaking_capacity_a, margin, interval_s, motor, inrush
     [circuit.cable]  length_m, csa_mm2, cpc_mm2, material, insulation, iz_a, parallel,
                   cpc_parallel, neutral_mm2, x_ohm_per_m, cpc_material
+    [circuit.motor]  flc_a, start_x, start_s, starting, relay_class, relay_ir_a
+    [circuit.inrush] x, s     (both read by coordination.motors)
 """
 
 
@@ -31,6 +33,7 @@ import rtoml
 
 from coordination import cables
 from coordination.model import SUPPLY_ID, Cable, Circuit, Study, Supply, Transformer
+from coordination.motors import Inrush, Motor, inrush_from_table, motor_from_table
 from coordination.study_rules import (
     BASES,
     CABLE_KEYS,
@@ -282,12 +285,22 @@ def _circuit_fields(raw: Mapping[str, Any], cid: str) -> dict[str, Any]:
         lt = Table(given, tuple(str(k) for k in given), circuit=cid, prefix="tested_limits_a.")
         for up in given:
             limits[str(up)] = lt.number(str(up), unit="A", lo=0.0, hi=MAX_CURRENT_A)
+    motor, inrush = _motor(raw, cid), _inrush(raw, cid)
+    load = t.number("load_a", unit="A", lo=0.0, hi=MAX_CURRENT_A)
+    if inrush is not None and load is None:
+        raise t.error("inrush", "an inrush is given as a multiple of the circuit's load_a; give "
+                                "load_a (the running current Ib, in A)")
+    if motor is not None and inrush is not None:
+        raise t.error("inrush", "give motor or inrush on one circuit, not both (a motor's start "
+                                "is its inrush)")
     return {
         "id": cid,
         "parent": parent,
         "device": device,
         "phases": t.integer("phases", choices=(1, 3)),
-        "load_a": t.number("load_a", unit="A", lo=0.0, hi=MAX_CURRENT_A),
+        "load_a": load if load is not None or motor is None else motor.flc_a,
+        "motor": motor,
+        "inrush": inrush,
         "cable": _cable(raw["cable"], cid) if t.has("cable") else None,
         "basis": t.choice("basis", BASES),
         "final": t.boolean("final"),
@@ -299,6 +312,26 @@ def _circuit_fields(raw: Mapping[str, Any], cid: str) -> dict[str, Any]:
         "interval_s": t.number("interval_s", unit="s", lo=0.0, hi=10.0, lo_open=False),
         "board": t.text("board", what="a text (the name of the board this circuit feeds)"),
     }
+
+
+def _motor(raw: Mapping[str, Any], cid: str) -> Motor | None:
+    """The circuit's ``motor`` table, checked (:func:`coordination.motors.motor_from_table`)."""
+    if "motor" not in raw:
+        return None
+    try:
+        return motor_from_table(raw["motor"])
+    except InputError as error:
+        raise error.within(circuit=cid, key="motor") from None
+
+
+def _inrush(raw: Mapping[str, Any], cid: str) -> Inrush | None:
+    """The circuit's ``inrush`` table, checked (:func:`coordination.motors.inrush_from_table`)."""
+    if "inrush" not in raw:
+        return None
+    try:
+        return inrush_from_table(raw["inrush"])
+    except InputError as error:
+        raise error.within(circuit=cid, key="inrush") from None
 
 
 def from_dict(data: Any, source: str | None = None) -> Study:

@@ -27,7 +27,7 @@ SUPPLY_KEYS = ("u0_v", "phases", "earthing", "pfc_a", "pfc_ln_a", "ze_ohm", "x_r
 TRANSFORMER_KEYS = ("rating_kva", "impedance_pct", "x_r", "upstream_pfc_a", "upstream_x_r")
 CIRCUIT_KEYS = ("id", "from", "device", "load_a", "phases", "basis", "final", "board",
                 "selective_to_a", "tested_limits_a", "breaking_capacity_a", "margin",
-                "interval_s", "cable")
+                "interval_s", "cable", "motor", "inrush")
 CABLE_KEYS = ("length_m", "csa_mm2", "cpc_mm2", "material", "insulation", "iz_a", "parallel",
               "cpc_parallel", "neutral_mm2", "x_ohm_per_m", "cpc_material")
 

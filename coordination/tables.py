@@ -198,11 +198,12 @@ def check_table(results: Sequence[CheckResult] | Iterable[CheckResult]) -> str:
     >>> print(check_table([r]).splitlines()[-1])
     protection checks: 1 run on 1 circuit, all pass
     """
-    from coordination.checks import CHECK_NAMES
+    from coordination.checks import CHECK_NAMES, ONLY_WHERE_GIVEN
 
     results = list(results)
     heading = ("Protection checks (worst case a compliant device allows: envelope upper edge, "
-               "maximum let-through; each passes when value <= limit)")
+               "maximum let-through; starting on the selectivity basis; each passes when "
+               "value <= limit)")
     grouped: dict[str, list[CheckResult]] = defaultdict(list)
     for r in results:
         grouped[r.circuit].append(r)
@@ -215,7 +216,7 @@ def check_table(results: Sequence[CheckResult] | Iterable[CheckResult]) -> str:
             rows.append([cid if i == 0 else "", r.check, "ok" if r.ok else "! FAIL",
                          _value_text(r.value, r.unit), _value_text(r.limit, r.unit), r.reason])
         present = {r.check for r in mine}
-        absent = [c for c in CHECK_NAMES if c not in present]
+        absent = [c for c in CHECK_NAMES if c not in present and c not in ONLY_WHERE_GIVEN]
         if absent:
             missing.append(f"{cid} ({', '.join(absent)})")
     body = table(["circuit", "check", "result", "value", "limit", "why / what to do"], rows,

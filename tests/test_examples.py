@@ -11,7 +11,7 @@ from coordination.devices import band_for
 from coordination.plot import plot_circuit
 
 EXAMPLES = Path(__file__).resolve().parents[1] / "examples"
-NAMES = ("small-shop.toml", "office-building.toml")
+NAMES = ("small-shop.toml", "office-building.toml", "plant-room.toml")
 
 
 @pytest.fixture(scope="module", params=NAMES)

@@ -26,7 +26,8 @@ def _breaking_capacity(study: Study, cid: str, band: Band, node: Any) -> CheckRe
         capacity, origin = float(circuit.breaking_capacity_a), "given in the study"
     elif band.breaking_capacity_a is not None:
         capacity = float(band.breaking_capacity_a)
-        origin = "given in the study" if stated else f"assumed: the {band.family} family default"
+        family = band.settings.get("short_circuit_family", band.family)  # a motor's device
+        origin = "given in the study" if stated else f"assumed: the {family} family default"
     else:
         capacity, origin = math.nan, "unknown"
     details = {"current_a": fault, "fault": kind, "capacity_origin": origin,

@@ -11,7 +11,10 @@ from typing import Any
 from curves.band import Band
 
 #: Check names, in the order they are run and printed.
-CHECK_NAMES = ("disconnection", "overload", "fault-energy", "breaking-capacity")
+CHECK_NAMES = ("disconnection", "overload", "fault-energy", "breaking-capacity", "starting")
+#: Checks run only where the study asks for them (a circuit with a motor or an inrush), never
+#: listed as "not checked" elsewhere.
+ONLY_WHERE_GIVEN = ("starting",)
 
 
 # -------------------------------------------------------------------------------------------

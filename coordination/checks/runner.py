@@ -10,6 +10,7 @@ from coordination.checks.disconnection import _disconnection
 from coordination.checks.fault_energy import _fault_energy
 from coordination.checks.overload import _overload
 from coordination.checks.results import CheckResult
+from coordination.checks.starting import _starting
 from coordination.faults import FaultLevels
 from coordination.model import Study
 from curves.band import Band
@@ -39,7 +40,8 @@ def check_device(study: Study, levels: FaultLevels, circuit_id: str,
     -------
     tuple of CheckResult
         In the order of :data:`~coordination.checks.CHECK_NAMES`; a check the study gives no
-        data for (overload without Ib and Iz, fault energy without a cable) is left out.
+        data for (overload without Ib and Iz, fault energy without a cable, starting without a
+        motor or an inrush) is left out.
 
     References
     ----------
@@ -85,6 +87,7 @@ def _check_device(study: Study, circuit_id: str, band: Band, node: Any,
                      and circuit.cable.iz_a is not None)
         results.append(_fault_energy(study, circuit_id, band, node, protected, edges))
         results.append(_breaking_capacity(study, circuit_id, band, node))
+        results.append(_starting(study, circuit_id, band))
     except InputError as error:
         if error.key is not None and error.key.startswith("supply"):
             raise
