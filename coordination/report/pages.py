@@ -25,12 +25,14 @@ from .content import (
     PAIRS_INTRO,
     REGISTER_INTRO,
     STANDARDS,
+    STARTING_INTRO,
     _basis_summary,
     _check_failures,
     _check_matrix,
     _device_table,
     _fault_table,
     _pair_table,
+    _starting_table,
     _supply_lines,
     ka_text,
     report_date,
@@ -224,6 +226,9 @@ def build_pages(study: Study, result: Assessment) -> list[PageBuilder]:
     pages += table_pages(study, "Selectivity of every pair", PAIRS_INTRO,
                          _pair_table(study, analysis))
     pages += table_pages(study, "Protection checks", CHECKS_INTRO, _check_matrix(study, results))
+    starting = _starting_table(results)
+    if starting.rows:
+        pages += table_pages(study, "Motor starts and inrush", STARTING_INTRO, starting)
     failures = _check_failures(results)
     if failures.rows:
         pages += table_pages(study, "Failed protection checks", FAILURES_INTRO, failures)
