@@ -31,6 +31,10 @@ def cheap_failure(problem: Problem, cand: Candidate, band: Band) -> Failure | No
             "tm", "electronic")
         return Failure("load", f"load: Ib {ib:g} A > {'Ir' if adjustable else 'In'} "
                                f"{setting:g} A")
+    if band.family == "aM" and "overload" not in problem.relaxed:  # no relay on this circuit
+        from coordination.checks.overload import AM_NO_OVERLOAD
+
+        return Failure("overload", f"overload: {band.name} {AM_NO_OVERLOAD}")
     if iz is not None and "overload" not in problem.relaxed:
         # I2 of the worst compliant device, as coordination.checks takes it; a motor's overload
         # relay protects the cable where there is one (its Ir and 1.2 Ir, IEC 60947-4-1)
