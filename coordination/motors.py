@@ -294,7 +294,7 @@ class StartingVerdict:
             "start_current_a": p.current_a,
             "start_s": p.duration_s,
             "peak_a": p.peak_a,
-            "peak_factor": p.peak_factor,
+            "peak_x": p.peak_factor,
             "binding_circuit": b.circuit,
             "binding_current_a": b.current_a,
             "binding_t_min_s": b.t_min_s,
