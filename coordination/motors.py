@@ -264,8 +264,10 @@ class StartingVerdict:
     def reason(self) -> str:
         """One line a designer can act on."""
         p, b = self.profile, self.binding
+        factor = ("as given" if p.kind == "inrush" else
+                  f"{p.peak_factor:g} x r.m.s., common practice")
         what = (f"start {_a(p.current_a)} for {p.duration_s:g} s ({p.kind}), first peak "
-                f"{_a(p.peak_a)}")
+                f"{_a(p.peak_a)} ({factor})")
         if not b.holds_time:
             fix = ("an overload relay of a higher trip class (IEC 60947-4-1: 20 or 30 for a "
                    "heavy start)" if b.relay else "a device with a later band at that current")
