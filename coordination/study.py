@@ -25,7 +25,7 @@ from __future__ import annotations
 
 import os
 import stat
-from collections.abc import Mapping
+from collections.abc import Callable, Mapping
 from pathlib import Path
 from typing import Any
 
@@ -285,7 +285,8 @@ def _circuit_fields(raw: Mapping[str, Any], cid: str) -> dict[str, Any]:
         lt = Table(given, tuple(str(k) for k in given), circuit=cid, prefix="tested_limits_a.")
         for up in given:
             limits[str(up)] = lt.number(str(up), unit="A", lo=0.0, hi=MAX_CURRENT_A)
-    motor, inrush = _motor(raw, cid), _inrush(raw, cid)
+    motor: Motor | None = _load_table(raw, cid, "motor", motor_from_table)
+    inrush: Inrush | None = _load_table(raw, cid, "inrush", inrush_from_table)
     load = t.number("load_a", unit="A", lo=0.0, hi=MAX_CURRENT_A)
     if inrush is not None and load is None:
         raise t.error("inrush", "an inrush is given as a multiple of the circuit's load_a; give "
@@ -314,24 +315,16 @@ def _circuit_fields(raw: Mapping[str, Any], cid: str) -> dict[str, Any]:
     }
 
 
-def _motor(raw: Mapping[str, Any], cid: str) -> Motor | None:
-    """The circuit's ``motor`` table, checked (:func:`coordination.motors.motor_from_table`)."""
-    if "motor" not in raw:
+def _load_table(raw: Mapping[str, Any], cid: str, key: str,
+                read: Callable[[Mapping[str, Any]], Any]) -> Any:
+    """A circuit's ``motor`` or ``inrush`` table read and checked by ``read`` (from
+    :mod:`coordination.motors`), its errors naming the circuit and the key; None when absent."""
+    if key not in raw:
         return None
     try:
-        return motor_from_table(raw["motor"])
+        return read(raw[key])
     except InputError as error:
-        raise error.within(circuit=cid, key="motor") from None
-
-
-def _inrush(raw: Mapping[str, Any], cid: str) -> Inrush | None:
-    """The circuit's ``inrush`` table, checked (:func:`coordination.motors.inrush_from_table`)."""
-    if "inrush" not in raw:
-        return None
-    try:
-        return inrush_from_table(raw["inrush"])
-    except InputError as error:
-        raise error.within(circuit=cid, key="inrush") from None
+        raise error.within(circuit=cid, key=key) from None
 
 
 def from_dict(data: Any, source: str | None = None) -> Study:
