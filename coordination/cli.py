@@ -305,7 +305,7 @@ def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption 
     analysis = result.analysis
     verdict(0 if result.ok else 1)
     if as_json:
-        payload = {"pairs": Records(analysis.pairs, engine.PairResult.to_json),
+        payload = {"pairs": Records(analysis.all_pairs, engine.PairResult.to_json),
                    "summary": analysis.summary(),
                    "checks": Records(result.checks, checks.CheckResult.json_record),
                    "ok": result.ok, "caution": CAUTION}
@@ -315,13 +315,19 @@ def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption 
         typer.echo("")
         typer.echo(tables.check_table(result.checks))
         typer.echo("")
-        if not analysis.ok:
-            uppers = sorted({p.upstream for p in analysis.pairs if not p.ok})
+        uppers = sorted({p.upstream for p in analysis.pairs if not p.ok})
+        if uppers:
             typer.echo(
                 "next: for a pair that falls short, choose a larger upstream device "
                 f"(coordination choose {study_path} --circuit {uppers[0]}), give the "
                 "manufacturer's tested limit (tested_limits_a), or state the selectivity the "
                 "circuit needs (selective_to_a)."
+            )
+        if any(not p.ok for p in analysis.residual):
+            typer.echo(
+                "next: for RCDs in series that are not selective, make the upstream one type S "
+                "(selective = true) or delayed (delay_s), with an IΔn at least 3 times the "
+                "downstream one's (IEC 60364-5-53, from memory)."
             )
         typer.echo(CAUTION)
     raise typer.Exit(0 if result.ok else 1)
@@ -371,6 +377,9 @@ def plot(
     circuit: Annotated[str, typer.Option("--circuit", help="Circuit id to plot.")],
     output: Annotated[Path, typer.Option("-o", "--output", help="PNG, SVG or PDF file.")],
     basis: BasisOption = None,
+    residual: Annotated[bool, typer.Option(
+        "--residual", help="Residual-current plot (mA) of the circuit's RCD and the RCDs above "
+        "it; the only plot of an RCCB (rcd without device).")] = False,
 ) -> None:
     """Time-current plot of a circuit and everything above it."""
     gc.enable()  # matplotlib's figures hold reference cycles (see main)
@@ -387,7 +396,17 @@ def plot(
     if circuit not in s.by_id:
         raise InputError(f"no circuit {circuit!r} in the study", key="--circuit")
     result = assess(s, check_basis(basis))
-    fig = plotting.plot_circuit(s, result.levels, result.analysis, circuit)
+    if residual or s.by_id[circuit].device is None:
+        from coordination.plot_residual import plot_residual
+        from coordination.residual import rcds_on_path
+
+        if not rcds_on_path(s, circuit):
+            raise InputError(f"circuit {circuit!r} has no RCD on it or above it to draw; "
+                             "allowed: --residual for a circuit with an rcd on its path",
+                             key="--residual")
+        fig = plot_residual(s, circuit, levels=result.levels)
+    else:
+        fig = plotting.plot_circuit(s, result.levels, result.analysis, circuit)
     plotting.save_figure(fig, output)
     typer.echo(f"wrote {output}")
 

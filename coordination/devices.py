@@ -98,18 +98,34 @@ def band_for(study: Study, circuit_id: str, basis: str | None = None) -> Band:
         ``"typical"`` or ``"envelope"``; ``None`` takes the circuit's own basis, else the
         study's. Safety checks pass ``"envelope"``.
 
+    A residual-current switch (RCCB: an ``rcd`` and no ``device``) has no overcurrent device of
+    its own: its band is that of the nearest circuit above it with a device, which protects it
+    (the checks read it so; the engine pairs no RCCB).
+
     Raises
     ------
     InputError
         Naming the circuit and the ``device`` key.
     """
     circuit = study.by_id[circuit_id]
+    if circuit.device is None:
+        circuit_id = overcurrent_owner(study, circuit_id)
+        circuit = study.by_id[circuit_id]
     chosen = basis or study.basis_of(circuit_id)
     try:
         band = device_band(circuit.device, chosen)
     except InputError as error:
         raise error.within(circuit=circuit_id, key="device") from None
     return band if circuit.motor is None else circuit_band(circuit, circuit.device, chosen)
+
+
+def overcurrent_owner(study: Study, circuit_id: str) -> str:
+    """The circuit whose overcurrent device protects this one: itself, or for a
+    residual-current switch (RCCB) the nearest circuit above with a device."""
+    node = circuit_id
+    while study.by_id[node].device is None:
+        node = study.by_id[node].parent  # the loader refuses an RCCB with no device above it
+    return node
 
 
 def compact_labels(study: Study, basis: str | None = None, *,
@@ -121,7 +137,9 @@ def compact_labels(study: Study, basis: str | None = None, *,
     the full label is the band's ``name``. ``band_of``: where the bands come from (the caller's
     own lookup, so that a table names the bands its results were computed on).
     """
+    from coordination.residual import rccb_label
     from curves.spec import device_label
 
-    return {c.id: device_label(band_of(study, c.id, basis), compact=True)
+    return {c.id: (device_label(band_of(study, c.id, basis), compact=True)
+                   if c.device is not None else rccb_label(study, c.id))
             for c in study.circuits}

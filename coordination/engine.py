@@ -66,7 +66,10 @@ if TYPE_CHECKING:  # shapely is imported lazily, only by overlap()
     from shapely.geometry.base import BaseGeometry
 
 Verdict = Literal["total", "partial", "none"]
-DecidedBy = Literal["time-current", "energy", "tested"]
+DecidedBy = Literal["time-current", "energy", "tested", "rule"]
+#: What a pair protects against: overcurrent (the bands of this module) or residual current
+#: (two RCDs in series, :mod:`coordination.residual`).
+Protection = Literal["overcurrent", "residual"]
 
 #: The crossing search always runs up to at least this current [A] (1 MA), whatever the window,
 #: so that its result can be shared by every window with the same low end.
@@ -149,6 +152,7 @@ class PairResult:
     tested_limit_a: float | None = None
     upstream_last: str = ""
     upstream_count: int = 1
+    protection: Protection = "overcurrent"
 
     @property
     def upstream_span(self) -> str:
@@ -182,6 +186,7 @@ class PairResult:
             "interval_s": self.interval_s,
             "tested_limit_a": self.tested_limit_a,
             "note": self.note,
+            "protection": self.protection,
         }
 
 
@@ -195,10 +200,15 @@ class Analysis:
     Attributes
     ----------
     pairs : tuple of PairResult
+        The overcurrent pairs (the bands of the overcurrent devices).
     ok : bool
-        Every pair meets its circuit's requirement.
+        Every pair (overcurrent and residual) meets its circuit's requirement.
     basis : str or None
         The basis asked for (``None``: each circuit's own, else the study's).
+    residual : tuple of PairResult
+        Every pair of RCDs on one path (``protection`` ``"residual"``, verdict total or none;
+        :func:`residual_results`): listed after the overcurrent pairs in the JSON and the
+        tables, never drawn on a time-current plot.
     """
 
     pairs: tuple[PairResult, ...]
@@ -206,6 +216,12 @@ class Analysis:
     basis: str | None = None
     _by_downstream: Mapping[str, tuple[PairResult, ...]] = field(
         default_factory=dict, repr=False, compare=False)
+    residual: tuple[PairResult, ...] = ()
+
+    @property
+    def all_pairs(self) -> tuple[PairResult, ...]:
+        """The overcurrent pairs, then the residual ones (what the JSON and tables list)."""
+        return self.pairs + self.residual if self.residual else self.pairs
 
     def for_circuit(self, circuit_id: str) -> tuple[PairResult, ...]:
         """The pairs where ``circuit_id`` is downstream, nearest ancestor first."""
@@ -217,15 +233,15 @@ class Analysis:
         """Counts of pairs (a run of alike ancestors counts each), verdicts and unmet ones."""
         counts = {"total": 0, "partial": 0, "none": 0}
         unmet = 0
-        for p in self.pairs:
+        for p in self.all_pairs:
             counts[p.verdict] += p.upstream_count
             unmet += 0 if p.ok else p.upstream_count
-        return {"pairs": sum(counts.values()), "rows": len(self.pairs), **counts,
+        return {"pairs": sum(counts.values()), "rows": len(self.all_pairs), **counts,
                 "unmet": unmet, "ok": self.ok}
 
     def to_json(self) -> dict[str, Any]:
         """``{"pairs": [...], "summary": {...}}`` (the contract's keys; currents in A)."""
-        return {"pairs": [p.to_json() for p in self.pairs], "summary": self.summary()}
+        return {"pairs": [p.to_json() for p in self.all_pairs], "summary": self.summary()}
 
 
 # ---------------------------------------------------------------------------------------------
@@ -522,6 +538,9 @@ def _ancestor_runs(study: Study, bands: Mapping[str, Band]) -> dict[str, _Run | 
         if c.parent not in bands:
             runs[c.id] = None
             continue
+        if study.by_id[c.parent].device is None:  # an RCCB: no overcurrent device of its own
+            runs[c.id] = runs[c.parent]  # (the runs above it are the ones above its circuits)
+            continue
         above, band = runs[c.parent], bands[c.parent]
         if above is not None and above.band is band:  # the parent extends the run above it
             runs[c.id] = _Run(band, c.parent, above.last, above.count + 1, above.rest,
@@ -545,6 +564,8 @@ def _segments(study: Study, head: _Run | None,
             n = 0
             for _ in range(run.count):
                 nxt = study.by_id[node].parent
+                while nxt in study.by_id and study.by_id[nxt].device is None:
+                    nxt = study.by_id[nxt].parent  # RCCBs are not in the runs
                 if node in tested:
                     if n:
                         out.append((run.band, start, end, n))
@@ -645,7 +666,7 @@ def analyse(study: Study, levels: FaultLevels, *, basis: str | None = None) -> A
     all_ok = True
     for circuit in study.circuits:
         head = runs[circuit.id]
-        if head is None:
+        if head is None or circuit.device is None:  # an RCCB has no overcurrent band
             continue
         down = bands[circuit.id]
         margin, interval, _ = study.pair_settings(circuit.id)
@@ -675,7 +696,62 @@ def analyse(study: Study, levels: FaultLevels, *, basis: str | None = None) -> A
                 upstream_last=last, upstream_count=count))
         by_down[circuit.id] = tuple(mine)
         results.extend(mine)
-    return Analysis(tuple(results), all_ok, basis, by_down)
+    residual = residual_results(study, levels)
+    all_ok = all_ok and all(p.ok for p in residual)
+    return Analysis(tuple(results), all_ok, basis, by_down, residual)
+
+
+def residual_results(study: Study, levels: Any) -> tuple[PairResult, ...]:
+    """Every pair of RCDs on one path, downstream circuits in study order, nearest RCD above
+    first (:func:`coordination.residual.residual_pairs`).
+
+    Selective (``total``) when the upstream RCD is type S or delayed and its IΔn is at least 3
+    times the downstream one's (IEC 60364-5-53, from memory); ``decided_by`` is
+    ``"time-current"`` where the IEC 61008-1 / 61009-1 limit values show it at every residual
+    current, else ``"rule"`` (the note names a range they leave unproven). Total selectivity is
+    required. The window is residual current [A]: from the downstream RCD's non-operating
+    current 0.5 IΔn to the largest earth fault at its board.
+
+    References
+    ----------
+    IEC 60364-5-53 (RCDs in series, from memory); IEC 61008-1 / 61009-1.
+    """
+    from coordination.residual import rcd_of, residual_pairs
+
+    with_rcd = study.rcd_circuits
+    if not with_rcd:
+        return ()
+    above: dict[str, int] = {}  # RCDs above each circuit, counted parents first
+    for c in study.circuits:
+        above[c.id] = above.get(c.parent, 0) + (c.parent in with_rcd)
+    rows_needed = sum(above[cid] for cid in with_rcd)
+    if rows_needed > MAX_ROWS:
+        raise InputError(f"{rows_needed:,} pairs of RCDs in series to list; at most "
+                         f"{MAX_ROWS:,} are allowed: check the study in parts, one per board",
+                         circuit=max(with_rcd, key=above.__getitem__), key="rcd")
+    bands = {cid: rcd_of(study, cid) for cid in with_rcd}
+    chains: dict[str, tuple] = {}  # the RCDs above each circuit, nearest first, parents first
+    paths = []
+    for c in study.circuits:
+        parent_chain = chains.get(c.parent, ())
+        chains[c.id] = (((c.parent, bands[c.parent]), *parent_chain)
+                        if c.parent in with_rcd else parent_chain)
+        if c.id in with_rcd:
+            paths.append((c.id, bands[c.id], chains[c.id]))
+    rows = []
+    for pair in residual_pairs(paths):
+        node = levels.by_circuit.get(pair.downstream)
+        top = getattr(node, "ief_max_board_a", None) or getattr(node, "ik_max_a", None)
+        low = float(pair.downstream_band.pickup_min_a)
+        ok = pair.verdict == "total"
+        rows.append(PairResult(
+            upstream=pair.upstream, downstream=pair.downstream, verdict=pair.verdict,
+            limit_a=None, window_a=(low, float(top) if top else low),
+            decided_by=pair.decided_by, upstream_basis=pair.upstream_band.basis,
+            downstream_basis=pair.downstream_band.basis, required_a=None, ok=ok,
+            upstream_device=pair.upstream_band.name, downstream_device=pair.downstream_band.name,
+            note=pair.reason, upstream_last=pair.upstream, protection="residual"))
+    return tuple(rows)
 
 
 # ---------------------------------------------------------------------------------------------

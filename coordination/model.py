@@ -49,6 +49,8 @@ class Supply:
     pfc_ln_a: float | None = None  # line-neutral prospective fault current at the origin of a
     # three-phase supply [A]; None: bounded, pfc_a for maximum currents, a loop of twice the
     # phase impedance (half the current) for minimum currents (see coordination.faults)
+    ra_ohm: float | None = None  # TT: earth electrode + protective conductors of the exposed
+    # parts, RA [ohm] (IEC 60364-4-41, 411.5.3: RA x IΔn <= 50 V)
 
 
 @dataclass(frozen=True)
@@ -74,12 +76,16 @@ class Circuit:
 
     ``parent`` is the circuit that feeds the board this circuit's device sits on, or ``"supply"``.
     ``device`` is the trade shorthand (``"B32"``) or an inline table (a read-only mapping); build
-    its band with ``curves.spec.band_from_spec(device, basis=...)``.
+    its band with ``curves.spec.band_from_spec(device, basis=...)``. ``None`` only for a
+    residual-current switch (RCCB): a circuit with an ``rcd`` and no overcurrent device, protected
+    against overcurrent by the device above it. ``rcd`` is the circuit's residual-current device
+    as written (a read-only mapping: ``idn_ma``, ``selective``, ``waveform``, ``delay_s``;
+    :func:`coordination.residual.rcd_of` builds its band).
     """
 
     id: str
     parent: str
-    device: str | Mapping[str, Any]
+    device: str | Mapping[str, Any] | None
     phases: int = 3
     load_a: float | None = None  # design current Ib [A]
     cable: Cable | None = None
@@ -91,12 +97,17 @@ class Circuit:
     margin: float | None = None  # time margin factor for pairs where this is downstream
     interval_s: float | None = None  # coordination time interval over adjustable breakers [s]
     board: str | None = None  # name of the board this circuit feeds (shown in printouts)
+    rcd: Mapping[str, Any] | None = None  # residual-current device (IEC 61008-1 / 61009-1)
+    sockets: bool = False  # supplies socket-outlets (IEC 60364-4-41, 411.3.3)
+    leakage_ma: float | None = None  # standing protective-conductor current [mA]
     motor: Motor | None = None  # the motor it feeds: its start and overload relay
     inrush: Inrush | None = None  # an inrush load: its first peak and duration
 
     def __post_init__(self) -> None:
         if isinstance(self.device, Mapping) and not isinstance(self.device, MappingProxyType):
             object.__setattr__(self, "device", MappingProxyType(dict(self.device)))
+        if isinstance(self.rcd, Mapping) and not isinstance(self.rcd, MappingProxyType):
+            object.__setattr__(self, "rcd", MappingProxyType(dict(self.rcd)))
         object.__setattr__(self, "tested_limits_a", MappingProxyType(dict(self.tested_limits_a)))
 
 
@@ -124,6 +135,11 @@ class Study:
             kids.setdefault(c.id, [])
             kids.setdefault(c.parent, []).append(c.id)
         return MappingProxyType({k: tuple(v) for k, v in kids.items()})
+
+    @cached_property
+    def rcd_circuits(self) -> frozenset[str]:
+        """Ids of the circuits that have an RCD (an ``rcd`` table)."""
+        return frozenset(c.id for c in self.circuits if c.rcd is not None)
 
     @cached_property
     def depth(self) -> Mapping[str, int]:

@@ -127,7 +127,13 @@ def _chain(study: Study, circuit_id: str) -> tuple[str, ...]:
     if circuit_id not in study.by_id:
         raise InputError(f"no circuit {circuit_id!r} in the study; give one of its circuit ids",
                          key="--circuit")
-    return (circuit_id, *study.ancestors(circuit_id))
+    if study.by_id[circuit_id].device is None:
+        raise InputError(f"circuit {circuit_id!r} is a residual-current switch (rcd without "
+                         "device) with no overcurrent band to draw; draw its residual-current "
+                         "plot instead (plot --residual)", key="--circuit")
+    # a residual-current switch above has no overcurrent band: the engine pairs none
+    return (circuit_id, *(a for a in study.ancestors(circuit_id)
+                          if study.by_id[a].device is not None))
 
 
 def _current_grid(band: Band, i_lo: float, i_hi: float, points: int = 500) -> np.ndarray:

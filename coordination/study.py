@@ -10,10 +10,12 @@ recursion. The keys, their bounds and the checks across keys and circuits are in
 Keys (units in every name that carries a number)::
 
     [study]       title, basis, margin, interval_s
-    [supply]      u0_v, phases, earthing, pfc_a, pfc_ln_a, ze_ohm, x_r, c_max, c_min
+    [supply]      u0_v, phases, earthing, pfc_a, pfc_ln_a, ze_ohm, x_r, c_max, c_min, ra_ohm
     [supply.transformer]  rating_kva, impedance_pct, x_r, upstream_pfc_a, upstream_x_r
     [[circuit]]   id, from, device, load_a, phases, basis, final, board, selective_to_a,
-                  tested_limits_a, breaking_capacity_a, margin, interval_s, motor, inrush
+                  tested_limits_a, breaking_capacity_a, margin, interval_s, rcd, sockets,
+                  leakage_ma, motor, inrush
+    [circuit.rcd]  idn_ma, selective, waveform, delay_s
     [circuit.cable]  length_m, csa_mm2, cpc_mm2, material, insulation, iz_a, parallel,
                   cpc_parallel, neutral_mm2, x_ohm_per_m, cpc_material
     [circuit.motor]  flc_a, start_x, start_s, starting, relay_class, relay_ir_a
@@ -34,6 +36,7 @@ import rtoml
 from coordination import cables
 from coordination.model import SUPPLY_ID, Cable, Circuit, Study, Supply, Transformer
 from coordination.motors import Inrush, Motor, inrush_from_table, motor_from_table
+from coordination.residual import RCD_KEYS
 from coordination.study_rules import (
     BASES,
     CABLE_KEYS,
@@ -58,6 +61,7 @@ from coordination.study_rules import (
     check_boards,
     check_devices,
     check_feeds,
+    check_rccbs,
     check_source,
     describe,
     parents_first,
@@ -129,6 +133,7 @@ def _supply(data: Any) -> Supply:
     pfc_a = t.number("pfc_a", unit="A", lo=0.0, hi=MAX_CURRENT_A)
     pfc_ln_a = t.number("pfc_ln_a", unit="A", lo=0.0, hi=MAX_CURRENT_A)
     ze_ohm = t.number("ze_ohm", unit="ohm", lo=0.0, hi=MAX_ZE_OHM)
+    ra_ohm = t.number("ra_ohm", unit="ohm", lo=0.0, hi=MAX_ZE_OHM)
     transformer = _transformer(t.data["transformer"]) if t.has("transformer") else None
     c_max = t.number("c_max", unit="", lo=1.0, hi=1.1, lo_open=False, default=1.05)
     c_min = t.number("c_min", unit="", lo=0.8, hi=1.0, lo_open=False, default=0.95)
@@ -152,6 +157,10 @@ def _supply(data: Any) -> Supply:
         raise InputError("in TT, ze_ohm includes the earth electrode and says nothing about "
                          "short-circuit levels; give pfc_a [A] or a [supply.transformer] too",
                          key="supply")
+    if ra_ohm is not None and earthing != "TT":
+        raise InputError(f"ra_ohm is the earth electrode's resistance of a TT installation "
+                         f"(IEC 60364-4-41, 411.5.3), and this supply is {earthing}; allowed: "
+                         "earthing = \"TT\", or leave ra_ohm out", key="supply.ra_ohm")
     u0_v = t.number("u0_v", unit="V", lo=50.0, hi=1000.0, default=230.0)
     check_source(u0_v, pfc_a, pfc_ln_a, ze_ohm, earthing)
     return Supply(
@@ -165,6 +174,7 @@ def _supply(data: Any) -> Supply:
         c_max=c_max,
         c_min=c_min,
         pfc_ln_a=pfc_ln_a,
+        ra_ohm=ra_ohm,
     )
 
 
@@ -260,11 +270,14 @@ def _circuit_fields(raw: Mapping[str, Any], cid: str) -> dict[str, Any]:
         Table(raw["cable"], CABLE_KEYS, circuit=cid, prefix="cable.", table="circuit.cable")
     parent = t.text("from", required=True,
                     what="the id of the circuit that feeds this one's board, or 'supply'")
-    if not t.has("device"):
+    if not t.has("device") and not t.has("rcd"):
         raise t.error("device", "missing key 'device'; give a shorthand such as 'B32' or "
-                                "'gG100', or an inline table")
-    device = raw["device"]
-    if isinstance(device, str):
+                                "'gG100', or an inline table (or an rcd table alone for a "
+                                "residual-current switch)")
+    device = raw.get("device")
+    if device is None:
+        pass  # a residual-current switch (RCCB): its overcurrent protection is above it
+    elif isinstance(device, str):
         if not device.strip():
             raise t.error("device", "device is empty; give a shorthand such as 'B32' or "
                                     "'gG100', or an inline table")
@@ -312,6 +325,9 @@ def _circuit_fields(raw: Mapping[str, Any], cid: str) -> dict[str, Any]:
         "margin": t.number("margin", unit="(factor)", lo=1.0, hi=10.0, lo_open=False),
         "interval_s": t.number("interval_s", unit="s", lo=0.0, hi=10.0, lo_open=False),
         "board": t.text("board", what="a text (the name of the board this circuit feeds)"),
+        "rcd": _rcd_table(t, raw),
+        "sockets": bool(t.boolean("sockets")),
+        "leakage_ma": t.number("leakage_ma", unit="mA", lo=0.0, hi=100000.0, lo_open=False),
     }
 
 
@@ -325,6 +341,15 @@ def _load_table(raw: Mapping[str, Any], cid: str, key: str,
         return read(raw[key])
     except InputError as error:
         raise error.within(circuit=cid, key=key) from None
+
+
+def _rcd_table(t: Table, raw: Mapping[str, Any]) -> dict[str, Any] | None:
+    """The circuit's ``rcd`` table with its keys checked (the values are checked when its band
+    is built, :func:`coordination.residual.rcd_of`)."""
+    if not t.has("rcd"):
+        return None
+    Table(raw["rcd"], RCD_KEYS, circuit=t.circuit, prefix="rcd.", name="rcd")
+    return dict(raw["rcd"])
 
 
 def from_dict(data: Any, source: str | None = None) -> Study:
@@ -386,6 +411,7 @@ def from_dict(data: Any, source: str | None = None) -> Study:
     order = parents_first(fields)
     check_boards(fields, order)
     check_feeds(fields, order, supply.phases)
+    check_rccbs(fields, order)
 
     study = Study(
         title=study_fields["title"],

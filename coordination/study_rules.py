@@ -23,11 +23,11 @@ from curves.errors import InputError
 TOP_KEYS = ("study", "supply", "circuit")
 STUDY_KEYS = ("title", "basis", "margin", "interval_s")
 SUPPLY_KEYS = ("u0_v", "phases", "earthing", "pfc_a", "pfc_ln_a", "ze_ohm", "x_r", "c_max",
-               "c_min", "transformer")
+               "c_min", "transformer", "ra_ohm")
 TRANSFORMER_KEYS = ("rating_kva", "impedance_pct", "x_r", "upstream_pfc_a", "upstream_x_r")
 CIRCUIT_KEYS = ("id", "from", "device", "load_a", "phases", "basis", "final", "board",
                 "selective_to_a", "tested_limits_a", "breaking_capacity_a", "margin",
-                "interval_s", "cable", "motor", "inrush")
+                "interval_s", "cable", "rcd", "sockets", "leakage_ma", "motor", "inrush")
 CABLE_KEYS = ("length_m", "csa_mm2", "cpc_mm2", "material", "insulation", "iz_a", "parallel",
               "cpc_parallel", "neutral_mm2", "x_ohm_per_m", "cpc_material")
 
@@ -494,11 +494,14 @@ def check_feeds(fields: Mapping[str, dict[str, Any]], order: Sequence[str],
 
 
 def check_devices(study: Study) -> None:
-    """Build every device's band once, so that a bad device fails at load with its circuit."""
+    """Build every device's band once, so that a bad device fails at load with its circuit;
+    every RCD's too (naming the key ``rcd.<key>``)."""
     try:
         from coordination.devices import band_for
+        from coordination.residual import rcd_of
 
         for c in study.circuits:
+            rcd_of(study, c.id)
             try:
                 band_for(study, c.id)
             except InputError:
@@ -509,3 +512,42 @@ def check_devices(study: Study) -> None:
     except ModuleNotFoundError as error:  # the curves families are not installed yet
         if not (error.name or "").startswith("curves"):
             raise
+
+
+#: Keys that describe an overcurrent device, refused on a residual-current switch (RCCB).
+OVERCURRENT_ONLY_KEYS = ("breaking_capacity_a", "tested_limits_a", "selective_to_a", "basis",
+                         "margin", "interval_s")
+
+
+def check_rccbs(fields: Mapping[str, dict[str, Any]], order: Sequence[str]) -> None:
+    """Refuse a residual-current switch (an ``rcd`` without ``device``) that cannot be.
+
+    It needs an overcurrent device above it (a circuit with a ``device`` on its path to the
+    supply), takes none of the keys of an overcurrent device, and no tested limit names it (it
+    has no overcurrent characteristic to be selective with).
+    """
+    for cid in order:
+        f = fields[cid]
+        if f["device"] is None:
+            if f["parent"] == SUPPLY_ID:
+                raise InputError("an RCD without an overcurrent device (an RCCB) needs a circuit "
+                                 "with a device above it, and this one is fed from the supply; "
+                                 "give it a device (an RCBO) or feed it from a circuit that has "
+                                 "one", circuit=cid, key="device")
+            for key in ("motor", "inrush"):  # its start is judged on the circuit's own device
+                if f.get(key) is not None:
+                    raise InputError(f"{key} needs the circuit's own overcurrent device, and this "
+                                     "circuit has none (an RCCB: rcd without device); allowed: "
+                                     "give a device, or put the load on a circuit below it",
+                                     circuit=cid, key=key)
+            for key in OVERCURRENT_ONLY_KEYS:
+                if f[key]:
+                    raise InputError(f"{key} describes an overcurrent device, and this circuit "
+                                     "has none (an RCCB: rcd without device); allowed: give a "
+                                     "device, or leave the key out", circuit=cid, key=key)
+        for up in f["tested_limits_a"]:
+            if up in fields and fields[up]["device"] is None:
+                raise InputError(f"{up!r} is an RCCB (rcd without device), with no overcurrent "
+                                 "characteristic for a tested limit; allowed: the circuits "
+                                 "above it that have a device", circuit=cid,
+                                 key=f"tested_limits_a.{up}")

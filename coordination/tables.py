@@ -151,13 +151,48 @@ def pair_table(study: Study, levels: Any, analysis: Analysis) -> str:
         top = pairs[0].window_a[1] if pairs else float("nan")
         blocks.append(f"board {board} (max fault {_pair_ka(top)} kA)\n"
                       + table(headers, rows, "lllllrlllr"))
+    if analysis.residual:
+        blocks.append(residual_pair_table(analysis.residual))
     s = analysis.summary()
-    if not analysis.pairs:
+    if not analysis.all_pairs:
         blocks.append("no upstream/downstream pairs (a single level of devices)")
     blocks.append(
         f"selectivity: {s['pairs']} pairs, {s['total']} total, {s['partial']} partial, "
         f"{s['none']} none; requirements unmet: {s['unmet']}")
     return "\n\n".join(blocks)
+
+
+def _ma(i_a: float) -> str:
+    return f"{i_a * 1000:.4g} mA" if i_a < 1.0 else format_current(i_a)
+
+
+def residual_pair_table(pairs: Sequence[PairResult]) -> str:
+    """The pairs of RCDs in series: one row each, and the note of each pair decided by the
+    rule (the range of residual current the limit values leave unproven).
+
+    Examples
+    --------
+    >>> from coordination.engine import PairResult
+    >>> p = PairResult("up", "down", "none", None, (0.015, 900.0), "rule", "envelope",
+    ...                "envelope", None, False, "RCD 30 mA type A", "RCD 30 mA type A",
+    ...                "upstream is a general type", protection="residual")
+    >>> print(residual_pair_table([p]).splitlines()[0])
+    residual-current selectivity (RCDs in series; residual current on the window)
+    """
+    headers = ["circuit", "RCD", "above", "verdict", "window", "decided by", "ok"]
+    rows = []
+    notes: dict[str, list[str]] = {}  # one note for every pair it reads the same for
+    for p in pairs:
+        rows.append([p.downstream, p.downstream_device, f"{p.upstream} ({p.upstream_device})",
+                     _VERDICT_TEXT[p.verdict],
+                     f"{_ma(p.window_a[0])} - {_ma(p.window_a[1])}", p.decided_by,
+                     "yes" if p.ok else "NO"])
+        if p.decided_by == "rule":
+            notes.setdefault(p.note, []).append(f"{p.upstream} over {p.downstream}")
+    lines = ["residual-current selectivity (RCDs in series; residual current on the window)",
+             table(headers, rows, "llllllr")]
+    lines += [f"  {', '.join(names)}: {note}" for note, names in notes.items()]
+    return "\n".join(lines)
 
 
 # ---------------------------------------------------------------------------------------------
@@ -198,7 +233,7 @@ def check_table(results: Sequence[CheckResult] | Iterable[CheckResult]) -> str:
     >>> print(check_table([r]).splitlines()[-1])
     protection checks: 1 run on 1 circuit, all pass
     """
-    from coordination.checks import CHECK_NAMES, ONLY_WHERE_GIVEN
+    from coordination.checks.results import CIRCUIT_CHECK_NAMES
 
     results = list(results)
     heading = ("Protection checks (worst case a compliant device allows: envelope upper edge, "
@@ -216,7 +251,7 @@ def check_table(results: Sequence[CheckResult] | Iterable[CheckResult]) -> str:
             rows.append([cid if i == 0 else "", r.check, "ok" if r.ok else "! FAIL",
                          _value_text(r.value, r.unit), _value_text(r.limit, r.unit), r.reason])
         present = {r.check for r in mine}
-        absent = [c for c in CHECK_NAMES if c not in present and c not in ONLY_WHERE_GIVEN]
+        absent = [c for c in CIRCUIT_CHECK_NAMES if c not in present]
         if absent:
             missing.append(f"{cid} ({', '.join(absent)})")
     body = table(["circuit", "check", "result", "value", "limit", "why / what to do"], rows,

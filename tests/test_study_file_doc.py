@@ -25,6 +25,7 @@ def loader_tables() -> dict[str, tuple[str, ...]]:
     the imports here.
     """
     from coordination.motors import INRUSH_KEYS, MOTOR_KEYS
+    from coordination.residual import RCD_KEYS
     from coordination.study import (
         CABLE_KEYS,
         CIRCUIT_KEYS,
@@ -44,6 +45,7 @@ def loader_tables() -> dict[str, tuple[str, ...]]:
         "[circuit.cable]": CABLE_KEYS,
         "[circuit.motor]": MOTOR_KEYS,
         "[circuit.inrush]": INRUSH_KEYS,
+        "[circuit.rcd]": RCD_KEYS,
     }
     # a device's inline table takes ``family`` besides its family's own keys
     for family, keys in FAMILY_KEYS.items():
@@ -138,6 +140,7 @@ def _keys_used(data: dict) -> list[tuple[str, str]]:
     for circuit in data.get("circuit", []):
         used += [("[[circuit]]", k) for k in circuit]
         used += [("[circuit.cable]", k) for k in circuit.get("cable", {})]
+        used += [("[circuit.rcd]", k) for k in circuit.get("rcd", {})]
         device = circuit.get("device")
         if isinstance(device, dict):
             family = str(device.get("family", "")).strip().lower().removeprefix("breaker-")

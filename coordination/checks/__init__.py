@@ -69,7 +69,7 @@ from coordination.checks.fault_energy import (
     k_factor,
 )
 from coordination.checks.overload import overload_conditions, overload_ok
-from coordination.checks.results import CHECK_NAMES, ONLY_WHERE_GIVEN, CheckResult
+from coordination.checks.results import CHECK_NAMES, CheckResult
 from coordination.checks.runner import check_device, run
 from coordination.checks.starting import STARTING_SOURCE, start_profile, starting_chain
 
@@ -85,7 +85,6 @@ __all__ = [
     "K_TABLE",
     "K_TABLE_SOURCE",
     "MATERIAL_ALIASES",
-    "ONLY_WHERE_GIVEN",
     "STARTING_SOURCE",
     "TABLE_41_1",
     "TABLE_41_1_SOURCE",

@@ -9,8 +9,15 @@ from typing import Any
 import numpy as np
 
 from coordination.checks.common import _Edges, _get, _in_a, _takes, a_text, ohm_text, s_text
+from coordination.checks.residual_checks import (
+    rcd_disconnection,
+    rcd_failure,
+    rcd_reason,
+    rcd_relied_on,
+)
 from coordination.checks.results import CheckResult, _result
 from coordination.model import Study
+from coordination.residual import rcds_on_path
 from curves.band import Band
 from curves.errors import InputError
 
@@ -218,9 +225,12 @@ def _carried_a(study: Study, cid: str, band: Band) -> float:
 
 
 def _rcd_needed(study: Study, cid: str, band: Band, node: Any, edges: _Edges) -> bool:
-    """TT and the earth fault too small for any overcurrent device able to carry the load:
-    the disconnection check fails and asks for an RCD."""
+    """TT, no RCD on the circuit or above it, and the earth fault too small for any
+    overcurrent device able to carry the load: the disconnection check fails and asks for an
+    RCD."""
     if EARTHING_KIND.get(str(study.supply.earthing).upper(), "TN") != "TT":
+        return False
+    if rcds_on_path(study, cid):
         return False
     ief = _get(node, "ief_min_a", 0.0) or 0.0
     limit = _disconnection_limit(study, cid, band)[0]
@@ -258,4 +268,18 @@ def _disconnection(study: Study, cid: str, band: Band, node: Any, edges: _Edges)
         else:
             reason = (f"{head}: {times}; shorten the run, enlarge the conductors, choose a "
                       "faster device or use an RCD")
+        clearings = rcd_disconnection(study, cid, ief, limit)
+        relied = rcd_relied_on(clearings)
+        if relied is not None:  # IEC 60364-4-41 411.4.5 (TN), 411.5 (TT)
+            ok, t = True, relied.t_s
+            alone = f"{head}: {times}"
+            reason = rcd_reason(relied, cid, f"{band.name} alone would not: {alone}")
+            details.update({"rcd_circuit": relied.circuit, "rcd_device": relied.band.name,
+                            "rcd_current_a": relied.current_a,
+                            "source": f"{source}; IEC 60364-4-41 "
+                                      f"{'411.5.3' if kind == 'TT' else '411.4.5'}"})
+        elif clearings:
+            t = min(t, *(c.t_s for c in clearings))
+            reason = (f"{head}: {times}; "
+                      + rcd_failure(clearings).replace("nor does", "and nor does", 1))
     return _result(cid, "disconnection", ok, t, limit, "s", reason, band, details)

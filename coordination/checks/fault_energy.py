@@ -23,6 +23,7 @@ from coordination.checks.disconnection import _rcd_needed
 from coordination.checks.results import CheckResult, _result
 from coordination.criterion import breaking_duty
 from coordination.model import Study
+from coordination.residual import rcds_breaking, rcds_on_path
 from curves.band import Band
 from curves.errors import InputError
 
@@ -230,6 +231,7 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
     if ik_min is not None and ik_min > 0:
         cases.append(("minimum fault at the far end", "line", ik_min, s_line, k_line))
     rcd = _rcd_needed(study, cid, band, node, edges)
+    rcds = rcds_on_path(study, cid)
     ief = _get(node, "ief_min_a")
     if ief is not None and ief > 0:
         if ik_min is None or ief < ik_min:  # the smallest fault in the line conductors
@@ -249,6 +251,12 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
         if i is None or not (i > 0):
             continue
         t, energy = computed.get(i) or _edge_and_energy(band, i)
+        cleared_by = None
+        breaking = rcds_breaking(study, cid, i) if rcds and "earth fault" in what else ()
+        if breaking:  # an earth fault is a residual current
+            t_rcd, name = min((float(b.t_max(i)), b.name) for _, b in breaking)
+            if t_rcd < t:  # the RCD clears first: I2t is at most I^2 x its break time
+                t, energy, cleared_by = t_rcd, i * i * t_rcd, name
         need = adiabatic_min_csa_mm2(energy, k) if finite(energy) else math.inf
         if t > ADIABATIC_LIMIT_S:
             if conductor == "line" and overload_protected:
@@ -274,16 +282,17 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
             ratio = need / s
         key = (ratio, conductor == "protective")  # the largest ratio governs; ties: the cpc
         if worst_key is None or key > worst_key:
-            worst, worst_key = (need, s, what, conductor, i, energy, k), key
+            worst, worst_key = (need, s, what, conductor, i, energy, k, cleared_by), key
         fits = fits and need <= s
         checked.append({"case": what, "conductor": conductor,
                         "current_a": i if finite(i) else None,
                         "t_max_s": t if finite(t) else None,
                         "i2t_a2s": energy if finite(energy) else None, "k": k,
-                        "need_mm2": need if finite(need) else None, "have_mm2": s})
+                        "need_mm2": need if finite(need) else None, "have_mm2": s,
+                        **({"cleared_by": cleared_by} if cleared_by else {})})
     if worst is None:
         return None
-    need, s, what, conductor, i, energy, k = worst
+    need, s, what, conductor, i, energy, k, cleared_by = worst
     ok = not problems and fits
     checked = tuple(checked)
     details = {"current_a": i, "i2t_a2s": energy, "k": k, "conductor": conductor,
@@ -300,6 +309,8 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
     elif ok:
         reason = (f"{conductor} conductor {mm2_text(s)} withstands the {what} ({a_text(i)}, "
                   f"I2t {energy:.3g} A2s, k {k:g}): needs {mm2_text(need)}")
+        if cleared_by:
+            reason += f" ({cleared_by} clears it first: I2t taken as I^2 x its break time)"
     else:
         part = "protective conductor" if conductor == "protective" else "line conductors"
         reason = (f"{part} {mm2_text(s)} too small for the {what} ({a_text(i)}): {band.name} may "

@@ -11,10 +11,12 @@ from typing import Any
 from curves.band import Band
 
 #: Check names, in the order they are run and printed.
-CHECK_NAMES = ("disconnection", "overload", "fault-energy", "breaking-capacity", "starting")
-#: Checks run only where the study asks for them (a circuit with a motor or an inrush), never
-#: listed as "not checked" elsewhere.
-ONLY_WHERE_GIVEN = ("starting",)
+CHECK_NAMES = ("disconnection", "overload", "fault-energy", "breaking-capacity",
+               "touch-voltage", "additional-protection", "leakage", "starting")
+#: The checks every circuit with an overcurrent device has data for, or is listed "not
+#: checked" without (the residual-current checks apply only where there are RCDs or sockets,
+#: starting only on a circuit with a motor or an inrush).
+CIRCUIT_CHECK_NAMES = CHECK_NAMES[:4]
 
 
 # -------------------------------------------------------------------------------------------

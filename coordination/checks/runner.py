@@ -5,14 +5,16 @@ from __future__ import annotations
 from typing import Any
 
 from coordination.checks.breaking_capacity import _breaking_capacity
-from coordination.checks.common import _Edges
+from coordination.checks.common import _Edges, _in_a
 from coordination.checks.disconnection import _disconnection
 from coordination.checks.fault_energy import _fault_energy
 from coordination.checks.overload import _overload
+from coordination.checks.residual_checks import residual_results
 from coordination.checks.results import CheckResult
 from coordination.checks.starting import _starting
 from coordination.faults import FaultLevels
 from coordination.model import Study
+from coordination.residual import has_rcds
 from curves.band import Band
 from curves.errors import InputError
 
@@ -86,7 +88,9 @@ def _check_device(study: Study, circuit_id: str, band: Band, node: Any,
         protected = (overload is not None and overload.ok and circuit.cable is not None
                      and circuit.cable.iz_a is not None)
         results.append(_fault_energy(study, circuit_id, band, node, protected, edges))
-        results.append(_breaking_capacity(study, circuit_id, band, node))
+        if circuit.device is not None:  # an RCCB breaks no fault current: the device above
+            results.append(_breaking_capacity(study, circuit_id, band, node))  # does, and is
+            # checked at its own board
         results.append(_starting(study, circuit_id, band))
     except InputError as error:
         if error.key is not None and error.key.startswith("supply"):
@@ -138,6 +142,7 @@ def run(study: Study, levels: FaultLevels) -> tuple[CheckResult, ...]:
 
     # every band's edges at all its circuits' fault currents in one vectorised call per band
     bands = [band_for(study, circuit.id, basis="envelope") for circuit in study.circuits]
+    rcds = has_rcds(study)
     by_circuit = levels.by_circuit
     edges = _Edges.for_nodes((band, by_circuit[circuit.id])
                              for band, circuit in zip(bands, study.circuits, strict=True)
@@ -145,4 +150,10 @@ def run(study: Study, levels: FaultLevels) -> tuple[CheckResult, ...]:
     out: list[CheckResult] = []
     for band, circuit in zip(bands, study.circuits, strict=True):
         out.extend(_check_device(study, circuit.id, band, by_circuit[circuit.id], edges))
+        if rcds or circuit.sockets:
+            in_a = _in_a(band) if circuit.device is not None else None
+            try:
+                out.extend(residual_results(study, circuit.id, in_a))
+            except InputError as error:
+                raise error.within(circuit=circuit.id) from None
     return tuple(out)

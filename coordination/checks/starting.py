@@ -48,8 +48,9 @@ def start_profile(study: Study, circuit_id: str) -> StartProfile | None:
 
 def starting_chain(study: Study, circuit_id: str,
                    envelope: Band | None = None) -> list[ChainDevice]:
-    """The devices a circuit's start passes through: its own, then every device above it, each
-    with its own circuit's Ib as running load (0 where the study gives none).
+    """The devices a circuit's start passes through: its own, then every overcurrent device
+    above it (an RCCB has none), each with its own circuit's Ib as running load (0 where the
+    study gives none).
 
     Parameters
     ----------
@@ -62,6 +63,8 @@ def starting_chain(study: Study, circuit_id: str,
     own = envelope if envelope is not None else band_for(study, circuit_id, "envelope")
     chain = [ChainDevice(circuit_id, band_for(study, circuit_id), 0.0, own)]
     for up in study.ancestors(circuit_id):
+        if study.by_id[up].device is None:  # an RCCB: the overcurrent device above it counts
+            continue
         load = study.by_id[up].load_a
         chain.append(ChainDevice(up, band_for(study, up), float(load or 0.0),
                                  band_for(study, up, "envelope")))

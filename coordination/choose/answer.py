@@ -18,7 +18,7 @@ from coordination.choose.candidates import (
 )
 from coordination.choose.exact import exact_failure
 from coordination.choose.explain import why_nothing_fits
-from coordination.choose.problem import Problem, build_problem, substitute
+from coordination.choose.problem import Problem, build_problem, substitute, with_circuits
 from coordination.choose.search import search_groups
 from coordination.model import SUPPLY_ID, Study
 from curves.errors import InputError
@@ -203,6 +203,9 @@ def choose(study: Study, circuit_id: str, *, family: str | None = None,
     winner, band, binding, failures = search_groups(problem, groups)
     if winner is None or band is None:
         reason, suggestions, insufficient = why_nothing_fits(problem, failures, groups, current)
+        rcd_help = rcd_suggestion(study, levels, circuit_id, family, skip_above)
+        if rcd_help is not None:
+            suggestions = (*suggestions, rcd_help)
         return Choice(circuit_id, False, None, None, MappingProxyType({}), None, reason,
                       problem.family, None, suggestions, problem.state.searched, previous,
                       insufficient=insufficient)
@@ -274,7 +277,8 @@ def choose_board(study: Study, board_id: str, *, family: str | None = None) -> t
     levels = faults.compute(study)
     inside = (set(study.by_id) if board_id == SUPPLY_ID
               else {board_id, *study.descendants(board_id)})
-    feeders = [c.id for c in study.circuits if study.children.get(c.id) and c.id in inside]
+    feeders = [c.id for c in study.circuits
+               if study.children.get(c.id) and c.id in inside and c.device is not None]
     order = sorted(feeders, key=lambda cid: -study.depth[cid])  # stable: deepest first
     choices: list[Choice] = []
     current = study
@@ -338,3 +342,55 @@ def format_results(results: Iterable[Choice]) -> str:
             lines += [f"  ruled out: {s}" for s in r.insufficient]
         blocks.append("\n".join(line for line in lines if line))
     return "\n\n".join(blocks) + "\n"
+
+
+def rcd_suggestion(study: Study, levels: Any, circuit_id: str, family: str | None,
+                   skip_above: Iterable[str] = ()) -> str | None:
+    """An RCD for a circuit whose earth faults no device of its own disconnects in time.
+
+    Only where the circuit has no RCD of its own and its present device fails
+    ``disconnection``: the smallest IΔn that meets disconnection, touch voltage (TT),
+    additional protection, leakage and RCD selectivity with the RCDs above and below
+    (:func:`coordination.residual.propose_rcd`), checked by searching again with it on the
+    circuit; the text names the ``rcd`` table and the device that then meets every requirement.
+    """
+    from coordination import checks
+    from coordination.checks.disconnection import _disconnection_limit
+    from coordination.checks.residual_checks import rcd_earth_fault_a
+    from coordination.devices import band_for
+    from coordination.residual import (
+        leakage_below_ma,
+        needs_additional_protection,
+        propose_rcd,
+        rcd_of,
+        rcds_on_path,
+    )
+
+    circuit = study.by_id[circuit_id]
+    if circuit.rcd is not None:
+        return None
+    band = band_for(study, circuit_id, "envelope")
+    present = checks.check_device(study, levels, circuit_id, band)
+    if all(r.ok for r in present if r.check == "disconnection"):
+        return None
+    limit = _disconnection_limit(study, circuit_id, band)[0]
+    node = levels.by_circuit[circuit_id]
+    fault = rcd_earth_fault_a(study, float(node.ief_min_a))
+    in_a = float(band.settings.get("Ir_a", band.rating_a) or band.rating_a)
+    below = [b for d in study.descendants(circuit_id) if (b := rcd_of(study, d)) is not None]
+    proposal = propose_rcd(
+        earth_fault_a=fault, limit_s=limit, ra_ohm=study.supply.ra_ohm,
+        tt=str(study.supply.earthing).upper() == "TT",
+        sockets=needs_additional_protection(circuit.sockets, in_a),
+        above=[b for _, b in rcds_on_path(study, circuit_id)], below=below,
+        leakage_ma=leakage_below_ma(study, circuit_id) or 0.0)
+    if proposal.rcd is None:
+        return None
+    table = ", ".join(f"{k} = {str(v).lower() if isinstance(v, bool) else v}"
+                      for k, v in proposal.rcd.items())
+    trial = with_circuits(study, {circuit_id: {"rcd": dict(proposal.rcd)}})
+    again = choose(trial, circuit_id, family=family, levels=levels, skip_above=skip_above)
+    if not again.found:
+        return None
+    return (f"an RCD on this circuit, rcd = {{ {table} }}: {proposal.reason}; with it "
+            f"{again.name} meets every requirement")

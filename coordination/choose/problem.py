@@ -137,6 +137,13 @@ def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None
     from coordination.devices import band_for, device_band
 
     circuit = study.by_id[circuit_id]
+    if circuit.device is None:
+        from coordination.devices import overcurrent_owner
+
+        raise InputError(f"circuit {circuit_id!r} is a residual-current switch (rcd without "
+                         "device): it has no overcurrent device to choose; its protection is "
+                         f"the device of {overcurrent_owner(study, circuit_id)!r}",
+                         circuit=circuit_id, key="--circuit")
     basis = study.basis_of(circuit_id)
     band_for(study, circuit_id, basis)  # the circuit's device checked, its circuit named
     current = device_band(circuit.device, basis)  # the device itself, a motor's relay aside
@@ -162,6 +169,8 @@ def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None
     below: list[Pair] = []
     seen: dict[tuple, int] = {}
     for d in study.descendants(circuit_id):
+        if study.by_id[d].device is None:
+            continue  # an RCCB: no overcurrent device to be selective with
         band = band_for(study, d)
         margin, interval, selective_to = study.pair_settings(d)
         margin, interval = float(margin), float(interval)
@@ -183,8 +192,8 @@ def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None
     margin_c, interval_c = float(margin_c), float(interval_c)
     required_c = min(ik_board, float(selective_to_c)) if selective_to_c is not None else ik_board
     for a in study.ancestors(circuit_id):
-        if a in skip_above:  # to be chosen afterwards, seeing this choice
-            continue
+        if a in skip_above or study.by_id[a].device is None:  # to be chosen afterwards,
+            continue  # seeing this choice; or an RCCB, with no overcurrent device
         tested = circuit.tested_limits_a.get(a)
         above.append(Pair(a, band_for(study, a), (0.0, ik_board), required_c, margin_c,
                            interval_c, float(tested) if tested is not None else None))

@@ -35,6 +35,12 @@ STANDARDS = (
     ("IEC 60228", "conductors of insulated cables: resistance at 20 degC"),
     ("BS 7671 Table 41.3", "maximum earth-fault loop impedance for circuit-breakers"),
 )
+#: Added to the standards where a study has residual-current devices.
+RCD_STANDARDS = (
+    ("IEC 61008-1 / 61009-1", "RCCBs and RCBOs: break and non-actuating times (general, type S)"),
+    ("IEC 60364-4-41 411.3.3, 411.5.3", "additional protection by RCD; TT: RA x IΔn <= 50 V"),
+    ("IEC 60364-5-53", "selectivity between RCDs in series (from memory)"),
+)
 
 
 # -- small formatting helpers -------------------------------------------------------------------
@@ -147,13 +153,31 @@ def _cable_text(cable: Cable | None) -> str:
 
 def _device_table(study: Study, basis: str | None) -> TableSpec:
     from coordination.devices import band_for
+    from coordination.residual import has_rcds, rcd_of
 
+    rcds = has_rcds(study)
     rows = []
     for c in study.circuits:
-        band = band_for(study, c.id, basis)
-        rows.append((c.id, study.board_name(c.id), band.name, band.basis,
-                     register_settings(band.settings, c.breaking_capacity_a),
-                     "-" if c.load_a is None else f"{c.load_a:g}", _cable_text(c.cable)))
+        rcd = rcd_of(study, c.id) if rcds else None
+        if c.device is None:  # a residual-current switch: its RCD is its device
+            name, kind, settings = (f"{rcd.name.replace('RCD', 'RCCB', 1)}" if rcd else "RCCB",
+                                    "envelope", "overcurrent: the device above")
+        else:
+            band = band_for(study, c.id, basis)
+            name, kind = band.name, band.basis
+            settings = register_settings(band.settings, c.breaking_capacity_a)
+        row = (c.id, study.board_name(c.id), name, kind, settings,
+               "-" if c.load_a is None else f"{c.load_a:g}", _cable_text(c.cable))
+        if rcds:
+            extra = [rcd.name] if rcd is not None and c.device is not None else []
+            extra += ["sockets"] if c.sockets else []
+            extra += [f"leakage {c.leakage_ma:g} mA"] if c.leakage_ma is not None else []
+            row = (*row, ", ".join(extra) or "-")
+        rows.append(row)
+    if rcds:  # an RCD column only where the study has RCDs (the same register otherwise)
+        return TableSpec(("circuit", "sits on", "device", "basis", "settings", "Ib A",
+                          "cable mm\u00b2", "RCD"), (0.0, 0.0, 0.6, 0.0, 2.0, 0.0, 0.0, 0.6),
+                         tuple(rows), "lllllrll", wrap=(2, 4, 7), fit=(0, 1, 3, 6))
     return TableSpec(("circuit", "sits on", "device", "basis", "settings", "Ib A",
                       "cable mm\u00b2"), (0.0, 0.0, 0.6, 0.0, 2.0, 0.0, 0.0), tuple(rows),
                      "lllllrl", wrap=(2, 4), fit=(0, 1, 3, 6))
@@ -202,6 +226,12 @@ def _pair_table(study: Study, analysis: Analysis) -> TableSpec:
             f"{ka_text(p.window_a[0])}-{ka_text(p.window_a[1])}", p.decided_by, bases,
             "total" if p.required_a is None else ka_text(p.required_a), "yes" if p.ok else "NO"))
         flags.append(not p.ok)
+    for p in analysis.residual:  # RCDs in series: residual current on the window
+        rows.append((
+            p.downstream, p.upstream, f"{p.downstream_device} / {p.upstream_device}",
+            p.verdict, "-", f"{p.window_a[0] * 1000:.3g} mA-{ka_text(p.window_a[1])}",
+            p.decided_by, "env/env", "total", "yes" if p.ok else "NO"))
+        flags.append(not p.ok)
     return TableSpec(("downstream", "upstream", "devices", "verdict", "Is kA", "window kA",
                       "decided by", "bases", "need kA", "met"),
                      (0.0, 0.0, 1.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0), tuple(rows),
@@ -210,6 +240,9 @@ def _pair_table(study: Study, analysis: Analysis) -> TableSpec:
 
 CHECK_COLUMNS = (("disconnection", "disconnection"), ("overload", "overload"),
                  ("fault-energy", "fault energy"), ("breaking-capacity", "breaking capacity"))
+#: The residual-current checks: a column each only where a study has them.
+RESIDUAL_COLUMNS = (("touch-voltage", "touch voltage"),
+                    ("additional-protection", "additional protection"), ("leakage", "leakage"))
 
 
 def _check_cell(result: CheckResult) -> str:
@@ -224,15 +257,18 @@ def _check_matrix(study: Study, results: Sequence[CheckResult]) -> TableSpec:
     by_circuit: dict[str, dict[str, Any]] = {}
     for r in results:
         by_circuit.setdefault(r.circuit, {})[r.check] = r
+    present = {r.check for r in results}
+    columns = CHECK_COLUMNS + tuple(c for c in RESIDUAL_COLUMNS if c[0] in present)
     rows, flags = [], []
     for c in study.circuits:
         mine = by_circuit.get(c.id, {})
         rows.append((c.id, *(_check_cell(mine[k]) if k in mine else "-"
-                             for k, _ in CHECK_COLUMNS)))
+                             for k, _ in columns)))
         flags.append(any(not r.ok for r in mine.values()))
-    return TableSpec(("circuit", *(title for _, title in CHECK_COLUMNS)),
-                     (0.0, 1.0, 1.0, 1.0, 1.0), tuple(rows), "lllll", wrap=(1, 2, 3, 4),
-                     fit=(0,), flags=tuple(flags))
+    n = len(columns)
+    return TableSpec(("circuit", *(title for _, title in columns)),
+                     (0.0, *(1.0,) * n), tuple(rows), "l" * (n + 1),
+                     wrap=tuple(range(1, n + 1)), fit=(0,), flags=tuple(flags))
 
 
 def _check_failures(results: Sequence[CheckResult]) -> TableSpec:
@@ -383,6 +419,25 @@ PAIRS_INTRO = (
     "full device settings in the register). Need: the selectivity the study requires "
     "('total' unless it gives selective_to_a). Rows that miss it are marked NO.",
 )
+
+#: Added where a study has residual-current devices: above the register, the pairs and the
+#: checks.
+REGISTER_RCD = (
+    "RCD: the residual-current device beside the overcurrent device (an RCBO or a breaker with "
+    "an RCD); an RCCB (an RCD with no overcurrent device) is listed as the device, protected "
+    "against overcurrent by the device above it. RCD bands are the worst case of IEC 61008-1 / "
+    "61009-1.")
+PAIRS_RCD = (
+    "Pairs of RCDs in series (window in residual current): selective when the upstream RCD is "
+    "type S or delayed and its IΔn is at least 3 times the downstream one's (IEC 60364-5-53, "
+    "from memory); 'rule' where the IEC 61008-1 limit values alone leave a range unproven "
+    "(the JSON and the terminal output name it): confirm with the makers' data.")
+CHECKS_RCD = (
+    "Disconnection may be met by an RCD on the circuit or above it (its maximum break time at "
+    "the earth-fault current, IEC 61008-1; IEC 60364-4-41 411.4.5 in TN, 411.5 in TT). Touch "
+    "voltage (TT): RA x IΔn <= 50 V (411.5.3). Additional protection: socket-outlet circuits "
+    "up to 32 A need an RCD of at most 30 mA (411.3.3). Leakage: the standing leakage below an "
+    "RCD within 30 % of its IΔn (common practice).")
 
 #: Above the protection checks.
 CHECKS_INTRO = (

@@ -19,11 +19,15 @@ from coordination.pipeline import Assessment
 
 from .content import (
     CHECKS_INTRO,
+    CHECKS_RCD,
     FAILURES_INTRO,
     FAULTS_INTRO,
     NOTES,
     PAIRS_INTRO,
+    PAIRS_RCD,
+    RCD_STANDARDS,
     REGISTER_INTRO,
+    REGISTER_RCD,
     STANDARDS,
     STARTING_INTRO,
     _basis_summary,
@@ -103,7 +107,10 @@ def _cover(study: Study, result: Assessment) -> PageBuilder:
             verdict,
         ], y)
         y = block("Bases", [_basis_summary(study, basis)], y)
-        y = block("Standards used", [f"{code}: {what}" for code, what in STANDARDS], y)
+        from coordination.residual import has_rcds
+
+        used = STANDARDS + (RCD_STANDARDS if has_rcds(study) else ())
+        y = block("Standards used", [f"{code}: {what}" for code, what in used], y)
         # the caution, boxed
         fig.text(LEFT, y - 0.005, "Caution", fontsize=11, fontweight="bold", color=FAIL_INK,
                  va="top")
@@ -157,6 +164,39 @@ def _plot_page(study: Study, result: Assessment, entry: PlannedPlot) -> PageBuil
                               "decided by", "met"), (1.0, 1.0, 0, 0, 0.3, 0.3, 0),
                              tuple(rows), "lllrllr", fit=(0, 1, 2, 3, 4, 5, 6),
                              flags=tuple(flags))
+            draw_table(fig, spec, range(len(rows)), y - 0.006)
+        finish_page(fig, number, total)
+        return fig
+
+    return build
+
+
+def _residual_page(study: Study, result: Assessment, feeder: str) -> PageBuilder:
+    """The residual-current plot of a board's RCDs and those above it, and their pairs."""
+    name = "origin" if feeder not in study.by_id else (study.by_id[feeder].board or feeder)
+
+    def build(number: int, total: int) -> Figure:
+        from coordination.plot_residual import plot_residual
+
+        fig = new_page(study, f"RCDs of board {name}")
+        ax = fig.add_axes((0.11, 0.42, 0.84, 0.49))
+        plot_residual(study, feeder, levels=result.levels, ax=ax,
+                      title=f"RCDs of board {name} and above it (residual current)")
+        y = 0.235
+        text = ("Residual current in mA: each RCD between its minimum non-actuating time and "
+                "its maximum break time, the worst case of IEC 61008-1 / 61009-1; RCDs of one "
+                "kind share a band.")
+        for line in wrap_words(text, 125):
+            fig.text(LEFT, y, line, fontsize=7.5, color=INK, va="top")
+            y -= 0.013
+        on_board = set(study.children.get(feeder, ()))
+        pairs = [p for p in result.analysis.residual if p.downstream in on_board]
+        rows = tuple((p.downstream, p.upstream, p.verdict, p.decided_by, "yes" if p.ok else "NO")
+                     for p in pairs)
+        if rows:
+            spec = TableSpec(("downstream", "upstream", "verdict", "decided by", "met"),
+                             (1.0, 1.0, 0, 0.3, 0), rows, "llllr", fit=(0, 1, 2, 3, 4),
+                             flags=tuple(not p.ok for p in pairs))
             draw_table(fig, spec, range(len(rows)), y - 0.006)
         finish_page(fig, number, total)
         return fig
@@ -219,13 +259,19 @@ def build_pages(study: Study, result: Assessment) -> list[PageBuilder]:
     True
     """
     levels, analysis, results, basis = result.levels, result.analysis, result.checks, result.basis
+    from coordination.plot_residual import residual_boards
+
+    rcd_boards = residual_boards(study)
+    rcd = (lambda text: (text,)) if rcd_boards else (lambda text: ())  # only with RCDs
     pages: list[PageBuilder] = [_cover(study, result)]
-    pages += table_pages(study, "Device register", REGISTER_INTRO, _device_table(study, basis))
+    pages += table_pages(study, "Device register", (*REGISTER_INTRO, *rcd(REGISTER_RCD)),
+                         _device_table(study, basis))
     pages += table_pages(study, "Fault levels", (*FAULTS_INTRO, sentence(levels.convention)),
                          _fault_table(study, levels))
-    pages += table_pages(study, "Selectivity of every pair", PAIRS_INTRO,
+    pages += table_pages(study, "Selectivity of every pair", (*PAIRS_INTRO, *rcd(PAIRS_RCD)),
                          _pair_table(study, analysis))
-    pages += table_pages(study, "Protection checks", CHECKS_INTRO, _check_matrix(study, results))
+    pages += table_pages(study, "Protection checks", (*CHECKS_INTRO, *rcd(CHECKS_RCD)),
+                         _check_matrix(study, results))
     starting = _starting_table(results)
     if starting.rows:
         pages += table_pages(study, "Motor starts and inrush", STARTING_INTRO, starting)
@@ -235,6 +281,8 @@ def build_pages(study: Study, result: Assessment) -> list[PageBuilder]:
     plan = plot_plan(study, analysis)
     for entry in plan:
         pages.append(_plot_page(study, result, entry))
+    for feeder in rcd_boards:
+        pages.append(_residual_page(study, result, feeder))
     pages.append(_notes_page(study, levels, not_drawn(analysis, plan)))
 
     return pages

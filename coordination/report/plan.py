@@ -96,7 +96,10 @@ def plot_plan(study: Study, analysis: Analysis, *,
     plan: list[PlannedPlot] = []
     covered: dict[tuple, list[str]] = {}  # signature -> [drawn circuit, others...]
     for board_circuit in boards(study):
-        outgoing = study.children[board_circuit]
+        # a residual-current switch has no overcurrent band to draw
+        outgoing = [c for c in study.children[board_circuit] if study.by_id[c].device is not None]
+        if not outgoing:
+            continue
         pick = min(outgoing, key=lambda cid: _worst_key(
             analysis, cid, band_for(study, cid, analysis.basis).rating_a))
         name = study.by_id[board_circuit].board or board_circuit

@@ -181,7 +181,7 @@ def write_report(study: Study, path: str | os.PathLike, *, csv: bool = False,
         pdf_tmp = stack.enter_context(atomic_path(target))
         if csv:
             tables = (
-                ("pairs", [_pair_record(p) for p in assessment.analysis.pairs]),
+                ("pairs", [_pair_record(p) for p in assessment.analysis.all_pairs]),
                 ("checks", [r.to_json() for r in assessment.checks]),
                 ("faults", [_node_record(n) for n in assessment.levels.nodes]),
             )
