@@ -24,6 +24,7 @@ from coordination.checks.results import CheckResult, _result
 from coordination.criterion import breaking_duty
 from coordination.model import Study
 from coordination.residual import rcds_breaking, rcds_on_path
+from coordination.text import significant
 from curves.band import Band
 from curves.errors import InputError
 
@@ -308,15 +309,16 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
         reason = problems[0]
     elif ok:
         reason = (f"{conductor} conductor {mm2_text(s)} withstands the {what} ({a_text(i)}, "
-                  f"I2t {energy:.3g} A2s, k {k:g}): needs {mm2_text(need)}")
+                  f"I2t {significant(energy, 3)} A2s, k {k:g}): needs {mm2_text(need)}")
         if cleared_by:
             reason += f" ({cleared_by} clears it first: I2t taken as I^2 x its break time)"
     else:
         part = "protective conductor" if conductor == "protective" else "line conductors"
         reason = (f"{part} {mm2_text(s)} too small for the {what} ({a_text(i)}): {band.name} may "
-                  f"let through up to {energy:.3g} A2s (the most its standard allows), needing "
+                  f"let through up to {significant(energy, 3)} A2s (the most its standard "
+                  "allows), needing "
                   f"{mm2_text(need)} at k {k:g}; enlarge the "
                   f"{'cpc' if conductor == 'protective' else 'conductors'}, choose a device "
                   "that lets through less energy, or show from the maker's let-through data "
-                  f"that it stays within k2S2 = {(k * s) ** 2:.3g} A2s")
+                  f"that it stays within k2S2 = {significant((k * s) ** 2, 3)} A2s")
     return _result(cid, "fault-energy", ok, need, s, "mm2", reason, band, details)
