@@ -295,10 +295,18 @@ def faults(study_path: StudyArg, as_json: JsonOption = False) -> None:
 
 @app.command()
 @guarded
-def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption = None) -> None:
+def check(
+    study_path: StudyArg,
+    as_json: JsonOption = False,
+    basis: BasisOption = None,
+    every_row: Annotated[bool, typer.Option(
+        "--all", help="Print every pair and every check (default: a summary and what fails "
+        "or is near its limit).")] = False,
+) -> None:
     """Selectivity of every upstream/downstream pair, plus the protection checks."""
-    from coordination import checks, engine, tables
+    from coordination import checks, engine, rules, tables
     from coordination.pipeline import assess
+    from coordination.text import fit_lines
 
     s = load_study(study_path)
     result = assess(s, check_basis(basis))
@@ -308,28 +316,14 @@ def check(study_path: StudyArg, as_json: JsonOption = False, basis: BasisOption 
         payload = {"pairs": Records(analysis.all_pairs, engine.PairResult.to_json),
                    "summary": analysis.summary(),
                    "checks": Records(result.checks, checks.CheckResult.json_record),
+                   "rules": rules.json_rules(s.rule_set),
                    "ok": result.ok, "caution": CAUTION}
         echo_json(payload)
     else:
-        typer.echo(tables.pair_table(s, result.levels, analysis))
+        typer.echo(tables.check_text(s, result.levels, analysis, result.checks,
+                                     every_row=every_row, study_path=str(study_path)))
         typer.echo("")
-        typer.echo(tables.check_table(result.checks))
-        typer.echo("")
-        uppers = sorted({p.upstream for p in analysis.pairs if not p.ok})
-        if uppers:
-            typer.echo(
-                "next: for a pair that falls short, choose a larger upstream device "
-                f"(coordination choose {study_path} --circuit {uppers[0]}), give the "
-                "manufacturer's tested limit (tested_limits_a), or state the selectivity the "
-                "circuit needs (selective_to_a)."
-            )
-        if any(not p.ok for p in analysis.residual):
-            typer.echo(
-                "next: for RCDs in series that are not selective, make the upstream one type S "
-                "(selective = true) or delayed (delay_s), with an IΔn at least 3 times the "
-                "downstream one's (IEC 60364-5-53, from memory)."
-            )
-        typer.echo(CAUTION)
+        typer.echo(fit_lines(CAUTION))
     raise typer.Exit(0 if result.ok else 1)
 
 
@@ -340,8 +334,9 @@ def choose(
     circuit: Annotated[str | None, typer.Option("--circuit", help="Circuit id to choose for.")]
     = None,
     board: Annotated[str | None, typer.Option(
-        "--board", help="Choose every sub-main and incomer above the final circuits fed from "
-        "this circuit's board, bottom up ('supply' for the whole study).")] = None,
+        "--board", help="Choose every sub-main and incomer above the final circuits of a "
+        "board, bottom up: the board's name as printed or the id of the circuit feeding it "
+        "('origin' for the whole study).")] = None,
     family: Annotated[str | None, typer.Option(
         "--family", help="Device family to search: B, C, D (MCB types), gG, tm, electronic.")]
     = None,
@@ -370,6 +365,18 @@ def choose(
     raise typer.Exit(0 if all(r.found for r in results) else 1)
 
 
+def _drawing_output(output: Path, study_path: Path, what: str) -> None:
+    """Before a command draws: the collector back on (matplotlib's figures hold reference
+    cycles, see main), and the output path checked (not the study, a PNG, SVG or PDF)."""
+    gc.enable()
+    from coordination.io import check_output_path
+
+    check_output_path(output, inputs=(study_path,), key="-o")
+    if output.suffix.lower() not in (".png", ".svg", ".pdf"):
+        raise InputError(f"unknown {what} format {output.suffix!r}; allowed: .png, .svg, .pdf",
+                         key="-o")
+
+
 @app.command()
 @guarded
 def plot(
@@ -382,13 +389,7 @@ def plot(
         "it; the only plot of an RCCB (rcd without device).")] = False,
 ) -> None:
     """Time-current plot of a circuit and everything above it."""
-    gc.enable()  # matplotlib's figures hold reference cycles (see main)
-    from coordination.io import check_output_path
-
-    check_output_path(output, inputs=(study_path,), key="-o")
-    if output.suffix.lower() not in (".png", ".svg", ".pdf"):
-        raise InputError(f"unknown plot format {output.suffix!r}; allowed: .png, .svg, .pdf",
-                         key="-o")
+    _drawing_output(output, study_path, "plot")
     from coordination import plot as plotting
     from coordination.pipeline import assess
 
@@ -406,9 +407,39 @@ def plot(
                              key="--residual")
         fig = plot_residual(s, circuit, levels=result.levels)
     else:
-        fig = plotting.plot_circuit(s, result.levels, result.analysis, circuit)
+        fig = plotting.plot_circuit(s, result.levels, result.analysis, circuit,
+                                    results=result.checks)
     plotting.save_figure(fig, output)
     typer.echo(f"wrote {output}")
+
+
+@app.command()
+@guarded
+def diagram(
+    study_path: StudyArg,
+    output: Annotated[Path, typer.Option("-o", "--output", help="PNG, SVG or PDF file.")],
+    board: Annotated[str | None, typer.Option(
+        "--board", help="Only this board: its name as printed or the id of the circuit "
+        "feeding it ('origin' for the board the supply feeds).")] = None,
+    basis: BasisOption = None,
+) -> None:
+    """Installation diagram: supply, boards and circuits, failing ones marked (a PDF has a
+    sheet per board of a large study; an image the first view)."""
+    _drawing_output(output, study_path, "diagram")
+    from coordination import diagram as drawing
+    from coordination.pipeline import assess
+    from coordination.text import fit_lines
+
+    s = load_study(study_path)
+    if board is not None:
+        drawing.plan(s, board=board)  # an unknown board is refused before anything is computed
+    result = assess(s, check_basis(basis))
+    verdict(0 if result.ok else 1)
+    sheets = drawing.write_diagram(s, result.levels, result.analysis, result.checks, output,
+                                   board=board, title_block=s.title_block)
+    typer.echo(f"wrote {output} ({sheets} sheet{'s' if sheets != 1 else ''})")
+    typer.echo(fit_lines(CAUTION))
+    raise typer.Exit(0 if result.ok else 1)
 
 
 @app.command()
@@ -464,8 +495,8 @@ def main() -> NoReturn:
     The cyclic garbage collector is off: a check builds a few hundred thousand acyclic objects
     that reference counting frees, and the collector's passes over them cost 0.05 s of a
     2,061-circuit check for nothing freed (docs/performance.md). The commands that draw
-    (``plot``, ``report``, ``demo``) turn it back on: matplotlib's figures hold reference
-    cycles.
+    (``plot``, ``diagram``, ``report``, ``demo``) turn it back on: matplotlib's figures hold
+    reference cycles.
 
     From Python, call the functions the commands call (or ``app`` through typer's test runner).
     """

@@ -155,6 +155,27 @@ class PairResult:
     protection: Protection = "overcurrent"
 
     @property
+    def basis(self) -> str:
+        """The basis the pair's result rests on: ``"tested"`` when a tested limit decided it,
+        else the bands' basis, the wider one when the two differ (``"envelope"`` over
+        ``"typical"``), and ``"datasheet"`` only when both devices are given by points.
+
+        Examples
+        --------
+        >>> p = PairResult("up", "down", "total", None, (10.0, 1e4), "energy", "datasheet",
+        ...                "typical", None, True)
+        >>> print(p.basis)
+        typical
+        """
+        if self.decided_by == "tested":
+            return "tested"
+        bases = {self.upstream_basis, self.downstream_basis}
+        for basis in ("envelope", "typical"):
+            if basis in bases:
+                return basis
+        return "datasheet"
+
+    @property
     def upstream_span(self) -> str:
         """``upstream``, or for a run of alike devices ``"n7 to n1 (7 alike)"``."""
         if self.upstream_count == 1:
@@ -175,7 +196,8 @@ class PairResult:
             "verdict": self.verdict,
             "limit_a": None if self.verdict == "total" else self.limit_a,
             "window_a": [self.window_a[0], self.window_a[1]],
-            "basis": self.decided_by,
+            "basis": self.basis,
+            "decided_by": self.decided_by,
             "band_basis": {"upstream": self.upstream_basis, "downstream": self.downstream_basis},
             "required_a": self.required_a,
             "ok": self.ok,

@@ -36,7 +36,8 @@ Conventions (also carried in :attr:`FaultLevels.convention` and printed with eve
   currents take ``Ik1 = pfc_a`` and minimum currents a loop of twice the phase impedance. From
   ``ze_ohm`` alone the line-neutral loop is taken equal to Ze, and a three-phase supply's phase
   impedance is bounded by Ze/2 (maximum currents) and Ze (minimum currents). A transformer
-  (IEC 60909-0 clause 6.3): ``Z_T = u_k U_r^2 / S_r`` with ``U_r = sqrt(3) U0``, split by its
+  (IEC 60909-0 clause 6.3): ``Z_T = u_k U_rT^2 / S_r`` with ``U_rT`` its rated low-voltage
+  ``u_lv_v`` (default ``sqrt(3) U0``), split by its
   X/R, and ``K_T = 0.95 c_max / (1 + 0.6 x_T)`` on maximum currents only; an upstream network
   referred to the low-voltage side ``Z_Q = c_max U0 / I_kQ``; a Dyn transformer's zero-sequence
   impedance equals its positive one, so the line-neutral loop at its terminals is
@@ -239,7 +240,9 @@ def source_impedances(supply: Supply) -> Source:
     k_t: float | None = None
     t = supply.transformer
     if t is not None:
-        z_t = transformer_impedance_ohm(t.rating_kva, t.impedance_pct, t.x_r, SQRT3 * u0)
+        u_rt = t.u_lv_v if t.u_lv_v is not None else SQRT3 * u0
+        ur_text = "Ur = sqrt(3) U0" if t.u_lv_v is None else f"Ur = u_lv_v {u_rt:g} V"
+        z_t = transformer_impedance_ohm(t.rating_kva, t.impedance_pct, t.x_r, u_rt)
         k_t = transformer_correction(t.impedance_pct, t.x_r, c_max)
         z_q = (network_impedance_ohm(t.upstream_pfc_a, u0, c_max, t.upstream_x_r)
                if t.upstream_pfc_a else 0j)
@@ -248,7 +251,7 @@ def source_impedances(supply: Supply) -> Source:
         upstream = (f", upstream network {t.upstream_pfc_a / 1000:g} kA (X/R {t.upstream_x_r:g})"
                     if t.upstream_pfc_a else ", infinite upstream network")
         text = (f"transformer {t.rating_kva:g} kVA, uk {t.impedance_pct:g} %, X/R {t.x_r:g}: "
-                f"Z_T = uk Ur^2/Sr = {abs(z_t) * 1000:.3g} mohm (Ur = sqrt(3) U0), "
+                f"Z_T = uk Ur^2/Sr = {abs(z_t) * 1000:.3g} mohm ({ur_text}), "
                 f"K_T = {k_t:.4f} on maximum currents{upstream}; line-neutral loop at its "
                 "terminals Z_T + 2/3 Z_Q (Dyn)")
     elif supply.pfc_a is not None:
@@ -486,12 +489,13 @@ def convention_text(supply: Supply) -> str:
 
 # -- computation --------------------------------------------------------------------------------
 @lru_cache(maxsize=4096)
-def _own(cable: Cable | None) -> tuple[complex, complex, complex, complex, complex, complex,
-                                       float]:
-    """One cable's contributions: z3_20, zln_20, z3_hot, zln_hot, zpe_hot, zpe_20, R1+R2 hot."""
+def _own(cable: Cable | None, ring: bool = False) -> tuple[complex, complex, complex, complex,
+                                                           complex, complex, float]:
+    """One cable's contributions: z3_20, zln_20, z3_hot, zln_hot, zpe_hot, zpe_20, R1+R2 hot
+    (a ring's seen from its mid-point, :func:`coordination.cables.run_impedances`)."""
     if cable is None:
         return 0j, 0j, 0j, 0j, 0j, 0j, 0.0
-    run = cables.run_impedances(cable)
+    run = cables.run_impedances(cable, ring=ring)
     return (complex(run.r_line_20, run.x_line),
             complex(run.r_line_20 + run.r_neutral_20, run.x_line + run.x_neutral),
             complex(run.r_line_hot, run.x_line),
@@ -541,7 +545,7 @@ def compute(study: Study) -> FaultLevels:
     own = np.zeros((6, n + 1), dtype=complex)
     r1r2 = np.zeros(n)
     for i, c in enumerate(circuits):
-        *z, rr = _own(c.cable)
+        *z, rr = _own(c.cable, c.ring)
         own[:, i] = z
         r1r2[i] = rr
     total = path_sums(own, parent)

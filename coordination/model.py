@@ -12,6 +12,7 @@ from functools import cached_property
 from types import MappingProxyType
 from typing import Any
 
+from coordination import rules as national
 from coordination.motors import Inrush, Motor
 
 SUPPLY_ID = "supply"
@@ -26,6 +27,7 @@ class Transformer:
     x_r: float = 6.0  # X/R of the transformer
     upstream_pfc_a: float | None = None  # the network's fault level referred to LV [A], or infinite
     upstream_x_r: float = 10.0
+    u_lv_v: float | None = None  # rated voltage on the low-voltage side U_rT [V]; None: sqrt(3) U0
 
 
 @dataclass(frozen=True)
@@ -68,6 +70,10 @@ class Cable:
     x_ohm_per_m: float | None = None  # reactance per metre per conductor; None: common practice
     cpc_material: str | None = None  # None: same as line conductors
     cpc_parallel: int | None = None  # protective conductors in parallel; None: same as parallel
+    cpc_separate: bool = False  # the cpc is installed apart from the cable (IEC 60364-5-54 A.54.2)
+    cpc_armour: bool = False  # the steel-wire armour is the protective conductor
+    armour_mm2: float | None = None  # cross-section of the armour [mm2] (with cpc_armour)
+    armour_ohm_per_m: float | None = None  # its resistance at 20 degC [ohm/m]; None: rho / A
 
 
 @dataclass(frozen=True)
@@ -98,8 +104,11 @@ class Circuit:
     interval_s: float | None = None  # coordination time interval over adjustable breakers [s]
     board: str | None = None  # name of the board this circuit feeds (shown in printouts)
     rcd: Mapping[str, Any] | None = None  # residual-current device (IEC 61008-1 / 61009-1)
-    sockets: bool = False  # supplies socket-outlets (IEC 60364-4-41, 411.3.3)
+    sockets: bool = False  # supplies socket-outlets (411.3.3; BS 7671's scope of Table 41.1)
     leakage_ma: float | None = None  # standing protective-conductor current [mA]
+    ring: bool = False  # a ring final circuit: the cable's length_m is the ring's whole length
+    backup_a: Mapping[str, float] = field(default_factory=dict)  # upstream id -> declared [A]
+    conditional_a: float | None = None  # the fed board's devices backed up by this one to [A]
     motor: Motor | None = None  # the motor it feeds: its start and overload relay
     inrush: Inrush | None = None  # an inrush load: its first peak and duration
 
@@ -109,6 +118,7 @@ class Circuit:
         if isinstance(self.rcd, Mapping) and not isinstance(self.rcd, MappingProxyType):
             object.__setattr__(self, "rcd", MappingProxyType(dict(self.rcd)))
         object.__setattr__(self, "tested_limits_a", MappingProxyType(dict(self.tested_limits_a)))
+        object.__setattr__(self, "backup_a", MappingProxyType(dict(self.backup_a)))
 
 
 @dataclass(frozen=True)
@@ -122,6 +132,14 @@ class Study:
     margin: float = 1.0  # default time margin factor: D's t_max * margin must stay below U's t_min
     interval_s: float = 0.0  # default coordination time interval over adjustable breakers [s]
     source: str | None = None  # path of the study file, when loaded from one
+    title_block: tuple[tuple[str, str], ...] = ()  # (key, text) of the [study] title-block keys
+    # given (client, project, reference, revision, designer, checker, date), in that order
+    rules: str = "iec"  # the rule set of the protection checks: "iec" or "bs7671"
+
+    @cached_property
+    def rule_set(self) -> national.RuleSet:
+        """The rule set of the protection checks (:mod:`coordination.rules`)."""
+        return national.rule_set(self.rules)
 
     # -- navigation (computed once, iteratively: deep trees never recurse) ----------------------
     @cached_property

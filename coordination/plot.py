@@ -24,8 +24,9 @@ canvas: no window, no pyplot state, safe in a server and in a notebook.
 Every artist that stands for something carries a ``gid`` so that tests and callers can find it:
 ``band:<id>``, ``edge:<id>``, ``tag:<id>`` (the band's label), ``zone:<upstream>><downstream>``,
 ``zone-mark:<upstream>><downstream>`` (a small zone's box and strip),
-``limit:<upstream>><downstream>``, ``marker:max-fault``, ``marker:min-earth-fault``,
-``marker:load``, ``withstand:line``, ``withstand:cpc``.
+``limit:<upstream>><downstream>`` (Is, the upstream named), ``marker:max-fault``,
+``marker:min-earth-fault``, ``marker:load``, ``withstand:line``, ``withstand:cpc``, and those of
+:mod:`coordination.plot_marks` (the 10 ms line, tested limits, the disconnection check's point).
 """
 
 from __future__ import annotations
@@ -40,12 +41,14 @@ from typing import TYPE_CHECKING, Any, NamedTuple
 import numpy as np
 
 from coordination import checks, engine
+from coordination.checks import CheckResult
 from coordination.devices import band_for
 from coordination.engine import Analysis, PairResult
 from coordination.faults import FaultLevels, NodeFaults
 from coordination.io import atomic_path
 from coordination.model import Cable, Study
 from coordination.motors import StartProfile
+from coordination.plot_marks import TIME_LABEL, current_text
 from coordination.text import format_current, format_seconds, positive_or_none
 from curves.band import TIME_CEILING_S, TIME_FLOOR_S, Band
 from curves.errors import InputError
@@ -362,7 +365,8 @@ def _literal_text(draw: Any) -> Any:
 @_literal_text
 def plot_circuit(study: Study, levels: FaultLevels, analysis: Analysis, circuit_id: str, *,
                  basis: str | None = None, ax: Axes | None = None,
-                 title: str | None = None) -> Figure:
+                 title: str | None = None,
+                 results: Sequence[CheckResult] | None = None) -> Figure:
     """Time-current plot of a circuit's device and every device above it.
 
     Parameters
@@ -383,6 +387,10 @@ def plot_circuit(study: Study, levels: FaultLevels, analysis: Analysis, circuit_
         on their figure before calling: labels are laid out for their size.
     title : str, optional
         Axes title; by default the study title and the circuit.
+    results : sequence of CheckResult, optional
+        The study's protection checks (:func:`coordination.checks.run`): the disconnection
+        check's operating point is marked on the minimum earth-fault line. By default the
+        circuit's checks are run here.
 
     Returns
     -------
@@ -439,6 +447,8 @@ def plot_circuit(study: Study, levels: FaultLevels, analysis: Analysis, circuit_
     limits = _draw_zones(ax, layout, key, study, levels, analysis, chain, drawn, bands, basis)
     _draw_markers(ax, layout, key, study.board_name(circuit_id),
                   levels.by_circuit.get(circuit_id), circuit.load_a)
+    _draw_reading_marks(ax, layout, key, study, levels, analysis, circuit_id, drawn, i_min,
+                        results)
     if circuit.cable is not None:
         _draw_withstand(ax, layout, key, circuit.cable)
     start = checks.start_profile(study, circuit_id)
@@ -550,7 +560,7 @@ def _draw_zones(ax: Axes, layout: _Layout, key: list[tuple[Any, str]], study: St
         polys = _geometry_polygons(engine.overlap(study, levels, pair, basis))
         limit = positive_or_none(pair.limit_a)
         if polys:
-            where = f", Is {format_current(limit)}" if limit is not None else ""
+            where = f", Is {current_text(limit)}" if limit is not None else ""
             hatch = ZONE_HATCHES[zones % len(ZONE_HATCHES)]
             label = (f"crossover, both may operate: {pair.upstream} over {pair.downstream}"
                      f"{where}")
@@ -592,7 +602,7 @@ def _draw_markers(ax: Axes, layout: _Layout, key: list[tuple[Any, str]], board: 
     for name, current, text in markers:
         if current is None:
             continue
-        label = text.format(board=board, i=format_current(current))
+        label = text.format(board=board, i=current_text(current))
         line = ax.axvline(current, zorder=5, gid=f"marker:{name}", label=label,
                           **MARKER_STYLE[name])
         key.append((line, label))
@@ -648,6 +658,34 @@ def _draw_start(ax: Axes, layout: _Layout, key: list[tuple[Any, str]],
     layout.lines.append(LineString(_points(ax, i, t)))
 
 
+def _draw_reading_marks(ax: Axes, layout: _Layout, key: list[tuple[Any, str]], study: Study,
+                        levels: FaultLevels, analysis: Analysis, circuit_id: str,
+                        drawn: Sequence[tuple[str, str, int]], i_min: float,
+                        results: Sequence[CheckResult] | None) -> None:
+    """The 10 ms line of the energy region, the tested limits of the pairs drawn and the
+    disconnection check's operating point (:mod:`coordination.plot_marks`)."""
+    from shapely.geometry import LineString
+
+    from coordination import plot_marks
+
+    plot_marks.draw_energy_region(ax, i_min)
+    shown = {cid for cid, _, _ in drawn}
+    pairs = [p for p in pairs_in_chain(analysis, _chain(study, circuit_id))
+             if p.upstream in shown and p.downstream in shown]
+    for current in plot_marks.draw_tested_limits(ax, key, pairs):
+        layout.lines.append(LineString(_points(ax, [current, current],
+                                               [TIME_FLOOR_S, TIME_CEILING_S])))
+    if results is None and circuit_id in levels.by_circuit:
+        results = checks.check_device(study, levels, circuit_id,
+                                      band_for(study, circuit_id, "envelope"))
+    own = next((r for r in results or () if r.circuit == circuit_id
+                and r.check == "disconnection"), None)
+    point = plot_marks.draw_disconnection_point(ax, key, own)
+    if point is not None:
+        layout.lines.append(LineString(_points(ax, [point[0] * 0.97, point[0] * 1.03],
+                                               [point[1], point[1]])))
+
+
 def _dress_axes(ax: Axes, i_min: float, i_max: float, title: str) -> None:
     """Ticks and grid at every decade, the minor grid, the axis labels and the title."""
     from matplotlib.ticker import FuncFormatter, LogLocator, NullLocator
@@ -664,7 +702,7 @@ def _dress_axes(ax: Axes, i_min: float, i_max: float, title: str) -> None:
     ax.add_collection(_minor_grid(i_min, i_max, TIME_FLOOR_S, TIME_CEILING_S))
     ax.tick_params(labelsize=8)
     ax.set_xlabel("prospective current [A]", fontsize=9)
-    ax.set_ylabel("time [s]", fontsize=9)
+    ax.set_ylabel(TIME_LABEL, fontsize=9)
     ax.set_title(title, fontsize=10, y=1.01)  # a fixed position: no layout pass over the ticks
 
 
@@ -721,7 +759,7 @@ def _place_limits(ax: Axes, layout: _Layout, limits: Sequence[_Limit]) -> None:
     from shapely.geometry import LineString
 
     for name, limit, t_at in limits:
-        text = f"Is {format_current(limit)}"
+        text = f"{name.split('>', 1)[0]}: Is {current_text(limit)}"  # the upstream named
         anchor = _points(ax, [limit], [t_at])[0]
         candidates = []
         for dx, dy in LIMIT_OFFSETS:

@@ -9,15 +9,17 @@ recursion. The keys, their bounds and the checks across keys and circuits are in
 
 Keys (units in every name that carries a number)::
 
-    [study]       title, basis, margin, interval_s
+    [study]       title, basis, margin, interval_s, rules; the title block: client, project,
+                  reference, revision, designer, checker, date
     [supply]      u0_v, phases, earthing, pfc_a, pfc_ln_a, ze_ohm, x_r, c_max, c_min, ra_ohm
-    [supply.transformer]  rating_kva, impedance_pct, x_r, upstream_pfc_a, upstream_x_r
+    [supply.transformer]  rating_kva, impedance_pct, x_r, upstream_pfc_a, upstream_x_r, u_lv_v
     [[circuit]]   id, from, device, load_a, phases, basis, final, board, selective_to_a,
                   tested_limits_a, breaking_capacity_a, margin, interval_s, rcd, sockets,
-                  leakage_ma, motor, inrush
+                  leakage_ma, ring, backup_a, conditional_a, motor, inrush
     [circuit.rcd]  idn_ma, selective, waveform, delay_s
     [circuit.cable]  length_m, csa_mm2, cpc_mm2, material, insulation, iz_a, parallel,
-                  cpc_parallel, neutral_mm2, x_ohm_per_m, cpc_material
+                  cpc_parallel, neutral_mm2, x_ohm_per_m, cpc_material, cpc_separate,
+                  cpc_armour, armour_mm2, armour_ohm_per_m
     [circuit.motor]  flc_a, start_x, start_s, starting, relay_class, relay_ir_a
     [circuit.inrush] x, s     (both read by coordination.motors)
 """
@@ -25,6 +27,7 @@ Keys (units in every name that carries a number)::
 
 from __future__ import annotations
 
+import datetime as dt
 import os
 import stat
 from collections.abc import Callable, Mapping
@@ -33,7 +36,7 @@ from typing import Any
 
 import rtoml
 
-from coordination import cables
+from coordination import cables, rules
 from coordination.model import SUPPLY_ID, Cable, Circuit, Study, Supply, Transformer
 from coordination.motors import Inrush, Motor, inrush_from_table, motor_from_table
 from coordination.residual import RCD_KEYS
@@ -54,6 +57,8 @@ from coordination.study_rules import (
     STUDY_KEYS,
     SUPPLY_KEYS,
     TABLES,
+    TITLE_BLOCK_CHARS,
+    TITLE_BLOCK_KEYS,
     TOP_KEYS,
     TRANSFORMER_KEYS,
     ZE_PFC_TOLERANCE,
@@ -61,6 +66,7 @@ from coordination.study_rules import (
     check_boards,
     check_devices,
     check_feeds,
+    check_rated_voltage,
     check_rccbs,
     check_source,
     describe,
@@ -87,6 +93,8 @@ __all__ = [
     "STUDY_KEYS",
     "SUPPLY_KEYS",
     "TABLES",
+    "TITLE_BLOCK_CHARS",
+    "TITLE_BLOCK_KEYS",
     "TOP_KEYS",
     "TRANSFORMER_KEYS",
     "ZE_PFC_TOLERANCE",
@@ -104,12 +112,35 @@ def _study_table(data: Any, source: str | None) -> dict[str, Any]:
         title = Path(source).stem if source else "untitled study"
     return {
         "title": title,
+        "title_block": _title_block(t),
         "basis": t.choice("basis", BASES, default="typical"),
         "margin": t.number("margin", unit="(factor)", lo=1.0, hi=10.0, lo_open=False,
                            default=1.0),
         "interval_s": t.number("interval_s", unit="s", lo=0.0, hi=10.0, lo_open=False,
                                default=0.0),
+        "rules": t.choice("rules", tuple(rules.RULE_SETS), default=rules.DEFAULT),
     }
+
+
+def _title_block(t: Table) -> tuple[tuple[str, str], ...]:
+    """The title-block keys given, in :data:`TITLE_BLOCK_KEYS` order: one line of text each
+    (``date`` may also be a TOML date), at most :data:`TITLE_BLOCK_CHARS` characters."""
+    fields = []
+    for key in TITLE_BLOCK_KEYS:
+        value = t.data.get(key)
+        if key == "date" and isinstance(value, dt.date | dt.datetime):
+            fields.append((key, value.isoformat()))
+            continue
+        text = t.text(key, what="a line of text" + (" or a TOML date" if key == "date" else ""))
+        if text is None:
+            continue
+        if "\n" in text or "\r" in text or len(text) > TITLE_BLOCK_CHARS:
+            raise t.error(key, f"{key} must be one line of at most {TITLE_BLOCK_CHARS} "
+                               f"characters (it fills a box of the title block), not "
+                               f"{len(text)} characters" + (" on several lines"
+                                                            if "\n" in text else ""))
+        fields.append((key, text.strip()))
+    return tuple(fields)
 
 
 def _transformer(data: Any) -> Transformer:
@@ -123,6 +154,7 @@ def _transformer(data: Any) -> Transformer:
                                 lo=0.0, hi=MAX_CURRENT_A),
         upstream_x_r=t.number("upstream_x_r", unit="", lo=0.0, hi=MAX_X_R, lo_open=False,
                               default=10.0),
+        u_lv_v=t.number("u_lv_v", unit="V", lo=0.0, hi=1e6),  # bounded by U0 in _supply
     )
 
 
@@ -163,6 +195,8 @@ def _supply(data: Any) -> Supply:
                          "earthing = \"TT\", or leave ra_ohm out", key="supply.ra_ohm")
     u0_v = t.number("u0_v", unit="V", lo=50.0, hi=1000.0, default=230.0)
     check_source(u0_v, pfc_a, pfc_ln_a, ze_ohm, earthing)
+    if transformer is not None:
+        check_rated_voltage(transformer.u_lv_v, u0_v)
     return Supply(
         u0_v=u0_v,
         phases=phases,
@@ -234,7 +268,55 @@ def _validated_cable(data: Any, circuit: str) -> Cable:
         x_ohm_per_m=t.number("x_ohm_per_m", unit="ohm/m", lo=0.0, hi=0.01, lo_open=False),
         cpc_material=cpc_material,
         cpc_parallel=t.integer("cpc_parallel", lo=1, hi=MAX_PARALLEL),
+        **_protective_conductor(t),
     )
+
+
+def _protective_conductor(t: Table) -> dict[str, Any]:
+    """The cable's keys of a separate protective conductor or of armour used as one."""
+    separate = bool(t.boolean("cpc_separate"))
+    armour = bool(t.boolean("cpc_armour"))
+    armour_mm2 = t.number("armour_mm2", unit="mm2", lo=0.0, hi=5000.0)
+    armour_ohm = t.number("armour_ohm_per_m", unit="ohm/m", lo=0.0, hi=1.0)
+    if armour:
+        clash = [k for k in ("cpc_mm2", "cpc_material", "cpc_parallel", "cpc_separate")
+                 if t.has(k)]
+        if clash:
+            raise t.error(clash[0], f"{clash[0]} describes a protective conductor of copper or "
+                                    "aluminium; with cpc_armour = true the armour is the "
+                                    "protective conductor; allowed: armour_mm2 and "
+                                    "armour_ohm_per_m")
+        if armour_mm2 is None:
+            raise t.error("armour_mm2", "cpc_armour = true needs armour_mm2, the cross-section "
+                                        "of the armour [mm2] (its k, and its resistance unless "
+                                        "armour_ohm_per_m is given)")
+    elif armour_mm2 is not None or armour_ohm is not None:
+        key = "armour_mm2" if armour_mm2 is not None else "armour_ohm_per_m"
+        raise t.error(key, f"{key} describes the armour as the protective conductor; allowed "
+                           "only with cpc_armour = true")
+    return {"cpc_separate": separate, "cpc_armour": armour, "armour_mm2": armour_mm2,
+            "armour_ohm_per_m": armour_ohm}
+
+
+def _ring(t: Table, raw: Mapping[str, Any]) -> bool:
+    ring = bool(t.boolean("ring"))
+    if ring and not isinstance(raw.get("cable"), Mapping):
+        raise t.error("ring", "ring = true needs the ring's cable: a [circuit.cable] table with "
+                              "length_m the ring's whole route length")
+    return ring
+
+
+def _upstream_currents(t: Table, raw: Mapping[str, Any], key: str,
+                       what: str) -> dict[str, float]:
+    """A table of upstream circuit id = current [A] (``tested_limits_a``, ``backup_a``)."""
+    if not t.has(key):
+        return {}
+    given = raw[key]
+    if not isinstance(given, Mapping):
+        raise t.error(key, f"{key} must be a table of upstream circuit id = {what} [A], not "
+                           f"{describe(given)}")
+    table = Table(given, tuple(str(k) for k in given), circuit=t.circuit, prefix=f"{key}.")
+    return {str(up): table.number(str(up), unit="A", lo=0.0, hi=MAX_CURRENT_A) for up in given}
 
 
 def _circuit_id(raw: Any, number: int) -> str:
@@ -289,15 +371,7 @@ def _circuit_fields(raw: Mapping[str, Any], cid: str) -> dict[str, Any]:
     else:
         raise t.error("device", f"device must be a shorthand text such as 'B32' or an inline "
                                 f"table, not {describe(device)}")
-    limits: dict[str, float] = {}
-    if t.has("tested_limits_a"):
-        given = raw["tested_limits_a"]
-        if not isinstance(given, Mapping):
-            raise t.error("tested_limits_a", "tested_limits_a must be a table of upstream "
-                          f"circuit id = current [A], not {describe(given)}")
-        lt = Table(given, tuple(str(k) for k in given), circuit=cid, prefix="tested_limits_a.")
-        for up in given:
-            limits[str(up)] = lt.number(str(up), unit="A", lo=0.0, hi=MAX_CURRENT_A)
+    limits = _upstream_currents(t, raw, "tested_limits_a", "selectivity limit")
     motor: Motor | None = _load_table(raw, cid, "motor", motor_from_table)
     inrush: Inrush | None = _load_table(raw, cid, "inrush", inrush_from_table)
     load = t.number("load_a", unit="A", lo=0.0, hi=MAX_CURRENT_A)
@@ -328,6 +402,9 @@ def _circuit_fields(raw: Mapping[str, Any], cid: str) -> dict[str, Any]:
         "rcd": _rcd_table(t, raw),
         "sockets": bool(t.boolean("sockets")),
         "leakage_ma": t.number("leakage_ma", unit="mA", lo=0.0, hi=100000.0, lo_open=False),
+        "ring": _ring(t, raw),
+        "backup_a": _upstream_currents(t, raw, "backup_a", "back-up current"),
+        "conditional_a": t.number("conditional_a", unit="A", lo=0.0, hi=MAX_CURRENT_A),
     }
 
 
@@ -421,6 +498,8 @@ def from_dict(data: Any, source: str | None = None) -> Study:
         margin=study_fields["margin"],
         interval_s=study_fields["interval_s"],
         source=source,
+        title_block=study_fields["title_block"],
+        rules=study_fields["rules"],
     )
     check_devices(study)
     return study

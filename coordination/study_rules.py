@@ -21,15 +21,22 @@ from coordination.model import SUPPLY_ID, Cable, Study
 from curves.errors import InputError
 
 TOP_KEYS = ("study", "supply", "circuit")
-STUDY_KEYS = ("title", "basis", "margin", "interval_s")
+#: The title block's fields, in the order the cover, the footers and the diagram show them.
+TITLE_BLOCK_KEYS = ("client", "project", "reference", "revision", "designer", "checker", "date")
+#: The longest a title-block field may be [characters]: it must fit its box.
+TITLE_BLOCK_CHARS = 80
+STUDY_KEYS = ("title", "basis", "margin", "interval_s", "rules", *TITLE_BLOCK_KEYS)
 SUPPLY_KEYS = ("u0_v", "phases", "earthing", "pfc_a", "pfc_ln_a", "ze_ohm", "x_r", "c_max",
                "c_min", "transformer", "ra_ohm")
-TRANSFORMER_KEYS = ("rating_kva", "impedance_pct", "x_r", "upstream_pfc_a", "upstream_x_r")
+TRANSFORMER_KEYS = ("rating_kva", "impedance_pct", "x_r", "upstream_pfc_a", "upstream_x_r",
+                    "u_lv_v")
 CIRCUIT_KEYS = ("id", "from", "device", "load_a", "phases", "basis", "final", "board",
                 "selective_to_a", "tested_limits_a", "breaking_capacity_a", "margin",
-                "interval_s", "cable", "rcd", "sockets", "leakage_ma", "motor", "inrush")
+                "interval_s", "cable", "rcd", "sockets", "leakage_ma", "ring", "backup_a",
+                "conditional_a", "motor", "inrush")
 CABLE_KEYS = ("length_m", "csa_mm2", "cpc_mm2", "material", "insulation", "iz_a", "parallel",
-              "cpc_parallel", "neutral_mm2", "x_ohm_per_m", "cpc_material")
+              "cpc_parallel", "neutral_mm2", "x_ohm_per_m", "cpc_material", "cpc_separate",
+              "cpc_armour", "armour_mm2", "armour_ohm_per_m")
 
 #: Earthing systems (IEC 60364-1 clause 312.2). IT is not covered (a second-fault study).
 EARTHING_SYSTEMS = ("TN-S", "TN-C-S", "TN-C", "TT")
@@ -56,6 +63,10 @@ MIN_FAULT_A = 10.0
 #: several dozen times the impedance of the line loop; a thousand times is no supply).
 ZE_PFC_TOLERANCE = 2.0
 PFC_ZE_TOLERANCE = 1000.0
+#: A transformer's rated low-voltage U_rT may lie this far from the system's nominal sqrt(3) U0
+#: (our choice: 400, 410, 415, 420 and 433 V transformers on 230/400 V systems pass; a value
+#: outside is a slip, such as the high-voltage side's rating or U0 itself).
+U_LV_RANGE = (0.9, 1.2)
 
 
 # ---------------------------------------------------------------------------------------------
@@ -377,6 +388,34 @@ def check_source(u0_v: float, pfc_a: float | None, pfc_ln_a: float | None,
                          key="supply.pfc_a")
 
 
+def check_rated_voltage(u_lv_v: float | None, u0_v: float) -> None:
+    """Refuse a transformer's rated low-voltage U_rT far from the system's sqrt(3) U0.
+
+    Raises
+    ------
+    InputError
+        When ``u_lv_v`` lies outside :data:`U_LV_RANGE` times sqrt(3) U0.
+
+    References
+    ----------
+    IEC 60909-0:2016, 6.3 (U_rT, the rated voltage on the side the fault is on); the range is
+    our choice.
+
+    Examples
+    --------
+    >>> check_rated_voltage(420.0, 230.0)
+    """
+    if u_lv_v is None:
+        return
+    nominal = math.sqrt(3.0) * u0_v
+    lo, hi = (f * nominal for f in U_LV_RANGE)
+    if not lo <= u_lv_v <= hi:
+        raise InputError(f"u_lv_v = {_g(u_lv_v)} V is not a low-voltage rating for U0 "
+                         f"{_g(u0_v)} V (line to line {nominal:.0f} V); allowed: {lo:.0f} to "
+                         f"{hi:.0f} V, the transformer's rated voltage on its low-voltage side",
+                         key="supply.transformer.u_lv_v")
+
+
 # ---------------------------------------------------------------------------------------------
 # the tree of circuits and their devices
 def parents_first(fields: dict[str, dict[str, Any]]) -> list[str]:
@@ -431,6 +470,10 @@ def check_boards(fields: Mapping[str, dict[str, Any]], order: Sequence[str]) -> 
                              "a final circuit feeds no board; allowed: final = false (or "
                              "leave it out) on a circuit that feeds others",
                              circuit=parent, key="final")
+        if parent != SUPPLY_ID and fields[parent].get("ring"):
+            raise InputError(f"circuit {parent!r} is a ring final circuit (ring = true) but "
+                             f"feeds {cid!r}; a ring feeds no board; allowed: ring = true only "
+                             "on a circuit that feeds no other", circuit=parent, key="ring")
         if parent == SUPPLY_ID or parent in feeders:
             continue
         feeders.add(parent)
@@ -442,6 +485,12 @@ def check_boards(fields: Mapping[str, dict[str, Any]], order: Sequence[str]) -> 
                              f"{name!r}; every board needs its own name (key 'board', else the "
                              "feeder's id)", circuit=parent, key="board")
         named[name] = parent
+    for cid in order:
+        if fields[cid].get("conditional_a") is not None and cid not in feeders:
+            raise InputError("conditional_a is the rating of the board this circuit feeds, and "
+                             f"{cid!r} feeds no circuit; allowed: conditional_a on a circuit "
+                             "that feeds a board (or backup_a on the circuit backed up)",
+                             circuit=cid, key="conditional_a")
 
 
 def check_feeds(fields: Mapping[str, dict[str, Any]], order: Sequence[str],
@@ -476,21 +525,28 @@ def check_feeds(fields: Mapping[str, dict[str, Any]], order: Sequence[str],
                              "neutral) is allowed for three-phase circuits only",
                              circuit=cid, key="cable.neutral_mm2")
         neutral[cid] = cid if lacks else neutral[parent]
-        for up in f["tested_limits_a"]:
-            chain: list[str] = []
-            node = parent
-            while node != SUPPLY_ID and node != up:
-                chain.append(node)
-                node = fields[node]["parent"]
-            if node != up or up == SUPPLY_ID:  # the supply has no device to be selective
-                near = difflib.get_close_matches(up, chain, n=1, cutoff=0.6)
-                hint = f" (did you mean {near[0]!r}?)" if near else ""
-                shown = ", ".join(repr(c) for c in chain[:8]) + (", ..." if len(chain) > 8
-                                                                 else "")
-                raise InputError(f"{up!r} is not a circuit above {cid!r}{hint}; a tested limit "
-                                 "names an upstream circuit; allowed: "
-                                 f"{shown or 'none (the circuit is fed from the supply)'}",
-                                 circuit=cid, key=f"tested_limits_a.{up}")
+        for key, what in (("tested_limits_a", "a tested limit"),
+                          ("backup_a", "a back-up declaration")):
+            for up in f.get(key) or ():
+                _check_above(fields, cid, parent, up, key, what)
+
+
+def _check_above(fields: Mapping[str, dict[str, Any]], cid: str, parent: str, up: str,
+                 key: str, what: str) -> None:
+    """Refuse an upstream id (of ``tested_limits_a``, ``backup_a``) that is not above ``cid``."""
+    chain: list[str] = []
+    node = parent
+    while node != SUPPLY_ID and node != up:
+        chain.append(node)
+        node = fields[node]["parent"]
+    if node != up or up == SUPPLY_ID:  # the supply has no device
+        near = difflib.get_close_matches(up, chain, n=1, cutoff=0.6)
+        hint = f" (did you mean {near[0]!r}?)" if near else ""
+        shown = ", ".join(repr(c) for c in chain[:8]) + (", ..." if len(chain) > 8 else "")
+        raise InputError(f"{up!r} is not a circuit above {cid!r}{hint}; {what} names an "
+                         "upstream circuit; allowed: "
+                         f"{shown or 'none (the circuit is fed from the supply)'}",
+                         circuit=cid, key=f"{key}.{up}")
 
 
 def check_devices(study: Study) -> None:

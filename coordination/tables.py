@@ -17,7 +17,13 @@ from collections.abc import Iterable, Sequence
 from typing import TYPE_CHECKING, Any
 
 from coordination.model import Study
-from coordination.text import format_current, format_seconds, significant, table
+from coordination.text import (
+    TERMINAL_COLUMNS,
+    format_current,
+    format_seconds,
+    significant,
+    table,
+)
 
 if TYPE_CHECKING:
     from coordination.checks import CheckResult
@@ -59,9 +65,11 @@ def fault_table(study: Study, levels: FaultLevels) -> str:
     ]
     head += textwrap.wrap("source: " + levels.source, 100, subsequent_indent="  ")
     rows = []
+    rings = {c.id for c in study.circuits if c.ring}
     for node in levels.nodes:
         rows.append([
-            node.circuit, node.board, str(node.phases), _ka(node.ik3_max_a),
+            node.circuit + (" (ring)" if node.circuit in rings else ""), node.board,
+            str(node.phases), _ka(node.ik3_max_a),
             _ka(node.ik1_max_a), _ka(node.ik_max_a), _ohm(node.zs_ohm), _ka(node.ief_min_a),
             _ka(node.ik_min_end_a) + ("" if node.ik_min_end_kind == "line-neutral" else " LL"),
         ])
@@ -75,6 +83,11 @@ def fault_table(study: Study, levels: FaultLevels) -> str:
         "line-neutral (Ik1) currents and the window's end; at its far end the earth-fault loop "
         "Zs, the minimum earth-fault current Ief and the minimum short-circuit current Ik min "
         "(LL: line-line, the cable has no neutral).", 100, subsequent_indent="  ")
+    if rings:
+        foot += textwrap.wrap(
+            "(ring): a ring final circuit; its far end is the ring's mid-point, where R1 + R2 "
+            "is a quarter of the end-to-end (r1 + r2) (common practice).", 100,
+            subsequent_indent="  ")
     return "\n".join([*head, "", body, "", *foot])
 
 
@@ -90,12 +103,28 @@ def _pair_ka(value: float | None) -> str:
     return f"{value / 1000:.3g}"
 
 
-def pair_table(study: Study, levels: Any, analysis: Analysis) -> str:
+def _window(window_a: tuple[float, float]) -> str:
+    lo, hi = (float(significant(v, 3)) if math.isfinite(v) else v for v in window_a)
+    return f"{format_current(lo)}-{format_current(hi)}"
+
+
+def pair_table(study: Study, levels: Any, analysis: Analysis, *, unmet_only: bool = False,
+               width: int | None = TERMINAL_COLUMNS) -> str:
     """The pairs grouped by the board the downstream device sits on, and a summary line.
 
-    Columns: circuit, device, above (the upstream circuit and device), verdict, Is [kA], window
-    (A or kA), decided by, band bases (downstream/upstream), required [kA], ok. Devices are in
-    their compact form (an adjustable breaker's kind, rating and Ir; the JSON has the rest).
+    Columns: circuit, device, above (the upstream circuit and device), verdict, Is [kA],
+    required [kA], ok, decided by, window (A or kA). Each board's heading gives its largest
+    fault and the band bases (downstream/upstream) when every pair there shares them, else a
+    column does. Devices are in their compact form (an adjustable breaker's kind, rating and
+    Ir; the JSON has the rest).
+
+    Parameters
+    ----------
+    unmet_only : bool
+        Only the pairs below their required selectivity (the summary ``check`` prints).
+    width : int or None
+        The widest line: the above cells wrap inside their column to fit, between words, never
+        a number (``None``: no limit).
 
     Examples
     --------
@@ -126,33 +155,39 @@ def pair_table(study: Study, levels: Any, analysis: Analysis) -> str:
     label = compact_labels(study, analysis.basis, band_of=engine.band_for)
     groups: dict[str, list[PairResult]] = {}
     for p in analysis.pairs:
+        if unmet_only and p.ok:
+            continue
         groups.setdefault(study.board_name(p.downstream), []).append(p)
-    headers = ["circuit", "device", "above", "verdict", "Is kA", "window", "decided by",
-               "bases", "required kA", "ok"]
     blocks = []
     for board, pairs in groups.items():
+        bases = {(p.downstream_basis, p.upstream_basis) for p in pairs}
+        one_basis = len(bases) == 1
+        headers = ["circuit", "device", "above", "verdict", "Is kA", "required kA", "ok",
+                   "decided by", "window"] + ([] if one_basis else ["bases"])
         rows = []
         previous = None
         for p in pairs:
-            bases = (f"{_BASIS_SHORT.get(p.downstream_basis, p.downstream_basis)}/"
-                     f"{_BASIS_SHORT.get(p.upstream_basis, p.upstream_basis)}")
             first = p.downstream != previous
             previous = p.downstream
-            rows.append([
+            row = [
                 p.downstream if first else "", label[p.downstream] if first else "",
                 f"{p.upstream} ({label[p.upstream]})" if p.upstream_count == 1 else
                 f"{p.upstream} to {p.upstream_last} ({p.upstream_count} x {label[p.upstream]})",
                 _VERDICT_TEXT[p.verdict], _pair_ka(p.limit_a) if p.verdict != "total" else "-",
-                f"{format_current(p.window_a[0])} - {format_current(p.window_a[1])}",
-                p.decided_by, bases,
                 "total" if p.required_a is None else _pair_ka(p.required_a),
-                "yes" if p.ok else "NO",
-            ])
-        top = pairs[0].window_a[1] if pairs else float("nan")
-        blocks.append(f"board {board} (max fault {_pair_ka(top)} kA)\n"
-                      + table(headers, rows, "lllllrlllr"))
-    if analysis.residual:
-        blocks.append(residual_pair_table(analysis.residual))
+                "yes" if p.ok else "NO", p.decided_by, _window(p.window_a),
+            ]
+            if not one_basis:
+                row.append(_bases(p.downstream_basis, p.upstream_basis))
+            rows.append(row)
+        top = pairs[0].window_a[1]
+        shared = f", bands {_bases(*next(iter(bases)))}" if one_basis else ""
+        blocks.append(f"board {board} (max fault {_pair_ka(top)} kA{shared})\n"
+                      + table(headers, rows, "llllrrrll" + "l" * (not one_basis),
+                              width=width, wrap=2))
+    residual = [p for p in analysis.residual if not (unmet_only and p.ok)]
+    if residual:
+        blocks.append(residual_pair_table(residual, width=width))
     s = analysis.summary()
     if not analysis.all_pairs:
         blocks.append("no upstream/downstream pairs (a single level of devices)")
@@ -162,11 +197,19 @@ def pair_table(study: Study, levels: Any, analysis: Analysis) -> str:
     return "\n\n".join(blocks)
 
 
+def _bases(downstream: str, upstream: str) -> str:
+    """The band bases of a pair: one word when alike, else downstream/upstream (short)."""
+    if downstream == upstream:
+        return downstream
+    return f"{_BASIS_SHORT.get(downstream, downstream)}/{_BASIS_SHORT.get(upstream, upstream)}"
+
+
 def _ma(i_a: float) -> str:
     return f"{i_a * 1000:.4g} mA" if i_a < 1.0 else format_current(i_a)
 
 
-def residual_pair_table(pairs: Sequence[PairResult]) -> str:
+def residual_pair_table(pairs: Sequence[PairResult],
+                        width: int | None = TERMINAL_COLUMNS) -> str:
     """The pairs of RCDs in series: one row each, and the note of each pair decided by the
     rule (the range of residual current the limit values leave unproven).
 
@@ -190,8 +233,11 @@ def residual_pair_table(pairs: Sequence[PairResult]) -> str:
         if p.decided_by == "rule":
             notes.setdefault(p.note, []).append(f"{p.upstream} over {p.downstream}")
     lines = ["residual-current selectivity (RCDs in series; residual current on the window)",
-             table(headers, rows, "llllllr")]
-    lines += [f"  {', '.join(names)}: {note}" for note, names in notes.items()]
+             table(headers, rows, "llllllr", width=width, wrap=2)]
+    for note, names in notes.items():  # each note wrapped to the width, indented
+        lines += textwrap.wrap(f"{', '.join(names)}: {note}", width or 10_000,
+                               initial_indent="  ", subsequent_indent="    ",
+                               break_on_hyphens=False)
     return "\n".join(lines)
 
 
@@ -212,19 +258,113 @@ def _value_text(value: float, unit: str) -> str:
     return f"{value:.3g} {unit}"
 
 
-def check_table(results: Sequence[CheckResult] | Iterable[CheckResult]) -> str:
+#: A check that passes with less than this share of its limit to spare is "near limit".
+NEAR_LIMIT = 0.05
+#: Checks with no margin to tell: a rated sensitivity against the 30 mA the standard names
+#: (additional protection) is met or not, and a 30 mA RCD is the usual choice, not a near miss.
+NO_MARGIN = ("additional-protection",)
+
+
+def check_margin(result: CheckResult) -> float | None:
+    """The share of the limit a check has to spare: ``1 - value / limit`` (negative: over it).
+
+    For ``disconnection`` it is the earth-fault loop's margin, ``1 - Zs / Zs max``, the figure
+    a designer reads beside the time; ``None`` where there is no finite figure to compare.
+
+    Examples
+    --------
+    >>> from coordination.checks import CheckResult
+    >>> r = CheckResult("c1", "overload", True, 33.0, 34.0, "A", "fine", "envelope")
+    >>> print(round(check_margin(r), 3))
+    0.029
+    """
+    if result.check in NO_MARGIN:
+        return None
+    value, limit = result.value, result.limit
+    loop = _loop(result)
+    if loop is not None:
+        value, limit = loop
+    if value is None or limit is None or not (math.isfinite(value) and math.isfinite(limit)):
+        return None
+    if limit <= 0:
+        return None
+    return 1.0 - value / limit
+
+
+def _loop(result: CheckResult) -> tuple[float, float] | None:
+    """Zs and the largest Zs for a disconnection the circuit's overcurrent device makes;
+    ``None`` for one an RCD makes (its time against the limit is the figure then)."""
+    if result.check != "disconnection" or result.details.get("rcd_device"):
+        return None
+    zs, zs_max = result.details.get("zs_ohm"), result.details.get("zs_max_ohm")
+    if zs is not None and zs_max and math.isfinite(zs) and math.isfinite(zs_max):
+        return zs, zs_max
+    return None
+
+
+def near_limit(result: CheckResult) -> bool:
+    """A check that passes within :data:`NEAR_LIMIT` (5 %) of its limit."""
+    margin = check_margin(result)
+    return bool(result.ok and margin is not None and margin < NEAR_LIMIT)
+
+
+def check_status(result: CheckResult) -> str:
+    """``"ok"``, ``"near limit"`` or ``"FAIL"``."""
+    if not result.ok:
+        return "FAIL"
+    return "near limit" if near_limit(result) else "ok"
+
+
+def check_cells(result: CheckResult) -> tuple[str, str]:
+    """The value and limit cells of a check, each naming what it is.
+
+    ``disconnection``: Zs against the largest Zs with which the device disconnects in time
+    (where an RCD disconnects, its time against the limit, marked RCD);
+    ``overload``: the comparison that binds (``"I2 46.4 A"`` against ``"1.45 Iz 59.5 A"``);
+    the others their value and limit in their unit.
+    """
+    from coordination.checks.common import ohm_text
+
+    details = result.details
+    loop = _loop(result)
+    if loop is not None:
+        return f"Zs {ohm_text(loop[0])}", f"max {ohm_text(loop[1])}"
+    if result.check == "disconnection" and details.get("rcd_device"):
+        return (f"RCD {_value_text(result.value, result.unit)}",
+                f"max {_value_text(result.limit, result.unit)}")
+    if result.check == "overload" and " <= " in str(details.get("binding", "")):
+        left, right = str(details["binding"]).split(" <= ", 1)
+        return (f"{left} {_value_text(result.value, result.unit)}",
+                f"{right} {_value_text(result.limit, result.unit)}")
+    return _value_text(result.value, result.unit), _value_text(result.limit, result.unit)
+
+
+def _margin_text(result: CheckResult) -> str:
+    margin = check_margin(result)
+    if margin is None:
+        return "-"
+    return f"{margin * 100:.1f} %" if abs(margin) < 0.1 else f"{margin * 100:.0f} %"
+
+
+def check_table(results: Sequence[CheckResult] | Iterable[CheckResult], *,
+                attention_only: bool = False, width: int | None = TERMINAL_COLUMNS) -> str:
     """The protection checks as a plain-text table, circuit by circuit, failures marked.
 
     Parameters
     ----------
     results : sequence of CheckResult
         From :func:`coordination.checks.run`.
+    attention_only : bool
+        Only the checks that fail or are near their limit (the summary ``check`` prints).
+    width : int or None
+        The widest line; each row's reason is set under it, wrapped to this width.
 
     Returns
     -------
     str
-        A heading, one row per check (``FAIL`` rows marked with ``!``), the checks that the
-        study gave no data for, and a summary line.
+        A heading, one row per check (result ``ok``, ``near limit`` within 5 % of the limit,
+        or ``FAIL``; value and limit naming what they are; the margin left) with its reason
+        under it, the checks that the study gave no data for, and a summary line.
 
     Examples
     --------
@@ -237,27 +377,33 @@ def check_table(results: Sequence[CheckResult] | Iterable[CheckResult]) -> str:
 
     results = list(results)
     heading = ("Protection checks (worst case a compliant device allows: envelope upper edge, "
-               "maximum let-through; starting on the selectivity basis; each passes when "
-               "value <= limit)")
+               "maximum let-through; each passes when value <= limit; near limit: within "
+               f"{NEAR_LIMIT:.0%} of it; disconnection compares the loop impedance Zs)")
     grouped: dict[str, list[CheckResult]] = defaultdict(list)
     for r in results:
         grouped[r.circuit].append(r)
-    order = list(grouped)
     rows = []
+    reasons = []
     missing = []
-    for cid in order:
-        mine = grouped[cid]
-        for i, r in enumerate(mine):
-            rows.append([cid if i == 0 else "", r.check, "ok" if r.ok else "! FAIL",
-                         _value_text(r.value, r.unit), _value_text(r.limit, r.unit), r.reason])
+    for cid, mine in grouped.items():
+        shown = [r for r in mine if not attention_only or not r.ok or near_limit(r)]
+        for i, r in enumerate(shown):
+            value, limit = check_cells(r)
+            rows.append([cid if i == 0 else "", r.check, check_status(r), value, limit,
+                         _margin_text(r)])
+            reasons.append(r.reason)
         present = {r.check for r in mine}
         absent = [c for c in CIRCUIT_CHECK_NAMES if c not in present]
         if absent:
             missing.append(f"{cid} ({', '.join(absent)})")
-    body = table(["circuit", "check", "result", "value", "limit", "why / what to do"], rows,
-                 "lllrrl") if rows else "(no circuits)"
+    if rows:
+        body = table(["circuit", "check", "result", "value", "limit", "margin"], rows, "lllrrr",
+                     width=width, under=reasons)
+    else:
+        body = "(none fails or is near its limit)" if attention_only else "(no circuits)"
     failed = [r for r in results if not r.ok]
-    n_circ = len(order)
+    near = sum(1 for r in results if near_limit(r))
+    n_circ = len(grouped)
     summary = (f"protection checks: {len(results)} run on {n_circ} "
                f"circuit{'s' if n_circ != 1 else ''}, ")
     if failed:
@@ -265,12 +411,68 @@ def check_table(results: Sequence[CheckResult] | Iterable[CheckResult]) -> str:
         summary += f"{len(failed)} FAIL: {names}"
     else:
         summary += "all pass"
-    lines = [heading, body]
+    if near:
+        summary += f"; {near} near limit"
+    lines = [*textwrap.wrap(heading, width or 10_000), body]
     if missing:
-        lines.append("not checked (the study gives no load_a / cable.iz_a or no cable): "
-                     + "; ".join(missing))
-    lines.append(summary)
+        lines.extend(textwrap.wrap(
+            "not checked (the study gives no load_a / cable.iz_a or no cable): "
+            + "; ".join(missing), width or 10_000, subsequent_indent="  "))
+    lines.extend(textwrap.wrap(summary, width or 10_000, subsequent_indent="  "))
     return "\n".join(lines)
+
+
+# ---------------------------------------------------------------------------------------------
+# what the check command prints
+def check_text(study: Study, levels: Any, analysis: Analysis, results: Sequence[CheckResult],
+               *, every_row: bool = False, study_path: str = "STUDY",
+               width: int | None = TERMINAL_COLUMNS) -> str:
+    """The ``check`` command's printout (the caution is the command's to add).
+
+    By default a summary: the counts, then only the pairs below their required selectivity and
+    the checks that fail or are near their limit, each with its reason; ``every_row`` prints
+    every pair and every check (``check --all``).
+
+    Examples
+    --------
+    >>> from coordination import checks, faults, study
+    >>> from coordination.engine import analyse
+    >>> s = study.from_dict({"supply": {"pfc_a": 6000, "ze_ohm": 0.35, "phases": 1},
+    ...                      "circuit": [{"id": "a", "from": "supply", "device": "B6",
+    ...                                   "phases": 1}]})
+    >>> levels = faults.compute(s)
+    >>> text = check_text(s, levels, analyse(s, levels), checks.run(s, levels))
+    >>> print(text.splitlines()[-1])
+    every pair and every check: coordination check STUDY --all
+    """
+    pairs = pair_table(study, levels, analysis, unmet_only=not every_row, width=width)
+    protection = check_table(results, attention_only=not every_row, width=width)
+    blocks = [f"{study.title}: selectivity of every pair, then the protection checks"]
+    if not every_row:
+        unmet = sum(1 for p in analysis.all_pairs if not p.ok)
+        blocks.append(f"Pairs below their required selectivity: {unmet}"
+                      + (" (none)" if not unmet else ""))
+    from coordination import rules
+
+    blocks += [pairs, protection]
+    blocks[-1] += "\n" + "\n".join(textwrap.wrap(f"rules: {rules.summary(study.rule_set)}",
+                                                  width or 10_000, subsequent_indent="  "))
+    uppers = sorted({p.upstream for p in analysis.pairs if not p.ok})
+    if uppers:
+        blocks.append("\n".join(textwrap.wrap(
+            "next: for a pair that falls short, choose a larger upstream device "
+            f"(coordination choose {study_path} --circuit {uppers[0]}), give the "
+            "manufacturer's tested limit (tested_limits_a), or state the selectivity the "
+            "circuit needs (selective_to_a).", width or 10_000, subsequent_indent="  ")))
+    if any(not p.ok for p in analysis.residual):
+        blocks.append("\n".join(textwrap.wrap(
+            "next: for RCDs in series that are not selective, make the upstream one type S "
+            "(selective = true) or delayed (delay_s), with an I\u0394n at least 3 times the "
+            "downstream one's (IEC 60364-5-53, from memory).", width or 10_000,
+            subsequent_indent="  ")))
+    if not every_row:
+        blocks.append(f"every pair and every check: coordination check {study_path} --all")
+    return "\n\n".join(blocks)
 
 
 # ---------------------------------------------------------------------------------------------

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import math
+import textwrap
 from collections.abc import Sequence
 from typing import Any
 
@@ -80,8 +81,48 @@ def format_current(i_a: float | None) -> str:
     return f"{significant(i_a / 1000, 3)} kA"
 
 
-def table(headers: Sequence[str], rows: Sequence[Sequence[str]], align: str | None = None) -> str:
+#: Terminal output fits this many columns: longer text wraps (under its row, or in its cell).
+TERMINAL_COLUMNS = 120
+
+
+def fit_lines(text: str, width: int = TERMINAL_COLUMNS) -> str:
+    """A sentence for the terminal: whole when it fits, else broken after its first ``; ``
+    (between clauses) and wrapped there.
+
+    Examples
+    --------
+    >>> print(fit_lines("Check the cable; a person decides.", 20))
+    Check the cable;
+    a person decides.
+    """
+    if len(text) <= width:
+        return text
+    head, sep, tail = text.partition("; ")
+    parts = [head + sep.rstrip(), tail] if sep else [text]
+    return "\n".join(line for part in parts if part for line in textwrap.wrap(part, width))
+
+
+def table(headers: Sequence[str], rows: Sequence[Sequence[str]], align: str | None = None, *,
+          width: int | None = None, wrap: int | Sequence[int] | None = None,
+          under: Sequence[str] | None = None) -> str:
     """A plain aligned table; ``align`` is one character per column, 'l' or 'r'.
+
+    Parameters
+    ----------
+    headers, rows : sequences of str
+        The header and one list of cells per row (every row a cell for every header).
+    align : str, optional
+        ``'l'`` or ``'r'`` per column (default: all left).
+    width : int, optional
+        The widest a line may be: when the table is wider, the ``wrap`` columns (text columns,
+        never a number) wrap inside their cells, each row then taking several lines.
+    wrap : int or sequence of int, optional
+        The columns that may wrap to fit ``width``, between words: the room left by the
+        others is shared out narrowest first, so a short column keeps its width, and a column
+        is never narrower than its longest word.
+    under : sequence of str, optional
+        Text set under each row, indented and wrapped to ``width`` (a reason, a note);
+        empty for none.
 
     Examples
     --------
@@ -90,13 +131,41 @@ def table(headers: Sequence[str], rows: Sequence[Sequence[str]], align: str | No
     -------  ----
     lights    6 A
     sockets  32 A
+    >>> print(table(["circuit", "above", "Is"], [["lights", "the incomer of the board", "6 A"]],
+    ...             "llr", width=26, wrap=1))
+    circuit  above          Is
+    -------  ------------  ---
+    lights   the incomer   6 A
+             of the board
     """
     align = align or "l" * len(headers)
     # strict: every row has a cell for every header
     widths = [max(map(len, column)) for column in zip(headers, *rows, strict=True)]
+    wrapping = (wrap,) if isinstance(wrap, int) else tuple(wrap or ())
+    if width is not None and wrapping:
+        room = width - sum(w for i, w in enumerate(widths) if i not in wrapping)
+        room -= 2 * (len(widths) - 1)
+        for n, column in enumerate(sorted(wrapping, key=lambda i: widths[i])):
+            share = room // (len(wrapping) - n)
+            longest_word = max((len(w) for row in rows for w in row[column].split()), default=0)
+            widths[column] = max(min(widths[column], share), len(headers[column]), longest_word)
+            room -= widths[column]
     # one format for every line (a building's tables run to thousands of lines)
     fmt = "  ".join(f"{{:{'>' if a == 'r' else '<'}{w}}}" if w else "{}"
                     for a, w in zip(align, widths, strict=True))
     rule = "  ".join("-" * w for w in widths)
-    return "\n".join([fmt.format(*headers).rstrip(), rule,
-                      *(fmt.format(*row).rstrip() for row in rows)])
+    lines = [fmt.format(*headers).rstrip(), rule]
+    for k, row in enumerate(rows):
+        if any(len(row[i]) > widths[i] for i in wrapping):
+            cells = [textwrap.wrap(cell, widths[i], break_on_hyphens=False) or [""]
+                     if i in wrapping else [cell] for i, cell in enumerate(row)]
+            for depth in range(max(map(len, cells))):
+                lines.append(fmt.format(*(c[depth] if depth < len(c) else ""
+                                          for c in cells)).rstrip())
+        else:
+            lines.append(fmt.format(*row).rstrip())
+        if under is not None and under[k]:
+            lines.extend(textwrap.wrap(under[k], (width or TERMINAL_COLUMNS),
+                                       initial_indent="    ", subsequent_indent="    ",
+                                       break_on_hyphens=False))
+    return "\n".join(lines)

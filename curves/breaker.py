@@ -299,6 +299,42 @@ def breaker_label(family: str, settings: Any, *, compact: bool = False) -> str:
     return ", ".join(parts)
 
 
+def breaking_capacities(icu_a: Any, ics_a: Any) -> tuple[float | None, float | None]:
+    """Icu and Ics of a breaker as given, checked: each positive, Ics not above Icu.
+
+    The breaking-capacity check takes Ics where it is given (the fault is then broken with the
+    breaker fit for further service: the stricter of the two), else Icu.
+
+    Parameters
+    ----------
+    icu_a : float or None
+        Rated ultimate short-circuit breaking capacity Icu [A].
+    ics_a : float or None
+        Rated service short-circuit breaking capacity Ics [A].
+
+    Raises
+    ------
+    InputError
+        For a value that is not a positive number, or Ics above Icu.
+
+    References
+    ----------
+    IEC 60947-2, 4.3.5.3 (Icu) and 4.3.5.4 (Ics, a percentage of Icu: 25, 50, 75 or 100 %;
+    clause numbers from memory).
+
+    Examples
+    --------
+    >>> print(breaking_capacities(36000, 27000))
+    (36000.0, 27000.0)
+    """
+    icu = None if icu_a is None else positive_number("icu_a", icu_a)
+    ics = None if ics_a is None else positive_number("ics_a", ics_a)
+    if icu is not None and ics is not None and ics > icu:
+        raise InputError(f"Ics {ics:g} A is above Icu {icu:g} A; allowed: at most Icu (Ics is "
+                         "25, 50, 75 or 100 % of Icu, IEC 60947-2)", key="ics_a")
+    return icu, ics
+
+
 # -- thermal-magnetic --------------------------------------------------------------------------
 def thermal_magnetic_band(
     *,
@@ -308,6 +344,7 @@ def thermal_magnetic_band(
     Ii_a: float | None = None,
     Ii_x: float | None = None,
     icu_a: float | None = None,
+    ics_a: float | None = None,
     basis: str = "typical",
 ) -> Band:
     """The band of a thermal-magnetic breaker (IEC 60947-2).
@@ -323,6 +360,9 @@ def thermal_magnetic_band(
         Magnetic pickup, in amperes or as a multiple of In on ``II_X``. Neither: 10 In.
     icu_a : float, optional
         Rated ultimate short-circuit breaking capacity Icu [A].
+    ics_a : float, optional
+        Rated service short-circuit breaking capacity Ics [A], at most Icu; where given it is
+        the band's breaking capacity (:func:`breaking_capacities`).
     basis : str
         ``"typical"`` or ``"envelope"``.
 
@@ -351,7 +391,7 @@ def thermal_magnetic_band(
                          f"switched off); allowed: {values_text(II_X)} x In", key="Ii_x")
     ir_x = _multiple("Ir", "In", rating, Ir_x, Ir_a, TM_IR_FRACTIONS, 1.0)
     ii_x = _multiple("Ii", "In", rating, Ii_x, Ii_a, II_X, 10.0)
-    icu = None if icu_a is None else positive_number("icu_a", icu_a)
+    icu, ics = breaking_capacities(icu_a, ics_a)
     ir = ir_x * rating
     ii = ii_x * rating
     t_conv = conventional_time_s(rating)
@@ -387,10 +427,12 @@ def thermal_magnetic_band(
                                 "Ii_a": ii}
     if icu is not None:
         settings["icu_a"] = icu
+    if ics is not None:
+        settings["ics_a"] = ics
     notes = [f"{basis}: thermal pickup {x_lo:.4g}..{x_hi:.4g} Ir (Ir = {ir:g} A), "
              f"{_T6_NOTE}; magnetic release may act from {mag_lo_a:g} A (Ii = {ii:g} A, "
              f"{m_lo:.3g}..{m_hi:.3g} Ii): no energy withstand above it"]
-    if icu is None:
+    if icu is None and ics is None:
         notes.append("Icu not given: breaking capacity unknown")
     return Band(
         name=breaker_label("breaker-tm", settings),
@@ -403,9 +445,9 @@ def thermal_magnetic_band(
         lower=lower,
         upper=upper,
         instantaneous_a=mag_lo_a,
-        breaking_capacity_a=icu,
+        breaking_capacity_a=ics if ics is not None else icu,
         settings=settings,
-        key=("breaker-tm", basis, rating, ir_x, ii_x, icu),
+        key=("breaker-tm", basis, rating, ir_x, ii_x, icu, ics),
         notes=tuple(notes),
     )
 
@@ -524,6 +566,7 @@ def electronic_band(
     Ii_a: float | None = None,
     Ii_x: float | str | None = None,
     icu_a: float | None = None,
+    ics_a: float | None = None,
     basis: str = "typical",
 ) -> Band:
     """The band of a breaker with an electronic trip unit (IEC 60947-2).
@@ -547,6 +590,9 @@ def electronic_band(
         instantaneous protection.
     icu_a : float, optional
         Rated ultimate short-circuit breaking capacity Icu [A].
+    ics_a : float, optional
+        Rated service short-circuit breaking capacity Ics [A], at most Icu; where given it is
+        the band's breaking capacity (:func:`breaking_capacities`).
     basis : str
         ``"typical"`` or ``"envelope"``.
 
@@ -602,7 +648,7 @@ def electronic_band(
         ii_x = None
     else:
         ii_x = _multiple("Ii", "In", rating, Ii_x, Ii_a, ELECTRONIC_II_X, None)
-    icu = None if icu_a is None else positive_number("icu_a", icu_a)
+    icu, ics = breaking_capacities(icu_a, ics_a)
     ii = None if ii_x is None else ii_x * rating
     isd = None if isd_x is None else isd_x * ir
     if isd is not None and ii is not None and isd > ii * (1 + 1e-9):
@@ -647,7 +693,9 @@ def electronic_band(
         notes.append("no instantaneous release (Ii off)")
     if icu is not None:
         settings["icu_a"] = icu
-    else:
+    if ics is not None:
+        settings["ics_a"] = ics
+    if icu is None and ics is None:
         notes.append("Icu not given: breaking capacity unknown")
     return Band(
         name=breaker_label("breaker-electronic", settings),
@@ -660,8 +708,9 @@ def electronic_band(
         lower=lower,
         upper=upper,
         instantaneous_a=None if ii is None else p_lo * ii,
-        breaking_capacity_a=icu,
+        breaking_capacity_a=ics if ics is not None else icu,
         settings=settings,
-        key=("breaker-electronic", basis, rating, ir_x, tr, isd_x, tsd, bool(sd_i2t), ii_x, icu),
+        key=("breaker-electronic", basis, rating, ir_x, tr, isd_x, tsd, bool(sd_i2t), ii_x, icu,
+             ics),
         notes=tuple(notes),
     )

@@ -33,6 +33,7 @@ from __future__ import annotations
 import difflib
 import re
 from collections.abc import Mapping
+from functools import lru_cache
 from types import MappingProxyType
 from typing import Any
 
@@ -236,6 +237,42 @@ def band_from_spec(spec: str | Mapping[str, Any], basis: str = "typical") -> Ban
     if isinstance(spec, Mapping):
         return _from_table(spec, basis)
     raise InputError(f"a device must be text or a table, not {spec!r}; give {_HELP}")
+
+
+#: Keys of a device table that state its breaking capacity.
+CAPACITY_KEYS = ("icn_a", "icu_a", "ics_a", "breaking_capacity_a")
+
+
+def capacity_stated(spec: str | Mapping[str, Any]) -> bool:
+    """Whether a device spec states its breaking capacity (else the family's default is assumed).
+
+    A shorthand states it with its kA suffix (``"B32 10kA"``, ``"gG100/80kA"``), a table with
+    ``icn_a``, ``icu_a``, ``ics_a`` or ``breaking_capacity_a``.
+
+    Examples
+    --------
+    >>> print(capacity_stated("B32 10kA"), capacity_stated("B32"), capacity_stated(
+    ...     {"family": "tm", "In_a": 250, "icu_a": 36000}))
+    True False True
+    """
+    if isinstance(spec, Mapping):
+        return any(key in spec for key in CAPACITY_KEYS)
+    if isinstance(spec, str):
+        text = spec.strip()
+        if text.startswith("{"):
+            try:
+                parsed = parse_inline(text)
+            except InputError:
+                return False
+            return capacity_stated(parsed)
+        return _shorthand_capacity(text)
+    return False
+
+
+@lru_cache(maxsize=1024)
+def _shorthand_capacity(text: str) -> bool:
+    match = _SHORTHAND.match(text)
+    return match is not None and match["cap"] is not None
 
 
 def device_label(band: Band, *, compact: bool = False) -> str:

@@ -289,9 +289,11 @@ def test_analyse_pairs_every_ancestor(patched):
     assert js["summary"]["pairs"] == 4
     assert js["pairs"][1]["limit_a"] == pytest.approx(math.sqrt(3.5e8), rel=1e-9)
     assert js["pairs"][0]["limit_a"] is None
-    assert js["pairs"][1]["basis"] == "time-current"
+    # the contract: basis is the bands' basis, decided_by the region that decided
+    assert js["pairs"][1]["decided_by"] == "time-current"
+    assert js["pairs"][1]["basis"] == leaf_mid.basis == leaf_mid.downstream_basis
     assert set(js["pairs"][0]) >= {"upstream", "downstream", "verdict", "limit_a", "window_a",
-                                   "basis", "band_basis", "required_a", "ok"}
+                                   "basis", "decided_by", "band_basis", "required_a", "ok"}
 
 
 def test_requirement_below_limit_is_met(patched):
@@ -559,7 +561,7 @@ def test_check_exits_1_on_a_selectivity_shortfall_alone(cli, tmp_path):
     path.write_text(TWO_EQUAL_FUSES, encoding="utf-8")
     out = cli("check", str(path))
     assert out.exit_code == 1, out.output
-    assert coordination.CAUTION in out.output
+    assert " ".join(coordination.CAUTION.split()) in " ".join(out.output.split())
     assert "Traceback" not in out.output
     js = cli("check", str(path), "--json")
     assert js.exit_code == 1

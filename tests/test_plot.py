@@ -178,7 +178,7 @@ def test_known_overlap_is_shaded_from_the_upstream_instantaneous_pickup(workshop
     assert zones[0].get_hatch()  # hatched: readable in greyscale
     assert "limit:sub>final" in found
     label = found["limit:sub>final"][0].get_text()
-    assert label.startswith("Is ")
+    assert label.startswith("sub: Is ")  # the upstream named on its zone's mark
 
 
 def test_selective_pair_has_no_zone(workshop):

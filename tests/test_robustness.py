@@ -366,10 +366,10 @@ def test_a_tested_limit_splits_a_run_of_alike_devices(cli, tmp_path):
     text = chain(8) + '\n[circuit.tested_limits_a]\nn3 = 2500\n'  # for n7, under n6 .. n0
     result = cli("check", write(tmp_path, text), "--json")
     assert result.exit_code in (0, 1), result.output
-    rows = [(p["upstream"], p["upstream_last"], p["upstream_count"], p["basis"])
-            for p in json.loads(result.stdout)["pairs"] if p["downstream"] == "n7"]
-    assert rows == [("n6", "n4", 3, "time-current"), ("n3", "n3", 1, "tested"),
-                    ("n2", "n0", 3, "time-current")]
+    rows = [(p["upstream"], p["upstream_last"], p["upstream_count"], p["decided_by"],
+             p["basis"]) for p in json.loads(result.stdout)["pairs"] if p["downstream"] == "n7"]
+    assert rows == [("n6", "n4", 3, "time-current", "typical"), ("n3", "n3", 1, "tested", "tested"),
+                    ("n2", "n0", 3, "time-current", "typical")]
 
 
 def test_a_tree_too_deep_to_list_is_refused_in_one_line(cli, tmp_path):

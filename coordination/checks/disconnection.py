@@ -8,6 +8,7 @@ from typing import Any
 
 import numpy as np
 
+from coordination import rules
 from coordination.checks.common import _Edges, _get, _in_a, _takes, a_text, ohm_text, s_text
 from coordination.checks.residual_checks import (
     rcd_disconnection,
@@ -21,10 +22,11 @@ from coordination.residual import rcds_on_path
 from curves.band import Band
 from curves.errors import InputError
 
-#: Final circuits within the scope of Table 41.1 carry at most this current [A]
+#: Final circuits within the scope of Table 41.1 carry at most this current [A] under IEC 60364
 #: (IEC 60364-4-41:2005, 411.3.2.2; larger final circuits take the 5 s / 1 s of 411.3.2.3 (TN)
-#: / 411.3.2.4 (TT)). BS 7671 raises it to 63 A for socket-outlet circuits (from memory).
-FINAL_CIRCUIT_SCOPE_A = 32.0
+#: / 411.3.2.4 (TT)). The scope of each rule set is in :mod:`coordination.rules` (BS 7671: 63 A
+#: with socket-outlets, from memory).
+FINAL_CIRCUIT_SCOPE_A = rules.IEC.fixed_scope_a
 
 #: IEC 60364-4-41:2005 Table 41.1, maximum disconnection times of final circuits, a.c. [s]:
 #: (U0 above [V], U0 up to [V], TN [s], TT [s]).
@@ -201,21 +203,23 @@ def max_zs_ohm(band: Band, u0_v: float, t_s: float, c_min: float = 0.95) -> floa
 def _disconnection_limit(study: Study, cid: str, band: Band) -> tuple[float, str, str, bool]:
     """Required time [s], the circuit's class in words, its source, and whether it is final."""
     final = study.is_final(cid)
-    in_scope = final and _in_a(band) <= FINAL_CIRCUIT_SCOPE_A
-    return (*_limit_and_class(study.supply.u0_v, study.supply.earthing, final, in_scope), final)
+    sockets = bool(study.by_id[cid].sockets)
+    return (*_limit_and_class(study.supply.u0_v, study.supply.earthing, final, sockets,
+                              _in_a(band), study.rule_set), final)
 
 
-@lru_cache(maxsize=256)
-def _limit_and_class(u0_v: float, earthing: str, final: bool,
-                     in_scope: bool) -> tuple[float, str, str]:
-    """:func:`_disconnection_limit` for a class of circuit (the same for most of a study's)."""
+@lru_cache(maxsize=1024)
+def _limit_and_class(u0_v: float, earthing: str, final: bool, sockets: bool, in_a: float,
+                     rule_set: rules.RuleSet) -> tuple[float, str, str]:
+    """:func:`_disconnection_limit` for a class of circuit (the same for most of a study's):
+    the scope of Table 41.1 and the clauses from the rule set (:func:`rules.circuit_class`)."""
     kind = EARTHING_KIND.get(str(earthing).upper(), "TN")
+    in_scope, what, clause = rules.circuit_class(rule_set, final, sockets, in_a, kind)
     limit = disconnection_time_s(u0_v, earthing, in_scope)
-    if in_scope:
-        return limit, f"final circuit, {kind}", TABLE_41_1_SOURCE
-    what = (f"final circuit above {FINAL_CIRCUIT_SCOPE_A:g} A, {kind}" if final
-            else f"distribution circuit, {kind}")
-    return limit, what, f"IEC 60364-4-41 411.3.2.{3 if kind == 'TN' else 4}"
+    source = clause.cite
+    if in_scope or final:  # where the scope itself comes from
+        source += f"; scope: {rule_set.scope.cite}"
+    return limit, what, source
 
 
 def _carried_a(study: Study, cid: str, band: Band) -> float:
@@ -282,4 +286,5 @@ def _disconnection(study: Study, cid: str, band: Band, node: Any, edges: _Edges)
             t = min(t, *(c.t_s for c in clearings))
             reason = (f"{head}: {times}; "
                       + rcd_failure(clearings).replace("nor does", "and nor does", 1))
-    return _result(cid, "disconnection", ok, t, limit, "s", reason, band, details)
+    return _result(cid, "disconnection", ok, t, limit, "s", reason, band, details,
+                   study.rule_set)

@@ -10,6 +10,7 @@ from typing import Any
 
 import numpy as np
 
+from coordination import cables
 from coordination.checks.common import (
     _edge_and_energy,
     _Edges,
@@ -142,6 +143,11 @@ class ConductorSizes:
         k of the protective conductor, from its own material and size [A s^0.5 / mm2].
     cpc_each_mm2 : float
         Cross-section of one protective conductor [mm2].
+    cpc_kind : str
+        ``"core"`` (a core of the cable, Table A.54.3), ``"separate"`` (installed apart,
+        Table A.54.2) or ``"armour"`` (the cable's steel-wire armour, Table A.54.4).
+    k_cpc_source : str
+        Where ``k_cpc`` comes from.
     """
 
     line_mm2: float
@@ -149,6 +155,8 @@ class ConductorSizes:
     cpc_mm2: float
     k_cpc: float
     cpc_each_mm2: float
+    cpc_kind: str = "core"
+    k_cpc_source: str = "IEC 60364-5-54 Table A.54.3"
 
 
 def conductor_sizes(cable: Any) -> ConductorSizes:
@@ -158,8 +166,10 @@ def conductor_sizes(cable: Any) -> ConductorSizes:
     ``cpc_mm2 x cpc_parallel`` (``cpc_mm2`` defaults to ``csa_mm2``, ``cpc_parallel`` to
     ``parallel``). Each k comes from the conductor's own material (``cpc_material`` for the
     protective conductor, by default the cable's), the cable's insulation and the size of one
-    conductor (PVC changes above 300 mm2). The protective conductor is taken as a core of the
-    cable (Table A.54.3); a separate one has a higher k, so this is on the safe side.
+    conductor (PVC changes above 300 mm2). The protective conductor is a core of the cable
+    (Table A.54.3) unless the study says it is installed separately (``cpc_separate``: Table
+    A.54.2, e.g. copper PVC 143 rather than 115) or that the armour is the protective conductor
+    (``cpc_armour``: ``armour_mm2`` and steel's k, Table A.54.4, from memory).
 
     Parameters
     ----------
@@ -180,7 +190,7 @@ def conductor_sizes(cable: Any) -> ConductorSizes:
     ----------
     IEC 60364-4-43:2008 Table 43A (k of line conductors); IEC 60364-5-54:2011 Table A.54.3
     (k of a protective conductor that is a core of a multicore cable), Table A.54.2 (one
-    that is not; not used here).
+    that is not), Table A.54.4 (steel armour, from memory).
 
     Examples
     --------
@@ -195,13 +205,40 @@ def conductor_sizes(cable: Any) -> ConductorSizes:
     cpc_parallel = max(int(getattr(cable, "cpc_parallel", None) or parallel), 1)
     material = cable.material
     cpc_material = getattr(cable, "cpc_material", None) or material
+    k_line = k_factor(material, cable.insulation, csa)
+    if getattr(cable, "cpc_armour", False):
+        armour = float(cable.armour_mm2)
+        return ConductorSizes(line_mm2=csa * parallel, k_line=k_line, cpc_mm2=armour,
+                              k_cpc=cables.armour_k(cable.insulation), cpc_each_mm2=armour,
+                              cpc_kind="armour", k_cpc_source=cables.K_STEEL_ARMOUR_SOURCE)
+    if getattr(cable, "cpc_separate", False):
+        k_cpc = cables.separate_cpc_k(cpc_material, cable.insulation, cpc_each)
+        kind, source = "separate", cables.K_SEPARATE_CPC_SOURCE
+    else:
+        k_cpc = k_factor(cpc_material, cable.insulation, cpc_each)
+        kind, source = "core", "IEC 60364-5-54 Table A.54.3"
     return ConductorSizes(
         line_mm2=csa * parallel,
-        k_line=k_factor(material, cable.insulation, csa),
+        k_line=k_line,
         cpc_mm2=cpc_each * cpc_parallel,
-        k_cpc=k_factor(cpc_material, cable.insulation, cpc_each),
+        k_cpc=k_cpc,
         cpc_each_mm2=cpc_each,
+        cpc_kind=kind,
+        k_cpc_source=source,
     )
+
+
+#: What the fault-energy check says of the protective conductor it took.
+_CPC_WORDS = {
+    "core": "taken as a core of the same cable (Table A.54.3); a separate cpc has a higher k "
+            "(give cpc_separate = true)",
+    "separate": "installed separately (cpc_separate; Table A.54.2), its resistance taken at "
+                "the cable's operating temperature (on the safe side for Zs)",
+    "armour": "the cable's steel-wire armour (cpc_armour; k and resistivity from memory: "
+              "verify with the maker's armour resistance, armour_ohm_per_m)",
+}
+_RING_WORDS = ("; a ring's conductors are taken one at a time at both ends (the mid-point "
+               "fault's current shared by the two legs is not counted: on the safe side)")
 
 
 @lru_cache(maxsize=4096)
@@ -299,12 +336,13 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
     details = {"current_a": i, "i2t_a2s": energy, "k": k, "conductor": conductor,
                "governing_case": what, "cases": checked,
                "line_mm2": s_line, "cpc_mm2": s_cpc, "k_line": k_line, "k_cpc": k_cpc,
-               "source": K_TABLE_SOURCE,
+               "source": f"IEC 60364-4-43 Table 43A / {sizes.k_cpc_source}",
+               "cpc_kind": sizes.cpc_kind,
                "assumption": f"governed by the {what}; protective conductor checked at the "
                              "minimum earth fault at the far end and the maximum earth fault "
                              "at the board (a current-limiting device lets through the most "
-                             "energy at the largest fault), taken as a core of the same cable "
-                             "(Table A.54.3); a separate cpc has a higher k"}
+                             f"energy at the largest fault), {_CPC_WORDS[sizes.cpc_kind]}"
+                             + (_RING_WORDS if circuit.ring else "")}
     if problems:
         reason = problems[0]
     elif ok:
@@ -321,4 +359,5 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
                   f"{'cpc' if conductor == 'protective' else 'conductors'}, choose a device "
                   "that lets through less energy, or show from the maker's let-through data "
                   f"that it stays within k2S2 = {significant((k * s) ** 2, 3)} A2s")
-    return _result(cid, "fault-energy", ok, need, s, "mm2", reason, band, details)
+    return _result(cid, "fault-energy", ok, need, s, "mm2", reason, band, details,
+                   study.rule_set)

@@ -31,6 +31,7 @@ from coordination.residual import (
     touch_voltage_v,
     tt_earth_fault_a,
 )
+from coordination.rules import tagged
 from curves.rcd import TOUCH_VOLTAGE_LIMIT_V, ResidualBand
 
 #: The checks of this module, in the order they are run and printed.
@@ -95,7 +96,8 @@ def _touch_voltage(study: Study, cid: str, band: ResidualBand) -> CheckResult | 
         reason = (f"RA is not given: give [supply] ra_ohm (earth electrode and protective "
                   f"conductors of the exposed parts) to show RA x IΔn <= {limit:g} V for "
                   f"{band.name}")
-        return _result(cid, "touch-voltage", False, math.nan, limit, "V", reason, band, details)
+        return _result(cid, "touch-voltage", False, math.nan, limit, "V", reason, band, details,
+                       study.rule_set)
     value = touch_voltage_v(ra, band)
     ok = value <= limit
     text = f"RA x IΔn = {ra:g} ohm x {idn_ma(band):g} mA = {value:.3g} V"
@@ -105,7 +107,8 @@ def _touch_voltage(study: Study, cid: str, band: ResidualBand) -> CheckResult | 
         most = limit / ra * 1000.0
         reason = (f"{text} > {limit:g} V for {band.name}: choose IΔn <= {most:.3g} mA or lower "
                   "the earth electrode's resistance")
-    return _result(cid, "touch-voltage", ok, value, limit, "V", reason, band, details)
+    return _result(cid, "touch-voltage", ok, value, limit, "V", reason, band, details,
+                   study.rule_set)
 
 
 def _additional_protection(study: Study, cid: str, in_a: float | None) -> CheckResult | None:
@@ -118,8 +121,9 @@ def _additional_protection(study: Study, cid: str, in_a: float | None) -> CheckR
     if not rcds:
         reason = (f"socket-outlet circuit up to 32 A with no RCD on it or above it: give it an "
                   f"RCD of at most {limit:g} mA (an RCBO, or an RCCB above)")
-        return CheckResult(cid, "additional-protection", False, math.inf, limit, "mA", reason,
-                           "envelope", details)
+        return CheckResult(cid, "additional-protection", False, math.inf, limit, "mA",
+                           tagged(study.rule_set, reason), "envelope", details,
+                           study.rule_set.key)
     where, band = min(rcds, key=lambda r: r[1].idn_a)
     value = idn_ma(band)
     ok = value <= limit
@@ -130,7 +134,8 @@ def _additional_protection(study: Study, cid: str, in_a: float | None) -> CheckR
     else:
         reason = (f"the most sensitive RCD on the path is {band.name} {on}: socket-outlets up to "
                   f"32 A need one of at most {limit:g} mA")
-    return _result(cid, "additional-protection", ok, value, limit, "mA", reason, band, details)
+    return _result(cid, "additional-protection", ok, value, limit, "mA", reason, band, details,
+                   study.rule_set)
 
 
 def _leakage(study: Study, cid: str, band: ResidualBand) -> CheckResult | None:
@@ -146,7 +151,7 @@ def _leakage(study: Study, cid: str, band: ResidualBand) -> CheckResult | None:
     else:
         reason = (f"{text} exceeds 30 % of IΔn of {band.name} ({limit:.3g} mA; common "
                   "practice): it may trip without a fault; split the circuits among more RCDs")
-    return _result(cid, "leakage", ok, leak, limit, "mA", reason, band, details)
+    return _result(cid, "leakage", ok, leak, limit, "mA", reason, band, details, study.rule_set)
 
 
 def residual_results(study: Study, cid: str, in_a: float | None) -> tuple[CheckResult, ...]:

@@ -8,6 +8,7 @@ from dataclasses import dataclass, field
 from types import MappingProxyType
 from typing import Any
 
+from coordination.rules import RuleSet, tagged
 from curves.band import Band
 
 #: Check names, in the order they are run and printed.
@@ -47,6 +48,9 @@ class CheckResult:
     details : mapping
         Further numbers with units in their keys (``zs_ohm``, ``zs_max_ohm``, ``current_a``,
         ``source`` ...), for the JSON output and the report.
+    rules : str
+        The rule set the check applied (``"iec"``, ``"bs7671"``; :mod:`coordination.rules`),
+        also named at the head of ``reason``.
     """
 
     circuit: str
@@ -58,6 +62,7 @@ class CheckResult:
     reason: str
     basis: str
     details: Mapping[str, Any] = field(default_factory=dict)
+    rules: str = "iec"
 
     def __post_init__(self) -> None:
         if self.details.__class__ is not MappingProxyType:  # a read-only view is kept as given
@@ -94,6 +99,7 @@ class CheckResult:
             "unit": self.unit,
             "reason": self.reason,
             "basis": self.basis,
+            "rules": self.rules,
         }
         out = {**head, **self.details}
         if len(out) < len(head) + len(self.details):  # a detail named like a contract key
@@ -102,11 +108,12 @@ class CheckResult:
 
 
 def _result(cid: str, check: str, ok: bool, value: float, limit: float, unit: str, reason: str,
-            band: Band, details: dict[str, Any]) -> CheckResult:
+            band: Band, details: dict[str, Any], rule_set: RuleSet) -> CheckResult:
     """A check's result over a details dict made for it alone (kept as a read-only view of that
-    dict rather than copied: 8,183 copies in a building's check)."""
-    return CheckResult(cid, check, ok, value, limit, unit, reason, band.basis,
-                       MappingProxyType(details))
+    dict rather than copied: 8,183 copies in a building's check), its reason headed by the rule
+    set's name (:func:`coordination.rules.tagged`)."""
+    return CheckResult(cid, check, ok, value, limit, unit, tagged(rule_set, reason), band.basis,
+                       MappingProxyType(details), rule_set.key)
 
 
 def _finite(x: Any) -> Any:

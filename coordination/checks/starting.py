@@ -8,6 +8,7 @@ passes and the standard's envelope would not, the reason says so.
 
 from __future__ import annotations
 
+from coordination import rules
 from coordination.checks.results import CheckResult
 from coordination.model import Study
 from coordination.motors import (
@@ -91,5 +92,6 @@ def _starting(study: Study, circuit_id: str, envelope: Band) -> CheckResult | No
         value, limit, unit = b.peak_a, b.instantaneous_a, "A"
     else:  # the start's time against the least operating time
         value, limit, unit = profile.duration_s, b.t_min_s, "s"
-    return CheckResult(circuit_id, "starting", verdict.ok, value, float(limit), unit, reason,
-                       verdict.basis, details)
+    rule_set = study.rule_set
+    return CheckResult(circuit_id, "starting", verdict.ok, value, float(limit), unit,
+                       rules.tagged(rule_set, reason), verdict.basis, details, rule_set.key)

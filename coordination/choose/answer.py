@@ -236,7 +236,8 @@ def choose_board(study: Study, board_id: str, *, family: str | None = None) -> t
     Parameters
     ----------
     board_id : str
-        A circuit id (that circuit and every board below it), or ``"supply"`` for the whole study.
+        A board's name as printed, or the id of the circuit that feeds it (that circuit and
+        every board below it); ``"supply"`` or ``"origin"`` for the whole study.
 
     References
     ----------
@@ -266,14 +267,9 @@ def choose_board(study: Study, board_id: str, *, family: str | None = None) -> t
     [('sub-main', 125.0)]
     """
     from coordination import faults
+    from coordination.boards import feeder_of
 
-    if board_id != SUPPLY_ID and board_id not in study.by_id:
-        raise InputError(f"no circuit {board_id!r} in the study; give a circuit id or "
-                         f"{SUPPLY_ID!r} for the whole study", key="--board")
-    if board_id != SUPPLY_ID and not study.children.get(board_id):
-        raise InputError(f"circuit {board_id!r} feeds no board (it has no circuits below it); "
-                         f"give a circuit that feeds a board, or {SUPPLY_ID!r} for the whole "
-                         f"study", key="--board")
+    board_id = feeder_of(study, board_id)
     levels = faults.compute(study)
     inside = (set(study.by_id) if board_id == SUPPLY_ID
               else {board_id, *study.descendants(board_id)})

@@ -14,10 +14,11 @@ from typing import Any
 
 import numpy as np
 
-from coordination import criterion
+from coordination import backup, criterion, rules
 from coordination.choose.candidates import Candidate
 from coordination.choose.problem import STAGES, Failure, Pair, Problem, substitute
 from coordination.choose.screening import TESTABLE_S
+from coordination.model import SUPPLY_ID
 from curves.band import Band
 from curves.errors import InputError
 
@@ -45,13 +46,17 @@ def cheap_failure(problem: Problem, cand: Candidate, band: Band) -> Failure | No
         if setting > iz * (1 + 1e-9):
             return Failure("overload", f"cable: In {setting:g} A > Iz {iz:g} A (Ib <= In <= Iz)",
                            need_a=setting)
-        if i2 > 1.45 * iz * (1 + 1e-9):
+        implied = rules.i2_implied(problem.study.rule_set, band.family)
+        if i2 > 1.45 * iz * (1 + 1e-9) and not implied:  # as the rule set reads 433.1
             return Failure("overload", f"cable: I2 {i2:.4g} A > 1.45 Iz {1.45 * iz:.4g} A",
                            need_a=i2 / 1.45)
-    circuit = problem.study.by_id[problem.circuit_id]
+    study = problem.study
+    circuit = study.by_id[problem.circuit_id]
     capacity = circuit.breaking_capacity_a or band.breaking_capacity_a
+    feeder = None if circuit.parent == SUPPLY_ID else study.by_id[circuit.parent]
+    backed = backup.covering(problem.ik_break_a, backup.declared_backups(circuit, feeder))
     if capacity is not None and capacity < problem.ik_break_a * (1 - 1e-9) \
-            and "breaking-capacity" not in problem.relaxed:
+            and backed is None and "breaking-capacity" not in problem.relaxed:
         return Failure("breaking-capacity",
                        f"breaking capacity {capacity / 1000:.3g} kA < "
                        f"{problem.ik_break_a / 1000:.3g} kA at the board")
@@ -103,7 +108,9 @@ def _exact_failure(problem: Problem, cand: Candidate) -> Failure | None:
                 need = None
                 if stage == "overload":
                     i2, in_a = r.details.get("i2_a"), r.details.get("in_a")
-                    if i2 is not None and in_a is not None:
+                    if in_a is not None and r.details.get("i2_condition") == "implied":
+                        need = float(in_a)  # the rule set holds In <= Iz enough
+                    elif i2 is not None and in_a is not None:
                         need = max(float(in_a), float(i2) / 1.45)
                 if stage == "fault-energy":
                     _learn_energy_limits(problem, r.details)

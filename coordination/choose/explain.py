@@ -15,6 +15,7 @@ from typing import Any
 
 import numpy as np
 
+from coordination import rules
 from coordination.choose.candidates import (
     FAMILY_NOUNS,
     FAMILY_WORDS,
@@ -176,9 +177,12 @@ def _search_variant(problem: Problem, variant: Problem, groups: list[Any]) -> tu
 
 def _iz_needed(problem: Problem, cand: Candidate) -> float:
     """Iz that In <= Iz and I2 <= 1.45 Iz need [A] (I2 of the worst compliant device; with a
-    motor's overload relay, its Ir and 1.2 Ir)."""
+    motor's overload relay, its Ir and 1.2 Ir; In <= Iz alone where the study's rule set holds
+    it enough, :func:`coordination.rules.i2_implied`)."""
     envelope = problem.band(cand.spec, "envelope")
     setting = envelope.rating_a if envelope.family == "motor-circuit" else cand.setting_a
+    if rules.i2_implied(problem.study.rule_set, envelope.family):
+        return setting
     return max(setting, float(envelope.pickup_max_a) / 1.45)
 
 

@@ -17,7 +17,7 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
-from coordination import criterion
+from coordination import criterion, rules
 from coordination.choose.candidates import SettingsGrid, combine_parts, electronic_parts
 from coordination.criterion import ADJUSTABLE_FAMILIES, EQUAL_RTOL
 from curves.band import TIME_CEILING_S, Band
@@ -204,7 +204,9 @@ def screen_grid(problem: Problem, grid: SettingsGrid) -> np.ndarray:
     ief = float(getattr(node, "ief_min_a", 0.0) or 0.0)
     if ief <= 0:
         return np.zeros_like(ok)
-    in_scope = study.is_final(problem.circuit_id) and grid.ir_a <= checks.FINAL_CIRCUIT_SCOPE_A
+    circuit = study.by_id[problem.circuit_id]
+    in_scope = rules.in_final_scope(study.rule_set, study.is_final(circuit.id),
+                                    circuit.sockets, grid.ir_a)
     limit = checks.disconnection_time_s(study.supply.u0_v, study.supply.earthing, in_scope)
     lt, st, inst = electronic_parts(np.array([ief]), grid, "envelope")[1]
     t_env = np.minimum(np.minimum(lt[:, None, :, None, 0], st[:, :, None, None, 0]),

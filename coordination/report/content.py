@@ -31,7 +31,8 @@ STANDARDS = (
     ("IEC 60909-0", "short-circuit currents in three-phase a.c. systems (simplified for LV)"),
     ("IEC 60364-4-41", "protection against electric shock: disconnection times (Table 41.1)"),
     ("IEC 60364-4-43", "protection against overcurrent: overload and fault energy (k^2 S^2)"),
-    ("IEC 60364-5-54", "earthing arrangements and protective conductors (Table A.54.3)"),
+    ("IEC 60364-5-54", "earthing arrangements and protective conductors (Tables A.54.2, "
+                       "A.54.3, A.54.4)"),
     ("IEC 60228", "conductors of insulated cables: resistance at 20 degC"),
     ("BS 7671 Table 41.3", "maximum earth-fault loop impedance for circuit-breakers"),
 )
@@ -217,7 +218,7 @@ def _pair_table(study: Study, analysis: Analysis) -> TableSpec:
 
     # the register has every setting; a breaker's compact label wraps between its parts
     label = {k: _keep_together(v) for k, v in compact_labels(study, analysis.basis).items()}
-    rows, flags = [], []
+    rows, flags, failing = [], [], []
     for p in analysis.pairs:
         bases = "/".join(BASIS_SHORT.get(b, b) for b in (p.downstream_basis, p.upstream_basis))
         rows.append((
@@ -226,16 +227,19 @@ def _pair_table(study: Study, analysis: Analysis) -> TableSpec:
             f"{ka_text(p.window_a[0])}-{ka_text(p.window_a[1])}", p.decided_by, bases,
             "total" if p.required_a is None else ka_text(p.required_a), "yes" if p.ok else "NO"))
         flags.append(not p.ok)
+        failing.append(() if p.ok else (4, 9))  # Is short of the need, and the verdict
     for p in analysis.residual:  # RCDs in series: residual current on the window
         rows.append((
             p.downstream, p.upstream, f"{p.downstream_device} / {p.upstream_device}",
             p.verdict, "-", f"{p.window_a[0] * 1000:.3g} mA-{ka_text(p.window_a[1])}",
             p.decided_by, "env/env", "total", "yes" if p.ok else "NO"))
         flags.append(not p.ok)
+        failing.append(() if p.ok else (9,))
     return TableSpec(("downstream", "upstream", "devices", "verdict", "Is kA", "window kA",
                       "decided by", "bases", "need kA", "met"),
                      (0.0, 0.0, 1.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0), tuple(rows),
-                     "llllrlllrr", wrap=(2,), fit=(0, 1, 3, 4, 5, 6, 7, 8), flags=tuple(flags))
+                     "llllrlllrr", wrap=(2,), fit=(0, 1, 3, 6, 7), whole=(4, 5, 8, 9),
+                     flags=tuple(flags), failing=tuple(failing))
 
 
 CHECK_COLUMNS = (("disconnection", "disconnection"), ("overload", "overload"),
@@ -245,38 +249,72 @@ RESIDUAL_COLUMNS = (("touch-voltage", "touch voltage"),
                     ("additional-protection", "additional protection"), ("leakage", "leakage"))
 
 
+def _whole(text: str) -> str:
+    """Text whose words never part when its cell wraps (a number with its unit and name)."""
+    return text.replace(" ohm", " \u03a9").replace(" ", "\u00a0")
+
+
+def _margin(result: CheckResult) -> str:
+    from coordination.tables import check_margin
+
+    margin = check_margin(result)
+    if margin is None:
+        return ""
+    share = f"{margin * 100:.1f}" if abs(margin) < 0.1 else f"{margin * 100:.0f}"
+    return f", {share}\u00a0%" + ("\u00a0left" if margin >= 0 else "\u00a0over")
+
+
 def _check_cell(result: CheckResult) -> str:
-    """``ok 100 ms / 400 ms``: the verdict, the value and the limit it must not exceed."""
-    word = "ok" if result.ok else "FAIL"
-    value, limit = value_text(result.value, result.unit), value_text(result.limit, result.unit)
-    return f"{word} {value} / {limit}"
+    """``ok Zs 0.89 Ω / max 4.37 Ω, 80 % left``: the result (ok, near limit within 5 %, or
+    FAIL), what is compared against its limit (for disconnection the loop impedance; for
+    overload the comparison that binds) and the share of the limit to spare. Numbers keep
+    their units and names when the cell wraps."""
+    from coordination.tables import check_cells, check_status
+
+    value, limit = check_cells(result)
+    return (f"{_whole(check_status(result))} {_whole(value)} / {_whole(limit)}"
+            f"{_margin(result)}")
 
 
 def _check_matrix(study: Study, results: Sequence[CheckResult]) -> TableSpec:
-    """One row per circuit, one column per check (``-``: not run, for want of data)."""
+    """One row per circuit, one column per check (``-``: not run, for want of data); only the
+    cells of failed checks are set in the failure ink."""
     by_circuit: dict[str, dict[str, Any]] = {}
     for r in results:
         by_circuit.setdefault(r.circuit, {})[r.check] = r
     present = {r.check for r in results}
     columns = CHECK_COLUMNS + tuple(c for c in RESIDUAL_COLUMNS if c[0] in present)
-    rows, flags = [], []
+    rows, flags, failing = [], [], []
     for c in study.circuits:
         mine = by_circuit.get(c.id, {})
         rows.append((c.id, *(_check_cell(mine[k]) if k in mine else "-"
                              for k, _ in columns)))
         flags.append(any(not r.ok for r in mine.values()))
+        failing.append(tuple(j for j, (k, _) in enumerate(columns, start=1)
+                             if k in mine and not mine[k].ok))
     n = len(columns)
     return TableSpec(("circuit", *(title for _, title in columns)),
                      (0.0, *(1.0,) * n), tuple(rows), "l" * (n + 1),
-                     wrap=tuple(range(1, n + 1)), fit=(0,), flags=tuple(flags))
+                     wrap=tuple(range(1, n + 1)), fit=(0,), flags=tuple(flags),
+                     failing=tuple(failing))
 
 
 def _check_failures(results: Sequence[CheckResult]) -> TableSpec:
-    rows = [(r.circuit, r.check, value_text(r.value, r.unit), value_text(r.limit, r.unit), r.reason)
-            for r in results if not r.ok]
-    return TableSpec(("circuit", "check", "value", "limit", "what to do"),
-                     (0.0, 0.0, 0.0, 0.0, 1.0), tuple(rows), "llrrl", wrap=(4,),
-                     fit=(0, 1, 2, 3), flags=(True,) * len(rows))
+    """The checks that fail or are near their limit (within 5 %), with what to do."""
+    from coordination.tables import check_cells, check_status, near_limit
+
+    rows, failing = [], []
+    for r in results:
+        if r.ok and not near_limit(r):
+            continue
+        value, limit = check_cells(r)
+        rows.append((r.circuit, r.check, check_status(r), _whole(value), _whole(limit),
+                     _margin(r).removeprefix(", ") or "-", r.reason))
+        failing.append(() if r.ok else (2, 3))
+    return TableSpec(("circuit", "check", "result", "value", "limit", "margin", "what to do"),
+                     (0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 1.0), tuple(rows), "lllrrrl", wrap=(6,),
+                     fit=(0, 1, 2), whole=(3, 4, 5),
+                     flags=tuple(bool(f) for f in failing), failing=tuple(failing))
 
 
 def _starting_table(results: Sequence[CheckResult]) -> TableSpec:
@@ -305,8 +343,9 @@ def _supply_lines(study: Study, levels: FaultLevels) -> list[str]:
         t = s.transformer
         upstream = (f", network {format_current(t.upstream_pfc_a)} referred to LV"
                     if t.upstream_pfc_a else ", infinite network assumed")
+        rated = "" if t.u_lv_v is None else f", rated {t.u_lv_v:g} V on its low-voltage side"
         lines.append(f"transformer {t.rating_kva:g} kVA, uk {t.impedance_pct:g} %, X/R "
-                     f"{t.x_r:g}{upstream}")
+                     f"{t.x_r:g}{rated}{upstream}")
     if s.pfc_a is not None:
         lines.append(f"declared prospective fault current {format_current(s.pfc_a)}")
     if s.ze_ohm is not None:
@@ -378,9 +417,13 @@ NOTES = (
     ("Protection checks", (
         "Disconnection times (IEC 60364-4-41 Table 41.1), overload (Ib <= In <= Iz, "
         "I2 <= 1.45 Iz), fault energy (k^2 S^2 >= I2t, IEC 60364-4-43) and breaking capacity, "
-        "always on the envelope basis whatever the selectivity basis.")),
+        "always on the envelope basis whatever the selectivity basis. The study's rule set "
+        "(IEC 60364, or BS 7671 with its own scope of Table 41.1 and its 433.1.202, recalled "
+        "from memory) is named on the cover and in front of every check's reason. A breaking "
+        "capacity below the fault passes only on a declared back-up or conditional rating: "
+        "the maker's tested data, to be verified against the maker's documents.")),
     ("Not covered", (
-        "Residual-current devices, back-up (cascade) ratings unless given as tested limits, "
+        "Residual-current devices, back-up (cascade) ratings other than those declared, "
         "earth-fault protection settings, ambient derating of devices, harmonics, voltage drop "
         "and discrimination under motor starting are outside this report. Manufacturers' "
         "selectivity tables and curves take precedence over the standard-based bands used "
@@ -445,10 +488,14 @@ CHECKS_INTRO = (
     "device's conventional tripping current I2 against 1.45 Iz), fault energy "
     "(IEC 60364-4-43, 434.5.2: the conductor section needed for the let-through I2t against "
     "the section installed) and breaking capacity against the maximum fault at the board, on "
-    "the envelope basis. Each cell: the result, the value and the limit it must not exceed; "
-    "'-' where the study lacks the data. Failures are set in red and detailed after the "
-    "table; the reason for every check is in the CSV output (--csv). Motor starts and inrush "
-    "loads (the starting check) have a table of their own.",
+    "the envelope basis. Each cell: the result (ok; near limit: within 5 % of it; FAIL), what "
+    "is compared with its limit and the share of the limit left: for disconnection the "
+    "earth-fault loop impedance Zs against the largest Zs with which the device disconnects "
+    "in time, for overload the comparison that binds (Ib <= In, In <= Iz or I2 <= 1.45 Iz). "
+    "'-' where the study lacks the data. Only the cells of failed checks are set in red; "
+    "failures and near limits are detailed after the table, and the reason for every check "
+    "is in the CSV output (--csv). Motor starts and inrush loads (the starting check) have a "
+    "table of their own.",
 )
 
 #: Above the starting checks.
@@ -464,4 +511,7 @@ STARTING_INTRO = (
 )
 
 #: Above the failed protection checks.
-FAILURES_INTRO = ("Each failed check with what it needs and what to do.",)
+FAILURES_INTRO = (
+    "Each check that fails (its result and value in red) or passes within 5 % of its limit "
+    "(near limit), with what it compares, the share of the limit left and what to do.",
+)

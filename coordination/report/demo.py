@@ -7,6 +7,7 @@ import sys
 from pathlib import Path
 
 from coordination import CAUTION
+from coordination.text import fit_lines
 from curves.errors import InputError
 
 #: The file name the demo writes; it replaces only a file of this name in the chosen folder.
@@ -92,9 +93,7 @@ def run_demo(output_dir: str | os.PathLike) -> int:
     levels, analysis = result.levels, result.analysis
     print(f"Demo: {s.title}")
     print(f"study file: {where}\n")
-    print(tables.pair_table(s, levels, analysis))
-    print()
-    print(tables.check_table(result.checks))
+    print(tables.check_text(s, levels, analysis, result.checks, study_path=where))
     print()
     folder.mkdir(parents=True, exist_ok=True)
     target = folder / DEMO_REPORT_NAME
@@ -104,6 +103,6 @@ def run_demo(output_dir: str | os.PathLike) -> int:
           f"({counts['partial']} partial, {counts['none']} none of {counts['pairs']}): their "
           "crossover zones are hatched on the plots.")
     print(f"report ({summary.pages} pages) written to {target.resolve()}")
-    print(CAUTION)
+    print(fit_lines(CAUTION))
     return 0
 

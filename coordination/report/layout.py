@@ -48,13 +48,16 @@ class TableSpec:
     align: str = ""  # one 'l' or 'r' per column; default all left
     wrap: tuple[int, ...] = ()  # columns whose text wraps onto more lines
     fit: tuple[int, ...] = ()  # columns at least as wide as their longest cell (up to FIT_MAX)
-    flags: tuple[bool, ...] = ()  # rows to set in the failure ink
+    flags: tuple[bool, ...] = ()  # rows that miss a requirement (kept first when capped)
+    failing: tuple[tuple[int, ...], ...] = ()  # per row, the cells set in the failure ink
+    whole: tuple[int, ...] = ()  # columns never wrapped nor cut (numbers): as wide as needed
 
 
 FONT_PT = 7.0
 LINE_IN = FONT_PT * 1.32 / 72.0  # baseline to baseline [in]
 MONO = "DejaVu Sans Mono"  # ships with matplotlib
 MONO_EM = 0.62  # advance width of a DejaVu Sans Mono character [em] (0.602), with room
+CHAR_ADVANCE_EM = 0.6  # the advance of a Courier character [em], where a cell starts
 #: In the PDF, table lines are set in Courier, one of the standard faces every PDF reader has:
 #: nothing to embed, and matplotlib writes such a line as one string instead of glyph by glyph,
 #: which makes a page of tables about ten times faster to draw. Its advance width is 0.6 em, so
@@ -81,6 +84,8 @@ def _column_chars(spec: TableSpec) -> list[int]:
     for j in spec.wrap:
         word = max((len(w) for row in spec.rows for w in str(row[j]).split()), default=0)
         least[j] = max(least[j], min(word, FIT_MAX))
+    for j in spec.whole:  # a number is never wrapped nor cut, however long
+        least[j] = max([least[j], *(len(str(row[j])) for row in spec.rows)])
     spare = max(0, total_chars - sum(least))
     weight = sum(spec.widths)
     return [m + int(spare * w / weight) for m, w in zip(least, spec.widths, strict=True)]
@@ -90,7 +95,9 @@ def _row_lines(spec: TableSpec, row: Sequence[str], chars: Sequence[int]) -> lis
     cells = []
     for j, text in enumerate(row):
         text = str(text)
-        if j in spec.wrap or j in spec.fit:
+        if j in spec.whole:
+            cells.append([text])
+        elif j in spec.wrap or j in spec.fit:
             cells.append(wrap_words(text, chars[j]) or [""])
         else:
             cells.append([text if len(text) <= chars[j] else text[: chars[j] - 1] + "\u2026"])
@@ -142,18 +149,36 @@ def draw_table(fig: Figure, spec: TableSpec, rows: Sequence[int], top: float) ->
     for k, i in enumerate(rows):
         cells = _row_lines(spec, spec.rows[i], chars)
         n = max(len(c) for c in cells)
-        colour = FAIL_INK if spec.flags and spec.flags[i] else INK
+        failing = set(spec.failing[i]) if spec.failing else set()
         if k % 2 == 1:
             fig.add_artist(Rectangle((LEFT - 0.005, y - n * pitch - 0.05 * pitch),
                                      RIGHT - LEFT + 0.01, n * pitch, transform=fig.transFigure,
                                      facecolor="#ededed", edgecolor="none", zorder=-1))
         for line in range(n):
             texts = [c[line] if line < len(c) else "" for c in cells]
-            fig.text(LEFT, y - ascent - line * pitch, _table_line(texts, chars, align),
-                     family=MONO, fontsize=FONT_PT, color=colour,
-                     va="baseline").__class__ = line_class
+            base = [" " * len(t) if j in failing else t for j, t in enumerate(texts)]
+            baseline = y - ascent - line * pitch
+            fig.text(LEFT, baseline, _table_line(base, chars, align), family=MONO,
+                     fontsize=FONT_PT, color=INK, va="baseline").__class__ = line_class
+            for j in sorted(failing):
+                if texts[j].strip():
+                    _failing_cell(fig, texts[j], j, chars, align, baseline, line_class)
         y -= n * pitch
     return y
+
+
+def _failing_cell(fig: Figure, text: str, column: int, chars: Sequence[int], align: str,
+                  baseline: float, line_class: type) -> None:
+    """A failing cell, in the failure ink, over its blank place in the line: only the cell
+    that fails is coloured (its words say so too: NO, FAIL)."""
+    start = sum(chars[:column]) + COLUMN_GAP * column
+    if align[column] == "r":
+        start += chars[column] - len(text)
+    x = LEFT + start * FONT_PT * CHAR_ADVANCE_EM / 72.0 / PAGE_SIZE_IN[0]
+    artist = fig.text(x, baseline, text, family=MONO, fontsize=FONT_PT, color=FAIL_INK,
+                      va="baseline")
+    artist.__class__ = line_class
+    artist.set_gid(f"failing-cell:{column}")
 
 
 @functools.cache
@@ -210,7 +235,28 @@ def new_page(study: Study, heading: str | None) -> Figure:
              va="top")
     if heading:
         fig.text(LEFT, 0.955, heading, fontsize=13, fontweight="bold", color=INK, va="top")
+    if study.title_block:
+        fig.text(LEFT, 0.02, title_block_line(study.title_block), fontsize=6, color=MUTED,
+                 ha="left", va="bottom", gid="title-block")
     return fig
+
+
+#: The footer's title block, at most this many characters (left of ``page N of M``).
+FOOTER_CHARS = 125
+
+
+def title_block_line(fields: Sequence[tuple[str, str]], chars: int = FOOTER_CHARS) -> str:
+    """The title block in one line for a page's footer, cut short with an ellipsis.
+
+    Examples
+    --------
+    >>> print(title_block_line([("client", "Invented Ltd"), ("revision", "B")]))
+    client: Invented Ltd | revision: B
+    >>> print(title_block_line([("project", "x" * 40)], chars=20))
+    project: xxxxxxxxxx…
+    """
+    line = " | ".join(f"{key}: {value}" for key, value in fields)
+    return line if len(line) <= chars else line[:chars - 1] + "\u2026"
 
 
 def finish_page(fig: Figure, number: int, total: int) -> None:
@@ -256,7 +302,8 @@ def _capped(spec: TableSpec, limit: int | None = None) -> tuple[TableSpec, str |
     note = (f"This table has {n:,} rows; to keep the report to a readable size it sets out "
             f"{which}. The CSV output (--csv) has every row.")
     cut = replace(spec, rows=tuple(spec.rows[i] for i in keep),
-                  flags=tuple(flags[i] for i in keep) if spec.flags else ())
+                  flags=tuple(flags[i] for i in keep) if spec.flags else (),
+                  failing=tuple(spec.failing[i] for i in keep) if spec.failing else ())
     return cut, note
 
 

@@ -1,5 +1,6 @@
-"""The report's pages, in order: a cover (title, date, tool version, the supply, a summary, the
-standards used and the caution), the device register, fault levels, the selectivity of every
+"""The report's pages, in order: a cover (title, date, tool version, the title block, the supply, a
+summary, the standards used and the caution), the installation diagram (one sheet, or the boards
+then a sheet per board), the device register, fault levels, the selectivity of every
 pair, the protection checks, a time-current plot per board and per circuit that has a
 non-selective pair above it, and the notes and limitations.
 
@@ -12,7 +13,7 @@ from collections.abc import Iterable, Sequence
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from coordination import CAUTION, __version__
+from coordination import CAUTION, __version__, rules
 from coordination.faults import FaultLevels
 from coordination.model import Study
 from coordination.pipeline import Assessment
@@ -90,6 +91,8 @@ def _cover(study: Study, result: Assessment) -> PageBuilder:
                     y -= 0.0155
             return y - 0.012
 
+        if study.title_block:
+            y = block("Title block", [f"{key}: {value}" for key, value in study.title_block], y)
         y = block("Supply", _supply_lines(study, levels), y)
         summary = analysis.summary()
         failed = [r for r in results if not r.ok]
@@ -107,6 +110,7 @@ def _cover(study: Study, result: Assessment) -> PageBuilder:
             verdict,
         ], y)
         y = block("Bases", [_basis_summary(study, basis)], y)
+        y = block("Rules", [rules.summary(study.rule_set)], y)
         from coordination.residual import has_rcds
 
         used = STANDARDS + (RCD_STANDARDS if has_rcds(study) else ())
@@ -134,7 +138,7 @@ def _plot_page(study: Study, result: Assessment, entry: PlannedPlot) -> PageBuil
         fig = new_page(study, heading)
         ax = fig.add_axes((0.11, 0.42, 0.84, 0.49))
         plot_circuit(study, levels, analysis, circuit_id, basis=basis, ax=ax,
-                     title=f"{circuit_id} and the devices above it")
+                     title=f"{circuit_id} and the devices above it", results=result.checks)
         chain = (circuit_id, *study.ancestors(circuit_id))
         y = 0.235
         parent = study.by_id[circuit_id].parent
@@ -162,8 +166,9 @@ def _plot_page(study: Study, result: Assessment, entry: PlannedPlot) -> PageBuil
         if rows:
             spec = TableSpec(("downstream", "upstream", "verdict", "Is kA", "window kA",
                               "decided by", "met"), (1.0, 1.0, 0, 0, 0.3, 0.3, 0),
-                             tuple(rows), "lllrllr", fit=(0, 1, 2, 3, 4, 5, 6),
-                             flags=tuple(flags))
+                             tuple(rows), "lllrllr", fit=(0, 1, 2, 5), whole=(3, 4, 6),
+                             flags=tuple(flags),
+                             failing=tuple((3, 6) if flag else () for flag in flags))
             draw_table(fig, spec, range(len(rows)), y - 0.006)
         finish_page(fig, number, total)
         return fig
@@ -196,7 +201,8 @@ def _residual_page(study: Study, result: Assessment, feeder: str) -> PageBuilder
         if rows:
             spec = TableSpec(("downstream", "upstream", "verdict", "decided by", "met"),
                              (1.0, 1.0, 0, 0.3, 0), rows, "llllr", fit=(0, 1, 2, 3, 4),
-                             flags=tuple(not p.ok for p in pairs))
+                             flags=tuple(not p.ok for p in pairs),
+                             failing=tuple(() if p.ok else (4,) for p in pairs))
             draw_table(fig, spec, range(len(rows)), y - 0.006)
         finish_page(fig, number, total)
         return fig
@@ -204,7 +210,8 @@ def _residual_page(study: Study, result: Assessment, feeder: str) -> PageBuilder
     return build
 
 
-def _notes_page(study: Study, levels: FaultLevels, omitted: Sequence[str] = ()) -> PageBuilder:
+def _notes_page(study: Study, levels: FaultLevels, omitted: Sequence[str] = (),
+                sheets_left_out: int = 0) -> PageBuilder:
     def build(number: int, total: int) -> Figure:
         fig = new_page(study, "Notes and limitations")
         y = TOP - 0.01
@@ -217,6 +224,11 @@ def _notes_page(study: Study, levels: FaultLevels, omitted: Sequence[str] = ()) 
                 f"{len(omitted)} circuits with a non-selective pair above them are not drawn "
                 f"(the report draws the {MAX_PAIR_PLOTS} worst); draw any of them with "
                 f"'coordination plot STUDY --circuit ID': {shown}.")))
+        if sheets_left_out:
+            notes.append(("Diagram sheets left out", (
+                f"The report carries the first {MAX_DIAGRAM_PAGES} sheets of the installation "
+                f"diagram; {sheets_left_out} more (boards later in the study) are drawn by "
+                "'coordination diagram STUDY -o FILE.pdf'.")))
         for title, text in notes:
             fig.text(LEFT, y, title, fontsize=10, fontweight="bold", color=INK, va="top")
             y -= 0.019
@@ -232,6 +244,31 @@ def _notes_page(study: Study, levels: FaultLevels, omitted: Sequence[str] = ()) 
         return fig
 
     return build
+
+
+#: The most diagram pages a report carries (the boards' sheet first, then the boards in study
+#: order); the diagram command draws every sheet.
+MAX_DIAGRAM_PAGES = 24
+
+
+def _diagram_pages(study: Study, result: Assessment) -> tuple[list[PageBuilder], int]:
+    """The installation diagram's sheets as pages (:mod:`coordination.diagram`), at most
+    :data:`MAX_DIAGRAM_PAGES`, and how many sheets were left out."""
+    from coordination import diagram
+    from coordination.devices import compact_labels
+
+    sheets = diagram.plan(study)
+    found = diagram.problems(result.analysis, result.checks)
+    device = compact_labels(study, result.analysis.basis)
+    builders: list[PageBuilder] = []
+    for sheet in sheets[:MAX_DIAGRAM_PAGES]:
+        def build(number: int, total: int, sheet: diagram.Sheet = sheet) -> Figure:
+            return diagram.draw_sheet(study, result.levels, sheet, found, device, number=number,
+                                      total=total, title_block=study.title_block,
+                                      counted="page")
+
+        builders.append(build)
+    return builders, max(0, len(sheets) - MAX_DIAGRAM_PAGES)
 
 
 def build_pages(study: Study, result: Assessment) -> list[PageBuilder]:
@@ -264,6 +301,8 @@ def build_pages(study: Study, result: Assessment) -> list[PageBuilder]:
     rcd_boards = residual_boards(study)
     rcd = (lambda text: (text,)) if rcd_boards else (lambda text: ())  # only with RCDs
     pages: list[PageBuilder] = [_cover(study, result)]
+    drawn, left_out = _diagram_pages(study, result)
+    pages += drawn
     pages += table_pages(study, "Device register", (*REGISTER_INTRO, *rcd(REGISTER_RCD)),
                          _device_table(study, basis))
     pages += table_pages(study, "Fault levels", (*FAULTS_INTRO, sentence(levels.convention)),
@@ -277,13 +316,14 @@ def build_pages(study: Study, result: Assessment) -> list[PageBuilder]:
         pages += table_pages(study, "Motor starts and inrush", STARTING_INTRO, starting)
     failures = _check_failures(results)
     if failures.rows:
-        pages += table_pages(study, "Failed protection checks", FAILURES_INTRO, failures)
+        pages += table_pages(study, "Protection checks that fail or are near their limit",
+                             FAILURES_INTRO, failures)
     plan = plot_plan(study, analysis)
     for entry in plan:
         pages.append(_plot_page(study, result, entry))
     for feeder in rcd_boards:
         pages.append(_residual_page(study, result, feeder))
-    pages.append(_notes_page(study, levels, not_drawn(analysis, plan)))
+    pages.append(_notes_page(study, levels, not_drawn(analysis, plan), left_out))
 
     return pages
 

@@ -82,7 +82,8 @@ def _pair_record(p: PairResult) -> dict[str, Any]:
     record.pop("band_basis", None)
     out = {"upstream": record.pop("upstream"), "downstream": record.pop("downstream"),
            "verdict": record.pop("verdict"), "limit_a": record.pop("limit_a"),
-           "window_lo_a": lo, "window_hi_a": hi, "decided_by": record.pop("basis"),
+           "window_lo_a": lo, "window_hi_a": hi, "decided_by": record.pop("decided_by"),
+           "basis": record.pop("basis"),
            "upstream_basis": p.upstream_basis, "downstream_basis": p.downstream_basis}
     out.update(record)
     return out
