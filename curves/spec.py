@@ -280,7 +280,9 @@ def device_label(band: Band, *, compact: bool = False) -> str:
 
     An MCB or a fuse-link is its standard designation (``"B32"``, ``"gG100"``) in both forms; a
     datasheet device its given name; an adjustable breaker its kind, rating and settings in
-    words (:func:`curves.breaker.breaker_label`), compact: kind, rating and Ir.
+    words (:func:`curves.breaker.breaker_label`), compact: kind, rating and Ir; a motor's
+    overload relay with its device (``curves.relay.combined_band``), compact: the relay's class
+    and the device (``"class 10 relay + aM25"``).
 
     Parameters
     ----------
@@ -302,9 +304,17 @@ def device_label(band: Band, *, compact: bool = False) -> str:
     thermal-magnetic 250 A, Ir 200 A
     >>> print(device_label(band_from_spec("gG100"), compact=True))
     gG100
+    >>> from curves.relay import combined_band, relay_band
+    >>> print(device_label(combined_band(relay_band("10", 20.0), band_from_spec("aM25")),
+    ...                    compact=True))
+    class 10 relay + aM25
     """
     from curves.breaker import KIND_WORDS, breaker_label
 
     if compact and band.family in KIND_WORDS:
         return breaker_label(band.family, band.settings, compact=True)
+    if compact and band.family == "motor-circuit":  # curves.relay.combined_band's name
+        relay = band.settings.get("relay", {})
+        device = band.name.rsplit(" with ", 1)[-1]
+        return f"class {relay.get('trip_class', '?')} relay + {device}"
     return band.name
