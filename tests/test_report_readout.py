@@ -141,3 +141,24 @@ def test_numbers_never_wrap(office, table):
                 words = line.split()
                 assert words[0] not in UNITS, (row, line)
                 assert not re.fullmatch(r"[-\d.]+", words[-1]), (row, line)
+
+
+# common practice: a page's content never runs into its footer (the footer rule at 0.045 of the
+# page height, the caution line and the title block under it)
+@pytest.mark.parametrize("example", sorted(p.name for p in EXAMPLES.glob("*.toml")))
+def test_the_cover_stays_above_the_footer(example):
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    s = study.load(EXAMPLES / example)
+    cover = build_pages(s, assess(s))[0](1, 2)
+    canvas = FigureCanvasAgg(cover)
+    canvas.draw()  # places the caution's box
+    renderer = canvas.get_renderer()
+    footer_top = 0.05 * cover.bbox.height  # in display units, from the bottom
+    for text in cover.texts:
+        box = text.get_window_extent(renderer)
+        if text.get_position()[1] > 0.045:  # the footer's own texts sit below its rule
+            assert box.y0 > footer_top, (example, text.get_text()[:40])
+        patch = text.get_bbox_patch()
+        if patch is not None:
+            assert patch.get_window_extent(renderer).y0 > footer_top, (example, "caution box")

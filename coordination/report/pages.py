@@ -91,8 +91,17 @@ def _cover(study: Study, result: Assessment) -> PageBuilder:
                     y -= 0.0155
             return y - 0.012
 
-        if study.title_block:
-            y = block("Title block", [f"{key}: {value}" for key, value in study.title_block], y)
+        if study.title_block:  # two columns: seven short lines would crowd the page's foot
+            fig.text(LEFT, y, "Title block", fontsize=11, fontweight="bold", color=INK,
+                     va="top")
+            y -= 0.022
+            items = [f"{key}: {value}" for key, value in study.title_block]
+            rows = (len(items) + 1) // 2
+            for k, text in enumerate(items):
+                column, row = divmod(k, rows)
+                fig.text(LEFT + 0.44 * column, y - 0.0155 * row, text[:60], fontsize=8.5,
+                         color=INK, va="top")
+            y -= 0.0155 * rows + 0.012
         y = block("Supply", _supply_lines(study, levels), y)
         summary = analysis.summary()
         failed = [r for r in results if not r.ok]
