@@ -23,6 +23,7 @@ from curves.spec import band_from_spec
 DEVICES: dict[str, object] = {
     "mcb (C16)": "C16",
     "gG (gG100)": "gG100",
+    "aM (aM32)": "aM32",
     "breaker-tm": {"family": "tm", "In_a": 250, "Ir_x": 0.8, "Ii_x": 10},
     "breaker-electronic": {"family": "electronic", "In_a": 630, "Ir_x": 0.8, "tr_s": 8,
                            "Isd_x": 6, "tsd_s": 0.2, "sd_i2t": True, "Ii_x": 12},

@@ -7,7 +7,7 @@ from dataclasses import dataclass
 from functools import lru_cache
 from typing import Any
 
-from coordination.model import Study
+from coordination.model import Circuit, Study
 from curves.band import Band
 from curves.errors import InputError
 
@@ -69,8 +69,28 @@ def device_band(device: str | Mapping[str, Any], basis: str = "typical") -> Band
     return _band(freeze(device), basis)
 
 
+def circuit_band(circuit: Circuit, device: str | Mapping[str, Any], basis: str) -> Band:
+    """A device as a circuit uses it: joined with the circuit's motor overload relay if it has
+    one (:func:`coordination.motors.with_relay`), else the device's own band.
+
+    Raises
+    ------
+    InputError
+        The device's own (no circuit named), or the relay's (key ``motor.relay_class``).
+    """
+    from coordination.motors import with_relay
+
+    band = device_band(device, basis)
+    if circuit.motor is None:
+        return band
+    try:
+        return with_relay(band, circuit.motor)
+    except InputError as error:
+        raise error.within(circuit=circuit.id, key="motor") from None
+
+
 def band_for(study: Study, circuit_id: str, basis: str | None = None) -> Band:
-    """The band of a circuit's device.
+    """The band of a circuit's device (with its motor's overload relay, where it has one).
 
     Parameters
     ----------
@@ -93,9 +113,10 @@ def band_for(study: Study, circuit_id: str, basis: str | None = None) -> Band:
         circuit = study.by_id[circuit_id]
     chosen = basis or study.basis_of(circuit_id)
     try:
-        return device_band(circuit.device, chosen)
+        band = device_band(circuit.device, chosen)
     except InputError as error:
         raise error.within(circuit=circuit_id, key="device") from None
+    return band if circuit.motor is None else circuit_band(circuit, circuit.device, chosen)
 
 
 def overcurrent_owner(study: Study, circuit_id: str) -> str:

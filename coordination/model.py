@@ -14,6 +14,7 @@ from typing import Any
 
 from coordination import rules as national
 from coordination.generator import StandbySource
+from coordination.motors import Inrush, Motor
 
 SUPPLY_ID = "supply"
 
@@ -111,6 +112,8 @@ class Circuit:
     ring: bool = False  # a ring final circuit: the cable's length_m is the ring's whole length
     backup_a: Mapping[str, float] = field(default_factory=dict)  # upstream id -> declared [A]
     conditional_a: float | None = None  # the fed board's devices backed up by this one to [A]
+    motor: Motor | None = None  # the motor it feeds: its start and overload relay
+    inrush: Inrush | None = None  # an inrush load: its first peak and duration
 
     def __post_init__(self) -> None:
         if isinstance(self.device, Mapping) and not isinstance(self.device, MappingProxyType):

@@ -48,6 +48,7 @@ from coordination.engine import Analysis, PairResult
 from coordination.faults import FaultLevels, NodeFaults
 from coordination.io import atomic_path
 from coordination.model import Cable, Study
+from coordination.motors import StartProfile
 from coordination.plot_marks import TIME_LABEL, current_text, draw_decrements
 from coordination.text import format_current, format_seconds, positive_or_none
 from curves.band import TIME_CEILING_S, TIME_FLOOR_S, Band
@@ -88,6 +89,12 @@ WITHSTAND_STYLE = {
     "line": {"color": "#5c3d2e", "linestyle": (0, (10, 3)), "linewidth": 1.2},
     "cpc": {"color": "#a0785a", "linestyle": (0, (3, 2, 3, 6)), "linewidth": 1.2},
 }
+
+#: The start of a motor or an inrush load: the r.m.s. profile and the first peak.
+START_STYLE = {"color": "#0b6e4f", "linestyle": "-", "linewidth": 1.6}
+PEAK_STYLE = {"color": "#0b6e4f", "marker": "^", "markersize": 6, "linestyle": "none"}
+#: Time at which the first peak is drawn [s] (the first half-cycle at 50 Hz; common practice).
+PEAK_TIME_S = 0.01
 
 #: The adiabatic equation holds for faults up to 5 s (IEC 60364-4-43, 434.5.2).
 ADIABATIC_LIMIT_S = 5.0
@@ -447,6 +454,9 @@ def plot_circuit(study: Study, levels: FaultLevels, analysis: Analysis, circuit_
                         results)
     if circuit.cable is not None:
         _draw_withstand(ax, layout, key, circuit.cable)
+    start = checks.start_profile(study, circuit_id)
+    if start is not None:
+        _draw_start(ax, layout, key, start)
     for case in cases:
         draw_decrements(ax, key, case, circuit_id, i_min)
     # labels: the Is marks first, then each band's circuit id, clear of each other
@@ -630,6 +640,27 @@ def _draw_withstand(ax: Axes, layout: _Layout, key: list[tuple[Any, str]],
                           label=label, **WITHSTAND_STYLE[name])
         key.append((line, label))
         layout.lines.append(LineString(_points(ax, [i_a, i_b], [t_hi, TIME_FLOOR_S])))
+
+
+def _draw_start(ax: Axes, layout: _Layout, key: list[tuple[Any, str]],
+                start: StartProfile) -> None:
+    """The start as the starting check takes it: the running current from the top of the axis
+    down to the start's end, the start current across and down to the first half-cycle, and the
+    first peak there (:mod:`coordination.motors`)."""
+    from shapely.geometry import LineString
+
+    i = [start.running_a, start.running_a, start.current_a, start.current_a]
+    t = [TIME_CEILING_S, start.duration_s, start.duration_s, PEAK_TIME_S]
+    label = (f"start ({start.kind}): {format_current(start.current_a)} for "
+             f"{format_seconds(start.duration_s)}")
+    (line,) = ax.plot(i, t, zorder=6, gid="starting:line", label=label, **START_STYLE)
+    key.append((line, label))
+    peak_label = (f"first peak {format_current(start.peak_a)} ({start.peak_factor:g} x r.m.s.; "
+                  "common practice)")
+    (peak,) = ax.plot([start.peak_a], [PEAK_TIME_S], zorder=6, gid="starting:peak",
+                      label=peak_label, **PEAK_STYLE)
+    key.append((peak, peak_label))
+    layout.lines.append(LineString(_points(ax, i, t)))
 
 
 def _draw_reading_marks(ax: Axes, layout: _Layout, key: list[tuple[Any, str]], study: Study,

@@ -17,11 +17,13 @@ Keys (units in every name that carries a number)::
                   sustained_x, feeds
     [[circuit]]   id, from, device, load_a, phases, basis, final, board, selective_to_a,
                   tested_limits_a, breaking_capacity_a, margin, interval_s, rcd, sockets,
-                  leakage_ma, ring, backup_a, conditional_a
+                  leakage_ma, ring, backup_a, conditional_a, motor, inrush
     [circuit.rcd]  idn_ma, selective, waveform, delay_s
     [circuit.cable]  length_m, csa_mm2, cpc_mm2, material, insulation, iz_a, parallel,
                   cpc_parallel, neutral_mm2, x_ohm_per_m, cpc_material, cpc_separate,
                   cpc_armour, armour_mm2, armour_ohm_per_m
+    [circuit.motor]  flc_a, start_x, start_s, starting, relay_class, relay_ir_a
+    [circuit.inrush] x, s     (both read by coordination.motors)
 """
 
 
@@ -30,7 +32,7 @@ from __future__ import annotations
 import datetime as dt
 import os
 import stat
-from collections.abc import Mapping
+from collections.abc import Callable, Mapping
 from pathlib import Path
 from typing import Any
 
@@ -39,6 +41,7 @@ import rtoml
 from coordination import cables, rules
 from coordination.generator import StandbySource
 from coordination.model import SUPPLY_ID, Cable, Circuit, Study, Supply, Transformer
+from coordination.motors import Inrush, Motor, inrush_from_table, motor_from_table
 from coordination.residual import RCD_KEYS
 from coordination.study_rules import (
     BASES,
@@ -429,12 +432,23 @@ def _circuit_fields(raw: Mapping[str, Any], cid: str) -> dict[str, Any]:
         raise t.error("device", f"device must be a shorthand text such as 'B32' or an inline "
                                 f"table, not {describe(device)}")
     limits = _upstream_currents(t, raw, "tested_limits_a", "selectivity limit")
+    motor: Motor | None = _load_table(raw, cid, "motor", motor_from_table)
+    inrush: Inrush | None = _load_table(raw, cid, "inrush", inrush_from_table)
+    load = t.number("load_a", unit="A", lo=0.0, hi=MAX_CURRENT_A)
+    if inrush is not None and load is None:
+        raise t.error("inrush", "an inrush is given as a multiple of the circuit's load_a; give "
+                                "load_a (the running current Ib, in A)")
+    if motor is not None and inrush is not None:
+        raise t.error("inrush", "give motor or inrush on one circuit, not both (a motor's start "
+                                "is its inrush)")
     return {
         "id": cid,
         "parent": parent,
         "device": device,
         "phases": t.integer("phases", choices=(1, 3)),
-        "load_a": t.number("load_a", unit="A", lo=0.0, hi=MAX_CURRENT_A),
+        "load_a": load if load is not None or motor is None else motor.flc_a,
+        "motor": motor,
+        "inrush": inrush,
         "cable": _cable(raw["cable"], cid) if t.has("cable") else None,
         "basis": t.choice("basis", BASES),
         "final": t.boolean("final"),
@@ -452,6 +466,18 @@ def _circuit_fields(raw: Mapping[str, Any], cid: str) -> dict[str, Any]:
         "backup_a": _upstream_currents(t, raw, "backup_a", "back-up current"),
         "conditional_a": t.number("conditional_a", unit="A", lo=0.0, hi=MAX_CURRENT_A),
     }
+
+
+def _load_table(raw: Mapping[str, Any], cid: str, key: str,
+                read: Callable[[Mapping[str, Any]], Any]) -> Any:
+    """A circuit's ``motor`` or ``inrush`` table read and checked by ``read`` (from
+    :mod:`coordination.motors`), its errors naming the circuit and the key; None when absent."""
+    if key not in raw:
+        return None
+    try:
+        return read(raw[key])
+    except InputError as error:
+        raise error.within(circuit=cid, key=key) from None
 
 
 def _rcd_table(t: Table, raw: Mapping[str, Any]) -> dict[str, Any] | None:

@@ -35,7 +35,7 @@ STANDBY_KEYS = ("name", "rating_kva", "u0_v", "xd2_pct", "xd1_pct", "td2_s", "td
 CIRCUIT_KEYS = ("id", "from", "device", "load_a", "phases", "basis", "final", "board",
                 "selective_to_a", "tested_limits_a", "breaking_capacity_a", "margin",
                 "interval_s", "cable", "rcd", "sockets", "leakage_ma", "ring", "backup_a",
-                "conditional_a")
+                "conditional_a", "motor", "inrush")
 CABLE_KEYS = ("length_m", "csa_mm2", "cpc_mm2", "material", "insulation", "iz_a", "parallel",
               "cpc_parallel", "neutral_mm2", "x_ohm_per_m", "cpc_material", "cpc_separate",
               "cpc_armour", "armour_mm2", "armour_ohm_per_m")
@@ -625,6 +625,12 @@ def check_rccbs(fields: Mapping[str, dict[str, Any]], order: Sequence[str]) -> N
                                  "with a device above it, and this one is fed from the supply; "
                                  "give it a device (an RCBO) or feed it from a circuit that has "
                                  "one", circuit=cid, key="device")
+            for key in ("motor", "inrush"):  # its start is judged on the circuit's own device
+                if f.get(key) is not None:
+                    raise InputError(f"{key} needs the circuit's own overcurrent device, and this "
+                                     "circuit has none (an RCCB: rcd without device); allowed: "
+                                     "give a device, or put the load on a circuit below it",
+                                     circuit=cid, key=key)
             for key in OVERCURRENT_ONLY_KEYS:
                 if f[key]:
                     raise InputError(f"{key} describes an overcurrent device, and this circuit "

@@ -6,8 +6,9 @@ for the chooser to search it, its series in ``coordination.choose.candidates``).
 
 References
 ----------
-IEC 60898-1 (MCB types B, C, D and ratings), IEC 60269-1 and -2 (gG fuse-links), IEC 60947-2
-(circuit-breakers: thermal-magnetic and electronic releases); datasheet points: the user's.
+IEC 60898-1 (MCB types B, C, D and ratings), IEC 60269-1 and -2 (gG and aM fuse-links),
+IEC 60947-2 (circuit-breakers: thermal-magnetic and electronic releases); datasheet points: the
+user's.
 """
 
 from __future__ import annotations
@@ -130,6 +131,21 @@ def gg(rating: Any, basis: str, breaking_capacity_a: Any = None) -> Band:
     return gg_band(rating_a, basis=basis, breaking_capacity_a=cap)
 
 
+def am(rating: Any, basis: str, breaking_capacity_a: Any = None) -> Band:
+    """An IEC 60269-2 aM fuse-link's band from checked values (see ``curves.fuse_am.am_band``).
+
+    Short-circuit protection only: a circuit with an aM fuse-link needs an overload device (a
+    motor's overload relay, IEC 60947-4-1).
+    """
+    from curves.fuse_am import AM_RATINGS_A, am_band
+
+    rating_a = in_series(positive_number("In_a", rating), AM_RATINGS_A, key="In_a",
+                         what="rating", standard="aM fuse-link")
+    cap = None if breaking_capacity_a is None else positive_number("breaking_capacity_a",
+                                                                   breaking_capacity_a)
+    return am_band(rating_a, basis=basis, breaking_capacity_a=cap)
+
+
 def _mcb_table(t: Mapping[str, Any], basis: str) -> Band:
     return mcb(t["type"], t["In_a"], basis, t.get("energy_class"),
                t.get("icn_a", MCB_DEFAULT_ICN_A), t.get("let_through_a2s"))
@@ -137,6 +153,10 @@ def _mcb_table(t: Mapping[str, Any], basis: str) -> Band:
 
 def _gg_table(t: Mapping[str, Any], basis: str) -> Band:
     return gg(t["In_a"], basis, t.get("breaking_capacity_a"))
+
+
+def _am_table(t: Mapping[str, Any], basis: str) -> Band:
+    return am(t["In_a"], basis, t.get("breaking_capacity_a"))
 
 
 def _tm_table(t: Mapping[str, Any], basis: str) -> Band:
@@ -169,6 +189,10 @@ REGISTRY: tuple[Family, ...] = (
            MappingProxyType({"icn_a": MCB_DEFAULT_ICN_A, "energy_class": 3})),
     Family("gG", "gG", (), ("In_a", "breaking_capacity_a"), ("In_a",), frozenset(), _gg_table,
            "curves.fuse:GG_RATINGS_A", (ChooserGroup("gG", "gG fuse-link", "a gG fuse-link"),)),
+    Family("aM", "aM", (), ("In_a", "breaking_capacity_a"), ("In_a",), frozenset(), _am_table,
+           "curves.fuse_am:AM_RATINGS_A",
+           (ChooserGroup("aM", "aM fuse-link (with the motor's overload relay)",
+                         "an aM fuse-link with the motor's overload relay"),)),
     Family("tm", "breaker-tm", ("breaker-tm",),
            ("In_a", "Ir_a", "Ir_x", "Ii_a", "Ii_x", "icu_a", "ics_a"), ("In_a",),
            frozenset({"Ii_x"}),

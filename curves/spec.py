@@ -6,14 +6,17 @@ Shorthand (case of the letters does not matter):
   energy-limiting class 3 where EN 60898-1 Annex ZA has one (types B and C up to 32 A; none
   for type D and above 32 A).
 * ``"gG100"``: an IEC 60269 gG fuse-link of that rating.
+* ``"aM32"``: an IEC 60269-2 aM fuse-link (short-circuit protection of a motor circuit; its
+  overload protection is the motor's overload relay).
 * Optional suffix, after a space, ``/`` or ``,``: the breaking capacity in kA, e.g.
-  ``"C16 10kA"`` (MCB Icn) or ``"gG100/80kA"`` (fuse-link breaking capacity).
+  ``"C16 10kA"`` (MCB Icn) or ``"gG100/80kA"`` (fuse-link breaking capacity, gG or aM).
 
 Inline tables (TOML, with a ``family`` key; keys carry units)::
 
     {family = "mcb", type = "C", In_a = 16, energy_class = 3, icn_a = 10000}
     {family = "mcb", type = "D", In_a = 32, let_through_a2s = [[3000, 40000], [10000, 250000]]}
     {family = "gG", In_a = 100, breaking_capacity_a = 80000}
+    {family = "aM", In_a = 32, breaking_capacity_a = 80000}
     {family = "tm", In_a = 250, Ir_x = 0.8, Ii_x = 10, icu_a = 36000}
     {family = "electronic", In_a = 630, Ir_x = 0.8, tr_s = 8, Isd_x = 6, tsd_s = 0.2,
      sd_i2t = false, Ii_x = 12, icu_a = 50000}
@@ -38,7 +41,7 @@ import rtoml
 
 from curves.band import Band
 from curves.errors import InputError
-from curves.families import BY_ALIAS, MCB_DEFAULT_ICN_A, REGISTRY, Family, gg, mcb
+from curves.families import BY_ALIAS, MCB_DEFAULT_ICN_A, REGISTRY, Family, am, gg, mcb
 from curves.validate import positive_number
 
 #: Family names an inline table may give (see :mod:`curves.families`).
@@ -47,12 +50,12 @@ FAMILIES = tuple(f.name for f in REGISTRY)
 FAMILY_KEYS: Mapping[str, tuple[str, ...]] = MappingProxyType({f.name: f.keys for f in REGISTRY})
 
 _SHORTHAND = re.compile(
-    r"^(?P<kind>[bcd]|gg)\s*(?P<rating>\d+(?:\.\d+)?)"
+    r"^(?P<kind>[bcd]|gg|am)\s*(?P<rating>\d+(?:\.\d+)?)"
     r"(?:\s*[\s/,]\s*(?P<cap>\d+(?:\.\d+)?)\s*ka)?$",
     re.IGNORECASE,
 )
-_HELP = ('shorthand "B32", "C16", "D10", "gG100" (optional breaking capacity: "C16 10kA"), or '
-         'an inline table with family = ' + ", ".join(f'"{f}"' for f in FAMILIES))
+_HELP = ('shorthand "B32", "C16", "D10", "gG100", "aM32" (optional breaking capacity: '
+         '"C16 10kA"), or an inline table with family = ' + ", ".join(f'"{f}"' for f in FAMILIES))
 
 
 def parse_inline(text: str) -> str | dict:
@@ -142,9 +145,11 @@ def _from_shorthand(text: str, basis: str) -> Band:
     kind = match["kind"].upper()
     rating = float(match["rating"])
     cap = None if match["cap"] is None else float(match["cap"]) * 1000.0
-    basis = _standard_basis(basis, "gG" if kind == "GG" else "mcb")
+    basis = _standard_basis(basis, {"GG": "gG", "AM": "aM"}.get(kind, "mcb"))
     if kind == "GG":
         return gg(rating, basis, cap)
+    if kind == "AM":
+        return am(rating, basis, cap)
     return mcb(kind, rating, basis, None, MCB_DEFAULT_ICN_A if cap is None else cap)
 
 
@@ -193,8 +198,8 @@ def band_from_spec(spec: str | Mapping[str, Any], basis: str = "typical") -> Ban
     Parameters
     ----------
     spec : str or mapping
-        Shorthand (``"B32"``, ``"C16 10kA"``, ``"gG100"``) or an inline table with ``family``
-        (see the module docstring for every family's keys).
+        Shorthand (``"B32"``, ``"C16 10kA"``, ``"gG100"``, ``"aM32"``) or an inline table with
+        ``family`` (see the module docstring for every family's keys).
     basis : str
         ``"typical"`` or ``"envelope"``. A datasheet device always has basis ``"datasheet"``.
 
@@ -211,7 +216,7 @@ def band_from_spec(spec: str | Mapping[str, Any], basis: str = "typical") -> Ban
 
     References
     ----------
-    IEC 60898-1 (MCB types B, C, D), IEC 60269-2 (gG), IEC 60947-2 (breakers).
+    IEC 60898-1 (MCB types B, C, D), IEC 60269-2 (gG, aM), IEC 60947-2 (breakers).
 
     Examples
     --------
@@ -275,7 +280,9 @@ def device_label(band: Band, *, compact: bool = False) -> str:
 
     An MCB or a fuse-link is its standard designation (``"B32"``, ``"gG100"``) in both forms; a
     datasheet device its given name; an adjustable breaker its kind, rating and settings in
-    words (:func:`curves.breaker.breaker_label`), compact: kind, rating and Ir.
+    words (:func:`curves.breaker.breaker_label`), compact: kind, rating and Ir; a motor's
+    overload relay with its device (``curves.relay.combined_band``), compact: the relay's class
+    and the device (``"class 10 relay + aM25"``).
 
     Parameters
     ----------
@@ -297,9 +304,17 @@ def device_label(band: Band, *, compact: bool = False) -> str:
     thermal-magnetic 250 A, Ir 200 A
     >>> print(device_label(band_from_spec("gG100"), compact=True))
     gG100
+    >>> from curves.relay import combined_band, relay_band
+    >>> print(device_label(combined_band(relay_band("10", 20.0), band_from_spec("aM25")),
+    ...                    compact=True))
+    class 10 relay + aM25
     """
     from curves.breaker import KIND_WORDS, breaker_label
 
     if compact and band.family in KIND_WORDS:
         return breaker_label(band.family, band.settings, compact=True)
+    if compact and band.family == "motor-circuit":  # curves.relay.combined_band's name
+        relay = band.settings.get("relay", {})
+        device = band.name.rsplit(" with ", 1)[-1]
+        return f"class {relay.get('trip_class', '?')} relay + {device}"
     return band.name

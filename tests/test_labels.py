@@ -42,7 +42,7 @@ EXAMPLES = Path(__file__).resolve().parents[1] / "examples"
 NAMES = ("small-shop.toml", "office-building.toml")
 
 #: The standards' own designations (IEC 60898-1 types B/C/D; IEC 60269-1 gG), which stay.
-STANDARD_DESIGNATION = re.compile(r"^(?:[BCD]|gG)\d+(?:\.\d+)?$")
+STANDARD_DESIGNATION = re.compile(r"^(?:[BCD]|gG|aM)\d+(?:\.\d+)?$")
 #: A bare letter code followed by a rating, as a maker's catalogue might write it ("X250 ...").
 LETTER_CODE_AND_RATING = re.compile(r"^[A-Za-z]{1,3}\s?\d")
 

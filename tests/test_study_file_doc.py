@@ -24,6 +24,7 @@ def loader_tables() -> dict[str, tuple[str, ...]]:
     The one place that imports the loader's key tuples: when they move to another module, fix
     the imports here.
     """
+    from coordination.motors import INRUSH_KEYS, MOTOR_KEYS
     from coordination.residual import RCD_KEYS
     from coordination.study import (
         CABLE_KEYS,
@@ -44,6 +45,8 @@ def loader_tables() -> dict[str, tuple[str, ...]]:
         "[[supply.standby]]": STANDBY_KEYS,
         "[[circuit]]": CIRCUIT_KEYS,
         "[circuit.cable]": CABLE_KEYS,
+        "[circuit.motor]": MOTOR_KEYS,
+        "[circuit.inrush]": INRUSH_KEYS,
         "[circuit.rcd]": RCD_KEYS,
     }
     # a device's inline table takes ``family`` besides its family's own keys

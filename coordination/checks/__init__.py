@@ -2,7 +2,7 @@
 
 A selective design that leaves a cable unprotected or an earth fault uncleared is no design. For
 every circuit of a study, with the fault levels of :func:`coordination.faults.compute`, this module
-runs four checks a designer documents beside selectivity:
+runs four checks a designer documents beside selectivity, and a fifth on motor circuits:
 
 ``disconnection``
     The device's latest operating time at the minimum earth-fault current at the circuit's far
@@ -16,8 +16,13 @@ runs four checks a designer documents beside selectivity:
 ``breaking-capacity``
     The device's rated short-circuit breaking capacity against the largest fault at its board
     (IEC 60364-4-43, 434.5.1).
+``starting``
+    On a circuit with a motor or an inrush load: neither the circuit's device nor any device
+    above it operates during the start, and the start's first peak stays at or below every
+    lowest instantaneous pickup (:mod:`coordination.motors`). On the study's selectivity basis,
+    since it asks whether the installation starts, not whether it is safe.
 
-These are safety checks: they always take the worst case that a device complying with its
+The first four are safety checks: they always take the worst case that a device complying with its
 standard allows (the band's envelope basis: the upper edge, the maximum let-through energy),
 whatever basis the study chose for selectivity. For MCBs this reproduces BS 7671 Table 41.3: the
 0.4 s of Table 41.1 is met only in the instantaneous region, so Ia is the upper instantaneous
@@ -34,6 +39,7 @@ The package, by responsibility (names with a leading underscore are internal to 
 ``overload``           IEC 60364-4-43 433.1 and the device or cable to choose instead
 ``fault_energy``       the adiabatic rule, conductor sizes and k, the fault-energy check
 ``breaking_capacity``  the device against the largest fault at its board
+``starting``           a motor's start or an inrush through the circuit's device and those above
 ``runner``             :func:`check_device` (one circuit) and :func:`run` (a study)
 
 The text table of the results is :func:`coordination.tables.check_table`.
@@ -65,6 +71,7 @@ from coordination.checks.fault_energy import (
 from coordination.checks.overload import overload_conditions, overload_ok
 from coordination.checks.results import CHECK_NAMES, CheckResult
 from coordination.checks.runner import check_device, run
+from coordination.checks.starting import STARTING_SOURCE, start_profile, starting_chain
 
 __all__ = [
     "ADIABATIC_LIMIT_S",
@@ -78,6 +85,7 @@ __all__ = [
     "K_TABLE",
     "K_TABLE_SOURCE",
     "MATERIAL_ALIASES",
+    "STARTING_SOURCE",
     "TABLE_41_1",
     "TABLE_41_1_SOURCE",
     "CheckResult",
@@ -92,4 +100,6 @@ __all__ = [
     "overload_conditions",
     "overload_ok",
     "run",
+    "start_profile",
+    "starting_chain",
 ]

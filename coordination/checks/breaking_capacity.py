@@ -34,8 +34,9 @@ def _breaking_capacity(study: Study, cid: str, band: Band, node: Any) -> CheckRe
         rating = "breaking capacity"
     elif band.breaking_capacity_a is not None:
         capacity = float(band.breaking_capacity_a)
+        family = band.settings.get("short_circuit_family", band.family)  # a motor's device
         origin = ("given in the study" if capacity_stated(circuit.device)
-                  else f"assumed: the {band.family} family default")
+                  else f"assumed: the {family} family default")
     else:
         capacity, origin = math.nan, "unknown"
     if rating == "Ics":

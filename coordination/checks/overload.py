@@ -150,14 +150,34 @@ def _iz_needed_a(in_a: float, i2_a: float, implied: bool = False) -> float:
     return math.ceil(need * 10.0 - 1e-9) / 10.0
 
 
+#: Why an aM fuse-link alone fails the overload check.
+AM_NO_OVERLOAD = ("gives no overload protection (IEC 60269-1, utilization category a: it breaks "
+                  "short-circuit currents only): give the motor's overload relay "
+                  "(motor.relay_class, motor.relay_ir_a) or choose a gG fuse-link or an MCB")
+#: What the overload check takes from a motor's overload relay.
+RELAY_TERMS = ("In is the relay's Ir and I2 its 1.2 Ir (IEC 60947-4-1: trip within 2 h at "
+               "1.2 Ir)")
+
+
 def _overload(study: Study, cid: str, band: Band) -> CheckResult | None:
     circuit = study.by_id[cid]
     ib = circuit.load_a
     iz = circuit.cable.iz_a if circuit.cable is not None else None
+    rule_set = study.rule_set
+    if band.family == "aM":  # short-circuit protection only: never an overload device
+        i2 = float(band.pickup_max_a)
+        limit = 1.45 * float(iz) if iz is not None else math.nan
+        details = {"ib_a": ib, "in_a": _in_a(band), "iz_a": iz, "i2_a": i2,
+                   "binding": "overload device", "source": "IEC 60364-4-43 433.1; IEC 60269-1"}
+        return CheckResult(cid, "overload", False, i2, limit, "A",
+                           rules.tagged(rule_set, f"{band.name} {AM_NO_OVERLOAD}"), band.basis,
+                           details, rule_set.key)
     if ib is None and iz is None:
         return None
-    rule_set = study.rule_set
     ok, value, limit, reason, details = _overload_verdict(band, ib, iz, rule_set)
+    if band.family == "motor-circuit":  # the relay protects against overload
+        reason = f"{reason}; {RELAY_TERMS}"
+        details = {**details, "source": f"IEC 60364-4-43 433.1; {RELAY_TERMS}"}
     return CheckResult(cid, "overload", ok, value, limit, "A", reason, band.basis, details,
                        rule_set.key)
 

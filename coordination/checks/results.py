@@ -13,9 +13,10 @@ from curves.band import Band
 
 #: Check names, in the order they are run and printed.
 CHECK_NAMES = ("disconnection", "overload", "fault-energy", "breaking-capacity",
-               "touch-voltage", "additional-protection", "leakage")
+               "touch-voltage", "additional-protection", "leakage", "starting")
 #: The checks every circuit with an overcurrent device has data for, or is listed "not
-#: checked" without (the residual-current checks apply only where there are RCDs or sockets).
+#: checked" without (the residual-current checks apply only where there are RCDs or sockets,
+#: starting only on a circuit with a motor or an inrush).
 CIRCUIT_CHECK_NAMES = CHECK_NAMES[:4]
 
 

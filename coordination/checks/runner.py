@@ -11,6 +11,7 @@ from coordination.checks.fault_energy import _fault_energy
 from coordination.checks.overload import _overload
 from coordination.checks.residual_checks import residual_results
 from coordination.checks.results import CheckResult
+from coordination.checks.starting import _starting
 from coordination.faults import FaultLevels
 from coordination.model import Study
 from coordination.residual import has_rcds
@@ -41,7 +42,8 @@ def check_device(study: Study, levels: FaultLevels, circuit_id: str,
     -------
     tuple of CheckResult
         In the order of :data:`~coordination.checks.CHECK_NAMES`; a check the study gives no
-        data for (overload without Ib and Iz, fault energy without a cable) is left out.
+        data for (overload without Ib and Iz, fault energy without a cable, starting without a
+        motor or an inrush) is left out.
 
     References
     ----------
@@ -89,6 +91,7 @@ def _check_device(study: Study, circuit_id: str, band: Band, node: Any,
         if circuit.device is not None:  # an RCCB breaks no fault current: the device above
             results.append(_breaking_capacity(study, circuit_id, band, node))  # does, and is
             # checked at its own board
+        results.append(_starting(study, circuit_id, band))
     except InputError as error:
         if error.key is not None and error.key.startswith("supply"):
             raise

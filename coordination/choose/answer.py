@@ -216,8 +216,10 @@ def choose(study: Study, circuit_id: str, *, family: str | None = None,
         reason = f"{band.name} meets every requirement; the next smaller candidate " \
                  f"({binding.device}) fails {binding.text}"
     per_setting = _setting_bindings(problem, winner)
-    return Choice(circuit_id, True, winner.spec, float(band.rating_a),
-                  MappingProxyType(dict(band.settings)),
+    own = band.settings.get("short_circuit", band.settings) \
+        if band.family == "motor-circuit" else band.settings  # the device, not its relay
+    rating = float(winner.rating_a) if band.family == "motor-circuit" else float(band.rating_a)
+    return Choice(circuit_id, True, winner.spec, rating, MappingProxyType(dict(own)),
                   binding.text if binding is not None else None, reason, problem.family,
                   band.name, (), problem.state.searched, previous,
                   MappingProxyType(per_setting))

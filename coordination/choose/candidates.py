@@ -3,7 +3,7 @@ adjustable breakers (evaluated as whole arrays, never built one by one for the s
 
 References
 ----------
-IEC 60898-1 (MCB ratings and Icn), IEC 60269-1 (gG ratings), IEC 60947-2 (breakers, their
+IEC 60898-1 (MCB ratings and Icn), IEC 60269-1 (gG and aM ratings), IEC 60947-2 (breakers, their
 settings); the setting grids of ``curves.breaker`` (common practice).
 """
 
@@ -22,7 +22,7 @@ from curves.band import Band
 from curves.errors import InputError
 
 #: Families the chooser can search, as given to ``--family``: the chooser groups of the device
-#: family registry (MCB types, gG fuse-links, thermal-magnetic and electronic breakers).
+#: family registry (MCB types, gG and aM fuse-links, thermal-magnetic and electronic breakers).
 FAMILIES = tuple(g.code for g in families.GROUPS)
 
 
@@ -71,12 +71,14 @@ def mcb_spec(curve: str, rating: float, energy_class: int, icn_a: float) -> str 
             "energy_class": int(energy_class), "icn_a": num(icn_a)}
 
 
-def _gg_spec(rating: float, breaking_capacity_a: float | None) -> str | dict:
+def _fuse_spec(family: str, rating: float, breaking_capacity_a: float | None) -> str | dict:
+    """A fuse-link's spec, ``"gG100"``, ``"aM32/80kA"`` or an inline table."""
     if breaking_capacity_a is None:
-        return f"gG{rating:g}"
+        return f"{family}{rating:g}"
     if (breaking_capacity_a / 1000).is_integer():
-        return f"gG{rating:g}/{breaking_capacity_a / 1000:g}kA"
-    return {"family": "gG", "In_a": num(rating), "breaking_capacity_a": num(breaking_capacity_a)}
+        return f"{family}{rating:g}/{breaking_capacity_a / 1000:g}kA"
+    return {"family": family, "In_a": num(rating),
+            "breaking_capacity_a": num(breaking_capacity_a)}
 
 
 def num(x: float) -> float | int:
@@ -143,16 +145,17 @@ def _mcb_series(curve: str, current: Band, ik_board_a: float) -> list[Candidate]
             for r in families.BY_NAME["mcb"].ratings()]
 
 
-def _gg_series(current: Band) -> list[Candidate]:
-    from curves.fuse import gg_band
+def _fuse_series(family: str, current: Band) -> list[Candidate]:
+    """A fuse-link family's ratings (``"gG"`` or ``"aM"``), keeping a breaking capacity the
+    study states for its present fuse-link of that family."""
+    from curves.fuse import DEFAULT_BREAKING_CAPACITY_A
 
-    given = None  # a breaking capacity the study states for its fuse-link is kept
-    if current.family == "gG" and current.breaking_capacity_a is not None:
-        default = gg_band(current.rating_a).breaking_capacity_a
-        if default is None or not math.isclose(current.breaking_capacity_a, default):
-            given = float(current.breaking_capacity_a)
-    return [Candidate(_gg_spec(r, given), float(r), float(r), (float(r),))
-            for r in families.BY_NAME["gG"].ratings()]
+    given = None
+    if current.family == family and current.breaking_capacity_a is not None and \
+            not math.isclose(current.breaking_capacity_a, DEFAULT_BREAKING_CAPACITY_A):
+        given = float(current.breaking_capacity_a)
+    return [Candidate(_fuse_spec(family, r, given), float(r), float(r), (float(r),))
+            for r in families.BY_NAME[family].ratings()]
 
 
 def _capacity(series: Sequence[float], given: float | None, fault_a: float) -> float:
@@ -363,13 +366,14 @@ def candidate_groups(family: str, current: Band, fault_a: float) -> list[Any]:
     Returns
     -------
     list
-        Lists of :class:`Candidate` (MCB, gG: one per rating; thermal-magnetic: Ii ascending)
+        Lists of :class:`Candidate` (MCB, gG, aM: one per rating; thermal-magnetic: Ii
+        ascending)
         or :class:`SettingsGrid` (electronic).
 
     References
     ----------
-    IEC 60898-1 (MCB ratings), IEC 60269-1 (gG ratings), IEC 60947-2 (breakers); the setting
-    grids of ``curves.breaker`` (common practice).
+    IEC 60898-1 (MCB ratings), IEC 60269-1 (gG and aM ratings), IEC 60947-2 (breakers); the
+    setting grids of ``curves.breaker`` (common practice).
 
     Examples
     --------
@@ -381,6 +385,6 @@ def candidate_groups(family: str, current: Band, fault_a: float) -> list[Any]:
     kind = families.BY_GROUP[family].name
     if kind == "mcb":
         return [[c] for c in _mcb_series(family, current, fault_a)]
-    if kind == "gG":
-        return [[c] for c in _gg_series(current)]
+    if kind in ("gG", "aM"):
+        return [[c] for c in _fuse_series(kind, current)]
     return _breaker_groups(family, current, fault_a)

@@ -18,7 +18,6 @@ from coordination import backup, criterion, rules
 from coordination.choose.candidates import Candidate
 from coordination.choose.problem import STAGES, Failure, Pair, Problem, substitute
 from coordination.choose.screening import TESTABLE_S
-from coordination.devices import device_band
 from coordination.model import SUPPLY_ID
 from curves.band import Band
 from curves.errors import InputError
@@ -33,9 +32,17 @@ def cheap_failure(problem: Problem, cand: Candidate, band: Band) -> Failure | No
             "tm", "electronic")
         return Failure("load", f"load: Ib {ib:g} A > {'Ir' if adjustable else 'In'} "
                                f"{setting:g} A")
+    if band.family == "aM" and "overload" not in problem.relaxed:  # no relay on this circuit
+        from coordination.checks.overload import AM_NO_OVERLOAD
+
+        return Failure("overload", f"overload: {band.name} {AM_NO_OVERLOAD}")
     if iz is not None and "overload" not in problem.relaxed:
-        # I2 of the worst compliant device, as coordination.checks takes it
-        i2 = float(device_band(cand.spec, "envelope").pickup_max_a)
+        # I2 of the worst compliant device, as coordination.checks takes it; a motor's overload
+        # relay protects the cable where there is one (its Ir and 1.2 Ir, IEC 60947-4-1)
+        envelope = problem.band(cand.spec, "envelope")
+        i2 = float(envelope.pickup_max_a)
+        if envelope.family == "motor-circuit":
+            setting = float(envelope.rating_a)
         if setting > iz * (1 + 1e-9):
             return Failure("overload", f"cable: In {setting:g} A > Iz {iz:g} A (Ib <= In <= Iz)",
                            need_a=setting)
@@ -79,18 +86,18 @@ def exact_failure(problem: Problem, cand: Candidate) -> Failure | None:
     failure = _exact_failure(problem, cand)
     if failure is None:
         return None
-    return dataclasses.replace(failure, device=device_band(cand.spec, problem.basis).name)
+    return dataclasses.replace(failure, device=problem.band(cand.spec, problem.basis).name)
 
 
 def _exact_failure(problem: Problem, cand: Candidate) -> Failure | None:
     from coordination import checks
 
     problem.state.searched += 1
-    band = device_band(cand.spec, problem.basis)
+    band = problem.band(cand.spec, problem.basis)
     cheap = cheap_failure(problem, cand, band)
     if cheap is not None:
         return cheap
-    envelope = device_band(cand.spec, "envelope")
+    envelope = problem.band(cand.spec, "envelope")
     study = substitute(problem.study, problem.circuit_id, cand.spec)
     results = checks.check_device(study, problem.levels, problem.circuit_id, envelope)
     for stage in ("overload", "breaking-capacity", "disconnection", "fault-energy"):
@@ -252,7 +259,7 @@ def _present_key(problem: Problem) -> tuple:
 def is_present(problem: Problem, spec: Any) -> bool:
     """Whether a candidate is the circuit's present device (see :func:`_present_key`)."""
     try:
-        return device_band(spec, problem.basis).key == _present_key(problem)
+        return problem.band(spec, problem.basis).key == _present_key(problem)
     except InputError:
         return False
 

@@ -42,6 +42,7 @@ from coordination.choose.problem import (
     Problem,
     SearchState,
     build_problem,
+    has_relay,
     rebuilt,
     substitute,
     with_circuits,
@@ -81,8 +82,8 @@ def _ceil_sig(x: float, digits: int = 4) -> float:
 
 def _named(problem: Problem, failures: Iterable[tuple[Candidate, Failure]]) -> list[Failure]:
     """The failures past the load stage, each with its candidate's name."""
-    return [f if f.device else dataclasses.replace(f, device=device_band(c.spec,
-                                                                         problem.basis).name)
+    return [f if f.device else dataclasses.replace(f, device=problem.band(c.spec,
+                                                                          problem.basis).name)
             for c, f in failures if f.stage != "load"]
 
 
@@ -155,7 +156,7 @@ def _groups_where(problem: Problem, groups: list[Any], stages: set[str | None]) 
         cand = _first(group)
         if cand is None:
             continue
-        failure = cheap_failure(problem, cand, device_band(cand.spec, problem.basis))
+        failure = cheap_failure(problem, cand, problem.band(cand.spec, problem.basis))
         if (failure.stage if failure is not None else None) in stages:
             out.append(group)
     return out
@@ -175,12 +176,14 @@ def _search_variant(problem: Problem, variant: Problem, groups: list[Any]) -> tu
 
 
 def _iz_needed(problem: Problem, cand: Candidate) -> float:
-    """Iz that In <= Iz and I2 <= 1.45 Iz need [A] (I2 of the worst compliant device; In <= Iz
-    alone where the study's rule set holds it enough, :func:`coordination.rules.i2_implied`)."""
-    band = device_band(cand.spec, "envelope")
-    if rules.i2_implied(problem.study.rule_set, band.family):
-        return cand.setting_a
-    return max(cand.setting_a, float(band.pickup_max_a) / 1.45)
+    """Iz that In <= Iz and I2 <= 1.45 Iz need [A] (I2 of the worst compliant device; with a
+    motor's overload relay, its Ir and 1.2 Ir; In <= Iz alone where the study's rule set holds
+    it enough, :func:`coordination.rules.i2_implied`)."""
+    envelope = problem.band(cand.spec, "envelope")
+    setting = envelope.rating_a if envelope.family == "motor-circuit" else cand.setting_a
+    if rules.i2_implied(problem.study.rule_set, envelope.family):
+        return setting
+    return max(setting, float(envelope.pickup_max_a) / 1.45)
 
 
 def _remedy_cable(problem: Problem, groups: list[Any]) -> tuple[bool, str] | None:
@@ -535,7 +538,7 @@ def why_nothing_fits(problem: Problem, failures: list[tuple[Candidate, Failure]]
         noun = FAMILY_NOUNS[family]
         reason = (f"every {noun} candidate is below the design current Ib {ib:g} A"
                   if ib is not None else f"no {noun} candidate could be built")
-        for other in ("tm", "electronic"):
+        for other in _other_families(problem, ("tm", "electronic")):
             if other != family:
                 add(_remedy_family(problem, other, current))
         return reason, tuple(helps), tuple(short)
@@ -561,10 +564,21 @@ def why_nothing_fits(problem: Problem, failures: list[tuple[Candidate, Failure]]
     if "selectivity-below" in stages:
         for result in _remedies_below(problem, groups, current):
             add(result)
-        for other in ("gG", "electronic"):
+        for other in _other_families(problem, ("gG", "electronic")):
             if other != family:
                 add(_remedy_family(problem, other, current))
     if "selectivity-above" in stages:
         for result in _remedies_above(problem, groups):
             add(result)
+    if "starting" in stages:  # a fuse-link's band lies later at a motor's start current
+        for other in _other_families(problem, ("aM", "gG")):
+            if other != family:
+                add(_remedy_family(problem, other, current))
     return reason, tuple(helps), tuple(short)
+
+
+def _other_families(problem: Problem, families: tuple[str, ...]) -> tuple[str, ...]:
+    """The families a remedy may try on this circuit: an aM fuse-link only with a motor's
+    overload relay (it gives no overload protection), no electronic grid with one."""
+    relay = has_relay(problem.study, problem.circuit_id)
+    return tuple(f for f in families if (f != "aM" or relay) and (f != "electronic" or not relay))

@@ -116,10 +116,18 @@ class Problem:
     # the requirements on each source that feeds the circuit too
     cases: tuple[Any, ...] = ()
 
+    def band(self, spec: str | Mapping[str, Any], basis: str) -> Band:
+        """A candidate's band as the circuit uses it: on a motor circuit with an overload
+        relay, joined with the relay (:func:`coordination.devices.circuit_band`)."""
+        from coordination.devices import circuit_band
+
+        return circuit_band(self.study.by_id[self.circuit_id], spec, basis)
+
 
 def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None,
                   skip_above: frozenset[str] = frozenset()) -> tuple[Problem, Band]:
-    """One circuit's problem, and its present device's band.
+    """One circuit's problem, and its present device's band (the device alone: a motor's
+    overload relay is joined to each candidate by :meth:`Problem.band`).
 
     Raises
     ------
@@ -129,7 +137,7 @@ def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None
     if circuit_id not in study.by_id:
         raise InputError(f"no circuit {circuit_id!r} in the study; circuits: "
                          f"{', '.join(list(study.by_id)[:12])}", key="--circuit")
-    from coordination.devices import band_for
+    from coordination.devices import band_for, device_band
 
     circuit = study.by_id[circuit_id]
     if circuit.device is None:
@@ -140,7 +148,8 @@ def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None
                          f"the device of {overcurrent_owner(study, circuit_id)!r}",
                          circuit=circuit_id, key="--circuit")
     basis = study.basis_of(circuit_id)
-    current = band_for(study, circuit_id, basis)
+    band_for(study, circuit_id, basis)  # the circuit's device checked, its circuit named
+    current = device_band(circuit.device, basis)  # the device itself, a motor's relay aside
     if family is None:
         fam = family_of(current)
         if fam is None:
@@ -149,6 +158,11 @@ def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None
                              f"{', '.join(FAMILIES)})", circuit=circuit_id, key="--family")
     else:
         fam = normalise_family(family)
+    if fam == "electronic" and has_relay(study, circuit_id):
+        raise InputError("electronic breakers are not searched for a motor circuit with an "
+                         "overload relay (their settings grid is screened without the relay); "
+                         "give --family tm, aM, gG, B, C or D", circuit=circuit_id,
+                         key="--family")
     nodes = levels.by_circuit
     node = nodes[circuit_id]
     ik_board = float(node.ik_max_a)
@@ -231,6 +245,12 @@ def _cases(study: Study) -> tuple[Any, ...]:
     from coordination.standby import case_levels
 
     return tuple(case_levels(study, source) for source in study.supply.standby)
+
+
+def has_relay(study: Study, circuit_id: str) -> bool:
+    """The circuit feeds a motor with an overload relay (IEC 60947-4-1)."""
+    motor = study.by_id[circuit_id].motor
+    return motor is not None and motor.relay_class is not None
 
 
 def substitute(study: Study, circuit_id: str, spec: str | Mapping[str, Any]) -> Study:

@@ -14,7 +14,6 @@ from coordination.choose.candidates import Candidate, SettingsGrid
 from coordination.choose.exact import cheap_failure, exact_failure, is_present
 from coordination.choose.problem import MAX_CONFIRM, Failure, Problem
 from coordination.choose.screening import screen, screen_grid
-from coordination.devices import device_band
 from curves.band import Band
 
 #: Groups up to this size are decided candidate by candidate (no screen).
@@ -71,12 +70,12 @@ def search_groups(problem: Problem, groups: list[Any]) -> tuple[
                 failure = exact_failure(problem, cand)
                 if failure is None:
                     binding = binding_of(problem, group, i, previous)
-                    return cand, device_band(cand.spec, problem.basis), binding, failures
+                    return cand, problem.band(cand.spec, problem.basis), binding, failures
                 failures.append((cand, failure))
                 previous = (cand, failure)
             continue
         # a short list of settings: cheap masks, the screen, then exact confirmation
-        bands = [device_band(c.spec, problem.basis) for c in group]
+        bands = [problem.band(c.spec, problem.basis) for c in group]
         cheap = [cheap_failure(problem, c, band) for c, band in zip(group, bands, strict=True)]
         keep = [i for i, f in enumerate(cheap) if f is None]
         problem.state.searched += len(group)
@@ -115,7 +114,7 @@ def search_grid(problem: Problem, grid: SettingsGrid,
     if valid.size == 0:
         return None, None, previous
     first, last = grid.candidate(valid[0]), grid.candidate(valid[-1])
-    cheap = cheap_failure(problem, first, device_band(first.spec, problem.basis))
+    cheap = cheap_failure(problem, first, problem.band(first.spec, problem.basis))
     problem.state.searched += len(valid)
     if cheap is not None:
         if not failures or failures[-1][1].stage != cheap.stage:
@@ -137,7 +136,7 @@ def search_grid(problem: Problem, grid: SettingsGrid,
             binding = named_failure(problem, previous)
         else:
             binding = None
-        return cand, device_band(cand.spec, problem.basis), binding
+        return cand, problem.band(cand.spec, problem.basis), binding
 
     for n, index in enumerate(passing[:problem.state.max_confirm]):
         failure = exact_failure(problem, grid.candidate(index))
@@ -179,4 +178,4 @@ def named_failure(problem: Problem, previous: tuple[Candidate, Failure | None]) 
         return exact_failure(problem, cand)
     if failure.device:
         return failure
-    return dataclasses.replace(failure, device=device_band(cand.spec, problem.basis).name)
+    return dataclasses.replace(failure, device=problem.band(cand.spec, problem.basis).name)

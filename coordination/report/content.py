@@ -22,9 +22,12 @@ from .layout import TableSpec
 STANDARDS = (
     ("IEC 60898-1", "circuit-breakers for household and similar installations (MCBs, types B, C "
                     "and D; energy-limiting classes)"),
-    ("IEC 60269-1 / -2", "low-voltage fuses, gG fuse-links: gates, conventional currents, I2t"),
+    ("IEC 60269-1 / -2", "low-voltage fuses, gG and aM fuse-links: gates, conventional "
+                         "currents, I2t"),
     ("IEC 60947-2", "circuit-breakers: thermal-magnetic and electronic releases, selectivity "
                     "(Annex A)"),
+    ("IEC 60947-4-1", "motor starters: overload relays (trip classes 10A, 10, 20, 30), "
+                      "contactors"),
     ("IEC 60909-0", "short-circuit currents in three-phase a.c. systems (simplified for LV)"),
     ("IEC 60364-4-41", "protection against electric shock: disconnection times (Table 41.1)"),
     ("IEC 60364-4-43", "protection against overcurrent: overload and fault energy (k^2 S^2)"),
@@ -314,6 +317,25 @@ def _check_failures(results: Sequence[CheckResult]) -> TableSpec:
                      flags=tuple(bool(f) for f in failing), failing=tuple(failing))
 
 
+def _starting_table(results: Sequence[CheckResult]) -> TableSpec:
+    """One row per circuit with a motor or an inrush: the start, the device that decides it,
+    the time it waits at its current (or its pickup against the first peak), the result."""
+    rows, flags = [], []
+    for r in results:
+        if r.check != "starting":
+            continue
+        d = r.details
+        start = (f"{d.get('starting', '')} {format_current(float(d['start_current_a']))} for "
+                 f"{value_text(d.get('start_s'), 's')}, peak {format_current(float(d['peak_a']))}")
+        rows.append((r.circuit, start, str(d.get("binding_circuit", "")),
+                     "ok" if r.ok else "FAIL", value_text(r.value, r.unit),
+                     value_text(r.limit, r.unit), r.reason))
+        flags.append(not r.ok)
+    return TableSpec(("circuit", "start", "decided by", "result", "value", "limit", "why"),
+                     (0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 1.0), tuple(rows), "llllrrl", wrap=(6,),
+                     fit=(0, 1, 2, 3, 4, 5), flags=tuple(flags))
+
+
 def _supply_lines(study: Study, levels: FaultLevels) -> list[str]:
     s = study.supply
     lines = [f"{s.u0_v:g} V to earth, {s.phases}-phase, {s.earthing} earthing"]
@@ -472,7 +494,20 @@ CHECKS_INTRO = (
     "in time, for overload the comparison that binds (Ib <= In, In <= Iz or I2 <= 1.45 Iz). "
     "'-' where the study lacks the data. Only the cells of failed checks are set in red; "
     "failures and near limits are detailed after the table, and the reason for every check "
-    "is in the CSV output (--csv).",
+    "is in the CSV output (--csv). Motor starts and inrush loads (the starting check) have a "
+    "table of their own.",
+)
+
+#: Above the starting checks.
+STARTING_INTRO = (
+    "Each motor start and inrush load of the study, through the circuit's device and every "
+    "device above it (each carrying the start plus the Ib of its own circuit), on the study's "
+    "selectivity basis: the start passes when no device may operate before it ends (value: "
+    "the start's time, limit: the least operating time) and its first peak, taken as 2.0 "
+    "times the r.m.s. start current (the safe end of 1.7-2, common practice; an inrush as "
+    "given), stays at or below every lowest instantaneous pickup (value: the peak, limit: the "
+    "pickup). Starts are rectangular (the trip side) and the devices cold: a device warm from "
+    "its running load operates sooner. Verify against the makers' curves.",
 )
 
 #: Above the failed protection checks.

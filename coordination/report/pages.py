@@ -32,12 +32,14 @@ from .content import (
     REGISTER_INTRO,
     REGISTER_RCD,
     STANDARDS,
+    STARTING_INTRO,
     _basis_summary,
     _check_failures,
     _check_matrix,
     _device_table,
     _fault_table,
     _pair_table,
+    _starting_table,
     _supply_lines,
     ka_text,
     report_date,
@@ -323,6 +325,9 @@ def build_pages(study: Study, result: Assessment) -> list[PageBuilder]:
                          _pair_table(study, analysis))
     pages += table_pages(study, "Protection checks", (*CHECKS_INTRO, *rcd(CHECKS_RCD)),
                          _check_matrix(study, results))
+    starting = _starting_table(results)
+    if starting.rows:
+        pages += table_pages(study, "Motor starts and inrush", STARTING_INTRO, starting)
     failures = _check_failures(results)
     if failures.rows:
         pages += table_pages(study, "Protection checks that fail or are near their limit",
