@@ -238,6 +238,12 @@ def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None
     return problem, current
 
 
+def has_relay(study: Study, circuit_id: str) -> bool:
+    """The circuit feeds a motor with an overload relay (IEC 60947-4-1)."""
+    motor = study.by_id[circuit_id].motor
+    return motor is not None and motor.relay_class is not None
+
+
 def _cases(study: Study) -> tuple[Any, ...]:
     """The fault levels of every standby source of the study (none without one)."""
     if not study.supply.standby:
@@ -245,12 +251,6 @@ def _cases(study: Study) -> tuple[Any, ...]:
     from coordination.standby import case_levels
 
     return tuple(case_levels(study, source) for source in study.supply.standby)
-
-
-def has_relay(study: Study, circuit_id: str) -> bool:
-    """The circuit feeds a motor with an overload relay (IEC 60947-4-1)."""
-    motor = study.by_id[circuit_id].motor
-    return motor is not None and motor.relay_class is not None
 
 
 def substitute(study: Study, circuit_id: str, spec: str | Mapping[str, Any]) -> Study:
