@@ -196,18 +196,21 @@ def _probe(edge: Edge, fields: list[np.ndarray], decrement: Decrement, t: np.nda
 
 def _refine(edge: Edge, rows: Decrement, a_s: np.ndarray, b_s: np.ndarray) -> np.ndarray:
     """The meetings in ``[a_s, b_s]`` (not met at a_s, met at b_s), one per fault, by bisection
-    in log10 t to ``_XTOL``: the later end of each final bracket [s]."""
+    in log10 t to ``_XTOL``: the later end of each final bracket [s]. A bracket stops once it
+    is narrow enough, so a fault's time never depends on the others searched with it."""
     a, b = np.log10(a_s), np.log10(b_s)
-    while np.any(b - a > _XTOL):
+    while True:
+        open_ = (b - a) > _XTOL
+        if not open_.any():
+            return 10.0**b
         mid = 0.5 * (a + b)
         x = 10.0**mid
         current = rows.current_a(x)
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
             h = np.asarray(edge(np.asarray(current, dtype=float)), dtype=float)
         now = x >= np.where(np.isnan(h), np.inf, h)
-        b = np.where(now, mid, b)
-        a = np.where(now, a, mid)
-    return 10.0**b
+        b = np.where(open_ & now, mid, b)
+        a = np.where(open_ & ~now, mid, a)
 
 
 def clearing_time_s(band: Band, decrement: Decrement) -> np.ndarray:
