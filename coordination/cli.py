@@ -285,12 +285,22 @@ def faults(study_path: StudyArg, as_json: JsonOption = False) -> None:
 
     s = load_study(study_path)
     levels = fault_levels.compute(s)
+    cases = ()
+    if s.supply.standby:
+        from coordination.standby import case_levels
+
+        cases = tuple(case_levels(s, source) for source in s.supply.standby)
     if as_json:  # FaultLevels.to_json(), its nodes written a block at a time (as in check)
         payload = {"nodes": Records(levels.nodes, fault_levels.NodeFaults.to_json),
                    "origin": levels.origin_json(), "convention": levels.convention}
+        if cases:  # one entry per standby source, its nodes carrying "case"
+            payload["cases"] = [case.to_json() for case in cases]
         echo_json(payload)
     else:
         typer.echo(tables.fault_table(s, levels))
+        for case in cases:
+            typer.echo("")
+            typer.echo(tables.case_fault_table(s, case))
 
 
 @app.command()
@@ -312,17 +322,26 @@ def check(
     result = assess(s, check_basis(basis))
     analysis = result.analysis
     verdict(0 if result.ok else 1)
+    pairs, results = analysis.all_pairs, result.checks
+    for case in result.cases:  # every case's rows after the normal supply's, each with "case"
+        pairs, results = (*pairs, *case.analysis.pairs), (*results, *case.checks)
     if as_json:
-        payload = {"pairs": Records(analysis.all_pairs, engine.PairResult.to_json),
+        payload = {"pairs": Records(pairs, engine.PairResult.to_json),
                    "summary": analysis.summary(),
-                   "checks": Records(result.checks, checks.CheckResult.json_record),
+                   "checks": Records(results, checks.CheckResult.json_record),
                    "rules": rules.json_rules(s.rule_set),
                    "ok": result.ok, "caution": CAUTION}
+        if result.cases:
+            payload["cases"] = {c.name: {"summary": c.analysis.summary(), "ok": c.ok}
+                                for c in result.cases}
         echo_json(payload)
     else:
         typer.echo(tables.check_text(s, result.levels, analysis, result.checks,
                                      every_row=every_row, study_path=str(study_path)))
         typer.echo("")
+        for case in result.cases:  # each standby source's pairs and checks, as above
+            typer.echo(tables.case_text(s, case, every_row=every_row))
+            typer.echo("")
         typer.echo(fit_lines(CAUTION))
     raise typer.Exit(0 if result.ok else 1)
 
@@ -408,7 +427,8 @@ def plot(
         fig = plot_residual(s, circuit, levels=result.levels)
     else:
         fig = plotting.plot_circuit(s, result.levels, result.analysis, circuit,
-                                    results=result.checks)
+                                    results=result.checks,
+                                    cases=[c.case for c in result.cases])
     plotting.save_figure(fig, output)
     typer.echo(f"wrote {output}")
 

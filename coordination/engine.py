@@ -130,7 +130,9 @@ class PairResult:
     """The selectivity of one circuit under one of its ancestors, with the requirement.
 
     ``ok`` is true when the verdict is total, or when ``limit_a`` reaches the required current
-    (``required_a``, capped at the window's top; ``None`` requires total selectivity).
+    (``required_a``, capped at the window's top; ``None`` requires total selectivity). ``case``
+    is the supply it holds for: ``"normal"``, or a standby source's name (its window and limit
+    are then the initial currents of decaying faults, :mod:`coordination.standby`).
     """
 
     upstream: str
@@ -153,6 +155,7 @@ class PairResult:
     upstream_last: str = ""
     upstream_count: int = 1
     protection: Protection = "overcurrent"
+    case: str = "normal"  # the supply case: "normal" or a standby source's name
 
     @property
     def basis(self) -> str:
@@ -189,6 +192,7 @@ class PairResult:
         ``upstream_last``, have the same device: the row stands for each of those pairs.
         """
         return {
+            "case": self.case,
             "upstream": self.upstream,
             "upstream_last": self.upstream_last or self.upstream,
             "upstream_count": self.upstream_count,

@@ -13,6 +13,7 @@ from types import MappingProxyType
 from typing import Any
 
 from coordination import rules as national
+from coordination.generator import StandbySource
 from coordination.motors import Inrush, Motor
 
 SUPPLY_ID = "supply"
@@ -51,6 +52,8 @@ class Supply:
     pfc_ln_a: float | None = None  # line-neutral prospective fault current at the origin of a
     # three-phase supply [A]; None: bounded, pfc_a for maximum currents, a loop of twice the
     # phase impedance (half the current) for minimum currents (see coordination.faults)
+    standby: tuple[StandbySource, ...] = ()  # standby generators, each a case of its own
+    # (coordination.standby): a board fed by one of them through a changeover
     ra_ohm: float | None = None  # TT: earth electrode + protective conductors of the exposed
     # parts, RA [ohm] (IEC 60364-4-41, 411.5.3: RA x IΔn <= 50 V)
 

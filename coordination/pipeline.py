@@ -14,6 +14,7 @@ from coordination.checks import CheckResult
 from coordination.engine import Analysis
 from coordination.faults import FaultLevels
 from coordination.model import Study
+from coordination.standby import CaseAssessment, assess_case
 
 
 @dataclass(frozen=True)
@@ -29,9 +30,13 @@ class Assessment:
     checks : tuple of CheckResult
         Every protection check, on the envelope basis (:func:`coordination.checks.run`).
     ok : bool
-        Every selectivity requirement and every protection check is met.
+        Every selectivity requirement and every protection check is met, on the normal supply
+        and on every standby source.
     basis : str or None
         The band basis asked for (``None``: each circuit's own, else the study's).
+    cases : tuple of CaseAssessment
+        One per standby source (:func:`coordination.standby.assess_case`), in the study's
+        order; empty without standby sources.
     """
 
     levels: FaultLevels
@@ -39,6 +44,7 @@ class Assessment:
     checks: tuple[CheckResult, ...]
     ok: bool
     basis: str | None = None
+    cases: tuple[CaseAssessment, ...] = ()
 
 
 def assess(study: Study, basis: str | None = None) -> Assessment:
@@ -74,5 +80,7 @@ def assess(study: Study, basis: str | None = None) -> Assessment:
     levels = faults.compute(study)
     analysis = engine.analyse(study, levels, basis=basis)
     results = checks.run(study, levels)
-    ok = bool(analysis.ok and all(r.ok for r in results))
-    return Assessment(levels=levels, analysis=analysis, checks=results, ok=ok, basis=basis)
+    cases = tuple(assess_case(study, source, basis) for source in study.supply.standby)
+    ok = bool(analysis.ok and all(r.ok for r in results) and all(c.ok for c in cases))
+    return Assessment(levels=levels, analysis=analysis, checks=results, ok=ok, basis=basis,
+                      cases=cases)

@@ -26,7 +26,8 @@ Every artist that stands for something carries a ``gid`` so that tests and calle
 ``zone-mark:<upstream>><downstream>`` (a small zone's box and strip),
 ``limit:<upstream>><downstream>`` (Is, the upstream named), ``marker:max-fault``,
 ``marker:min-earth-fault``, ``marker:load``, ``withstand:line``, ``withstand:cpc``, and those of
-:mod:`coordination.plot_marks` (the 10 ms line, tested limits, the disconnection check's point).
+:mod:`coordination.plot_marks` (the 10 ms line, tested limits, the disconnection check's point,
+a standby source's decaying faults).
 """
 
 from __future__ import annotations
@@ -48,7 +49,7 @@ from coordination.faults import FaultLevels, NodeFaults
 from coordination.io import atomic_path
 from coordination.model import Cable, Study
 from coordination.motors import StartProfile
-from coordination.plot_marks import TIME_LABEL, current_text
+from coordination.plot_marks import TIME_LABEL, current_text, draw_decrements
 from coordination.text import format_current, format_seconds, positive_or_none
 from curves.band import TIME_CEILING_S, TIME_FLOOR_S, Band
 from curves.errors import InputError
@@ -366,7 +367,7 @@ def _literal_text(draw: Any) -> Any:
 def plot_circuit(study: Study, levels: FaultLevels, analysis: Analysis, circuit_id: str, *,
                  basis: str | None = None, ax: Axes | None = None,
                  title: str | None = None,
-                 results: Sequence[CheckResult] | None = None) -> Figure:
+                 results: Sequence[CheckResult] | None = None, cases: Sequence[Any] = ()) -> Figure:
     """Time-current plot of a circuit's device and every device above it.
 
     Parameters
@@ -391,6 +392,8 @@ def plot_circuit(study: Study, levels: FaultLevels, analysis: Analysis, circuit_
         The study's protection checks (:func:`coordination.checks.run`): the disconnection
         check's operating point is marked on the minimum earth-fault line. By default the
         circuit's checks are run here.
+    cases : sequence of SupplyCase, optional
+        Standby sources: their decaying faults on the circuit (:func:`plot_marks.draw_decrements`).
 
     Returns
     -------
@@ -454,6 +457,8 @@ def plot_circuit(study: Study, levels: FaultLevels, analysis: Analysis, circuit_
     start = checks.start_profile(study, circuit_id)
     if start is not None:
         _draw_start(ax, layout, key, start)
+    for case in cases:
+        draw_decrements(ax, key, case, circuit_id, i_min)
     # labels: the Is marks first, then each band's circuit id, clear of each other
     _place_limits(ax, layout, limits)
     _place_tags(ax, layout, tags)

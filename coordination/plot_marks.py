@@ -3,8 +3,10 @@ the operating point of the disconnection check.
 
 Drawing steps of :func:`coordination.plot.plot_circuit`, each on the Axes it is given, each
 artist with a ``gid``: ``energy-region`` (the line at 10 ms) and ``energy-region-text``,
-``tested:<upstream>><downstream>``, ``marker:disconnection`` (the point the check took) and
-``marker:disconnection-limit`` (its required time at the same current).
+``tested:<upstream>><downstream>``, ``marker:disconnection`` (the point the check took),
+``marker:disconnection-limit`` (its required time at the same current) and, on a circuit a
+standby source feeds, ``decrement:<case>:max-fault`` and ``decrement:<case>:min-earth-fault``
+(its decaying faults, :mod:`coordination.standby`).
 """
 
 from __future__ import annotations
@@ -25,6 +27,11 @@ if TYPE_CHECKING:  # pragma: no cover
 ENERGY_STYLE = {"color": "#6b6b6b", "linestyle": (0, (1, 1.5)), "linewidth": 0.9}
 TESTED_STYLE = {"color": "#0e4f7a", "linestyle": (0, (6, 1.5, 1, 1.5, 1, 1.5)), "linewidth": 1.5}
 CHECK_POINT_STYLE = {"color": "#111111", "markersize": 6.0, "markeredgewidth": 1.2}
+#: The decaying fault currents of a standby source (our own colour: a dark teal).
+DECREMENT_STYLE = {
+    "max-fault": {"color": "#0b5e55", "linestyle": "-", "linewidth": 1.8},
+    "min-earth-fault": {"color": "#0b5e55", "linestyle": (0, (5, 2, 1, 2)), "linewidth": 1.5},
+}
 #: The y axis label: what a time below 10 ms means on these plots.
 TIME_LABEL = "time [s]  (below 10 ms: equivalent time I\u00b2t / I\u00b2)"
 
@@ -96,3 +103,42 @@ def draw_disconnection_point(ax: Axes, key: list[tuple[Any, str]],
             gid="marker:disconnection-limit")
     key.append((point, label))
     return current, shown
+
+
+def draw_decrements(ax: Axes, key: list[tuple[Any, str]], case: Any, circuit_id: str,
+                    i_min: float) -> None:
+    """A standby source's decaying faults on a circuit it feeds, as curves (I(t), t): the
+    maximum fault at the board and the minimum earth fault at the far end; a curve meets a
+    band where that device operates (common practice).
+
+    Parameters
+    ----------
+    ax : Axes
+        The plot.
+    key : list
+        The legend's (handle, label) pairs, appended to.
+    case : SupplyCase
+        :func:`coordination.standby.case_levels` of the source.
+    circuit_id : str
+        The circuit drawn (nothing is drawn where the source does not feed it).
+    i_min : float
+        The current axis' left end [A]: a curve stops there.
+    """
+    if circuit_id not in case.nodes:
+        return
+    from coordination.generator import decrement_curve
+    from coordination.standby import window_decrement
+    from curves.band import TIME_CEILING_S, TIME_FLOOR_S
+
+    node = case.nodes[circuit_id]
+    for name, decrement, what in (
+            ("max-fault", window_decrement(node), "maximum fault at the board"),
+            ("min-earth-fault", node.earth_end, "minimum earth fault at far end")):
+        i, t = decrement_curve(decrement, t_from_s=TIME_FLOOR_S, t_to_s=TIME_CEILING_S,
+                               floor_a=i_min)
+        if i.size < 2:
+            continue
+        label = f"{case.name}: {what}, {format_current(float(i[0]))} decaying"
+        (line,) = ax.plot(i, t, zorder=5, gid=f"decrement:{case.name}:{name}", label=label,
+                          **DECREMENT_STYLE[name])
+        key.append((line, label))

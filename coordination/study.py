@@ -13,6 +13,8 @@ Keys (units in every name that carries a number)::
                   reference, revision, designer, checker, date
     [supply]      u0_v, phases, earthing, pfc_a, pfc_ln_a, ze_ohm, x_r, c_max, c_min, ra_ohm
     [supply.transformer]  rating_kva, impedance_pct, x_r, upstream_pfc_a, upstream_x_r, u_lv_v
+    [[supply.standby]]  name, rating_kva, u0_v, xd2_pct, xd1_pct, td2_s, td1_s, x0_pct,
+                  sustained_x, feeds
     [[circuit]]   id, from, device, load_a, phases, basis, final, board, selective_to_a,
                   tested_limits_a, breaking_capacity_a, margin, interval_s, rcd, sockets,
                   leakage_ma, ring, backup_a, conditional_a, motor, inrush
@@ -37,6 +39,7 @@ from typing import Any
 import rtoml
 
 from coordination import cables, rules
+from coordination.generator import StandbySource
 from coordination.model import SUPPLY_ID, Cable, Circuit, Study, Supply, Transformer
 from coordination.motors import Inrush, Motor, inrush_from_table, motor_from_table
 from coordination.residual import RCD_KEYS
@@ -54,6 +57,7 @@ from coordination.study_rules import (
     MAX_ZE_OHM,
     MIN_FAULT_A,
     PFC_ZE_TOLERANCE,
+    STANDBY_KEYS,
     STUDY_KEYS,
     SUPPLY_KEYS,
     TABLES,
@@ -69,6 +73,7 @@ from coordination.study_rules import (
     check_rated_voltage,
     check_rccbs,
     check_source,
+    check_standby,
     describe,
     parents_first,
 )
@@ -90,6 +95,7 @@ __all__ = [
     "MAX_ZE_OHM",
     "MIN_FAULT_A",
     "PFC_ZE_TOLERANCE",
+    "STANDBY_KEYS",
     "STUDY_KEYS",
     "SUPPLY_KEYS",
     "TABLES",
@@ -158,6 +164,58 @@ def _transformer(data: Any) -> Transformer:
     )
 
 
+#: The case name of the normal supply, which no standby source may take.
+NORMAL_CASE = "normal"
+
+
+def _standby_source(data: Any, number: int, u0_v: float) -> StandbySource:
+    """One ``[[supply.standby]]`` table."""
+    where = f"supply.standby[{number}]"
+    t = Table(data, STANDBY_KEYS, prefix=f"{where}.", name="[[supply.standby]]",
+              table="supply.standby")
+    name = t.text("name", required=True, what="a text (the source's name, its case)")
+    assert name is not None
+    if name != name.strip() or len(name) > MAX_ID_CHARS or name.lower() == NORMAL_CASE:
+        raise t.error("name", f"name {name!r} is not allowed; allowed: a text of at most "
+                              f"{MAX_ID_CHARS} characters without leading or trailing spaces, "
+                              f"other than {NORMAL_CASE!r} (the normal supply's case)")
+    t = Table(data, STANDBY_KEYS, prefix=f"supply.standby.{name}.", name="[[supply.standby]]",
+              table="supply.standby")
+    xd2 = t.number("xd2_pct", unit="%", lo=0.0, hi=100.0, required=True)
+    xd1 = t.number("xd1_pct", unit="% (at least xd2_pct)", lo=xd2, hi=500.0, lo_open=False,
+                   required=True)
+    td2 = t.number("td2_s", unit="s", lo=0.001, hi=1.0, lo_open=False, required=True)
+    td1 = t.number("td1_s", unit="s (more than td2_s)", lo=td2, hi=10.0, required=True)
+    feeds = t.text("feeds", what=f"a circuit id, or '{SUPPLY_ID}' for the origin")
+    return StandbySource(
+        name=name,
+        rating_kva=t.number("rating_kva", unit="kVA", lo=0.0, hi=100000.0, required=True),
+        u0_v=t.number("u0_v", unit="V", lo=50.0, hi=1000.0, default=u0_v),
+        xd2_pct=xd2, xd1_pct=xd1, td2_s=td2, td1_s=td1,
+        x0_pct=t.number("x0_pct", unit="%", lo=0.0, hi=100.0, required=True),
+        sustained_x=t.number("sustained_x", unit="x rated current (not above the transient "
+                             "current 100 / xd1_pct)", lo=0.0, hi=100.0 / xd1, lo_open=False,
+                             default=0.0),
+        feeds=feeds,
+    )
+
+
+def _standby(data: Any, u0_v: float) -> tuple[StandbySource, ...]:
+    """The ``[[supply.standby]]`` array: each source read, names unique."""
+    if not isinstance(data, list):
+        raise InputError("standby must be an array of tables: write [[supply.standby]] "
+                         "(double brackets) before each standby source", key="supply.standby")
+    sources: list[StandbySource] = []
+    for number, raw in enumerate(data, start=1):
+        source = _standby_source(raw, number, u0_v)
+        if any(s.name == source.name for s in sources):
+            raise InputError(f"two standby sources are named {source.name!r}; every source "
+                             "needs its own name (it names its case)",
+                             key=f"supply.standby.{source.name}.name")
+        sources.append(source)
+    return tuple(sources)
+
+
 def _supply(data: Any) -> Supply:
     t = Table(data, SUPPLY_KEYS, prefix="supply.", name="[supply]", table="supply")
     phases = t.integer("phases", choices=(1, 3), default=3)
@@ -197,6 +255,7 @@ def _supply(data: Any) -> Supply:
     check_source(u0_v, pfc_a, pfc_ln_a, ze_ohm, earthing)
     if transformer is not None:
         check_rated_voltage(transformer.u_lv_v, u0_v)
+    standby = _standby(t.data["standby"], u0_v) if t.has("standby") else ()
     return Supply(
         u0_v=u0_v,
         phases=phases,
@@ -209,6 +268,7 @@ def _supply(data: Any) -> Supply:
         c_min=c_min,
         pfc_ln_a=pfc_ln_a,
         ra_ohm=ra_ohm,
+        standby=standby,
     )
 
 
@@ -501,6 +561,7 @@ def from_dict(data: Any, source: str | None = None) -> Study:
         title_block=study_fields["title_block"],
         rules=study_fields["rules"],
     )
+    check_standby(study)
     check_devices(study)
     return study
 

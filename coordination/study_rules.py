@@ -27,9 +27,11 @@ TITLE_BLOCK_KEYS = ("client", "project", "reference", "revision", "designer", "c
 TITLE_BLOCK_CHARS = 80
 STUDY_KEYS = ("title", "basis", "margin", "interval_s", "rules", *TITLE_BLOCK_KEYS)
 SUPPLY_KEYS = ("u0_v", "phases", "earthing", "pfc_a", "pfc_ln_a", "ze_ohm", "x_r", "c_max",
-               "c_min", "transformer", "ra_ohm")
+               "c_min", "transformer", "ra_ohm", "standby")
 TRANSFORMER_KEYS = ("rating_kva", "impedance_pct", "x_r", "upstream_pfc_a", "upstream_x_r",
                     "u_lv_v")
+STANDBY_KEYS = ("name", "rating_kva", "u0_v", "xd2_pct", "xd1_pct", "td2_s", "td1_s", "x0_pct",
+                "sustained_x", "feeds")
 CIRCUIT_KEYS = ("id", "from", "device", "load_a", "phases", "basis", "final", "board",
                 "selective_to_a", "tested_limits_a", "breaking_capacity_a", "margin",
                 "interval_s", "cable", "rcd", "sockets", "leakage_ma", "ring", "backup_a",
@@ -111,21 +113,30 @@ TABLES: dict[str, tuple[str, ...]] = {
     "study": STUDY_KEYS,
     "supply": SUPPLY_KEYS,
     "supply.transformer": TRANSFORMER_KEYS,
+    "supply.standby": STANDBY_KEYS,
     "circuit": CIRCUIT_KEYS,
     "circuit.cable": CABLE_KEYS,
 }
 #: What a table's keys are called in messages.
 _KIND = {"": "top-level", "study": "study", "supply": "supply",
-         "supply.transformer": "transformer", "circuit": "circuit", "circuit.cable": "cable",
-         "device": "device"}
+         "supply.transformer": "transformer", "supply.standby": "standby source",
+         "circuit": "circuit", "circuit.cable": "cable", "device": "device"}
 #: Where to look for a key that is unknown in a table, nearest table first.
 _ELSEWHERE = {
-    "": ("study", "supply", "supply.transformer", "circuit", "circuit.cable", "device"),
-    "study": ("supply", "supply.transformer", "circuit", "circuit.cable", "device"),
-    "supply": ("supply.transformer", "study", "circuit", "circuit.cable", "device"),
-    "supply.transformer": ("supply", "study", "circuit", "circuit.cable", "device"),
-    "circuit": ("circuit.cable", "device", "study", "supply", "supply.transformer"),
-    "circuit.cable": ("circuit", "device", "study", "supply", "supply.transformer"),
+    "": ("study", "supply", "supply.transformer", "supply.standby", "circuit", "circuit.cable",
+         "device"),
+    "study": ("supply", "supply.transformer", "supply.standby", "circuit", "circuit.cable",
+              "device"),
+    "supply": ("supply.transformer", "supply.standby", "study", "circuit", "circuit.cable",
+               "device"),
+    "supply.transformer": ("supply", "supply.standby", "study", "circuit", "circuit.cable",
+                           "device"),
+    "supply.standby": ("supply", "supply.transformer", "study", "circuit", "circuit.cable",
+                       "device"),
+    "circuit": ("circuit.cable", "device", "study", "supply", "supply.transformer",
+                "supply.standby"),
+    "circuit.cable": ("circuit", "device", "study", "supply", "supply.transformer",
+                      "supply.standby"),
 }
 
 
@@ -547,6 +558,30 @@ def _check_above(fields: Mapping[str, dict[str, Any]], cid: str, parent: str, up
                          "upstream circuit; allowed: "
                          f"{shown or 'none (the circuit is fed from the supply)'}",
                          circuit=cid, key=f"{key}.{up}")
+
+
+def check_standby(study: Study) -> None:
+    """Refuse a standby source that feeds nothing: ``feeds`` naming no circuit, or a circuit
+    whose board has no circuits, or a source under a single-phase supply."""
+    names = {c.id for c in study.circuits}
+    for source in study.supply.standby:
+        key = f"supply.standby.{source.name}"
+        if study.supply.phases != 3:
+            raise InputError("a standby generator is three-phase; it needs a three-phase "
+                             "supply (phases = 3)", key=key)
+        feeds = source.feeds
+        if feeds is None or feeds == SUPPLY_ID:
+            continue
+        if feeds not in names:
+            near = difflib.get_close_matches(feeds, sorted(names), n=1, cutoff=0.6)
+            hint = f" (did you mean {near[0]!r}?)" if near else ""
+            raise InputError(f"feeds {feeds!r} is not a circuit{hint}; allowed: the id of the "
+                             f"circuit whose board the source supplies, or '{SUPPLY_ID}'",
+                             key=f"{key}.feeds")
+        if not study.children.get(feeds):
+            raise InputError(f"circuit {feeds!r} feeds no board (no circuit has from = "
+                             f"{feeds!r}), so the source would supply nothing; allowed: a "
+                             f"circuit that feeds a board, or '{SUPPLY_ID}'", key=f"{key}.feeds")
 
 
 def check_devices(study: Study) -> None:

@@ -29,6 +29,7 @@ if TYPE_CHECKING:
     from coordination.checks import CheckResult
     from coordination.engine import Analysis, PairResult
     from coordination.faults import FaultLevels
+    from coordination.standby import CaseAssessment, SupplyCase
     from curves.band import Band
 
 
@@ -77,18 +78,89 @@ def fault_table(study: Study, levels: FaultLevels) -> str:
         ["circuit", "board", "ph", "Ik3 kA", "Ik1 kA", "window kA", "Zs ohm", "Ief min kA",
          "Ik min kA"],
         rows, "lllrrrrrr")
-    foot = textwrap.wrap("convention: " + levels.convention, 100, subsequent_indent="  ")
-    foot += textwrap.wrap(
-        "columns: at the circuit's board (its origin) the maximum three-phase (Ik3) and "
+    return _with_notes(head, body, levels.convention, (
+        "at the circuit's board (its origin) the maximum three-phase (Ik3) and "
         "line-neutral (Ik1) currents and the window's end; at its far end the earth-fault loop "
         "Zs, the minimum earth-fault current Ief and the minimum short-circuit current Ik min "
-        "(LL: line-line, the cable has no neutral).", 100, subsequent_indent="  ")
-    if rings:
-        foot += textwrap.wrap(
-            "(ring): a ring final circuit; its far end is the ring's mid-point, where R1 + R2 "
-            "is a quarter of the end-to-end (r1 + r2) (common practice).", 100,
-            subsequent_indent="  ")
+        "(LL: line-line, the cable has no neutral)."), RING_NOTE if rings else None)
+
+
+#: Under a fault table that has a ring final circuit.
+RING_NOTE = ("(ring): a ring final circuit; its far end is the ring's mid-point, where R1 + R2 "
+             "is a quarter of the end-to-end (r1 + r2) (common practice).")
+
+
+def _with_notes(head: list[str], body: str, convention: str, columns: str,
+                more: str | None = None) -> str:
+    """A fault table under its head lines, with the convention, the columns and any further
+    note in words."""
+    foot = textwrap.wrap("convention: " + convention, 100, subsequent_indent="  ")
+    foot += textwrap.wrap("columns: " + columns, 100, subsequent_indent="  ")
+    if more:
+        foot += textwrap.wrap(more, 100, subsequent_indent="  ")
     return "\n".join([*head, "", body, "", *foot])
+
+
+def case_heading(study: Study, case: SupplyCase) -> str:
+    """The heading of a standby case's tables: the source and the board it feeds.
+
+    Examples
+    --------
+    >>> from coordination.generator import StandbySource
+    >>> from coordination.model import Circuit, Supply
+    >>> from coordination.standby import case_levels
+    >>> s = Study("t", Supply(pfc_a=16000.0), (Circuit("in", "supply", "gG200", board="MSB"),
+    ...                                        Circuit("a", "in", "B16")))
+    >>> print(case_heading(s, case_levels(s, StandbySource("gen", 500, 230, 12, 25, 0.02, 0.3,
+    ...                                                    5))))
+    Case 'gen': standby generator 500 kVA on board MSB (1 circuit; sustained current 0 x In)
+    """
+    src = case.source
+    where = ("the origin" if case.feeds == "supply"
+             else f"board {study.by_id[case.feeds].board or case.feeds}")
+    n = len(case.circuits)
+    return (f"Case {case.name!r}: standby generator {src.rating_kva:g} kVA on {where} "
+            f"({n} circuit{'s' if n != 1 else ''}; sustained current {src.sustained_x:g} x In)")
+
+
+def case_fault_table(study: Study, case: SupplyCase) -> str:
+    """A standby case's fault levels: initial currents, and how the earth fault at each far end
+    decays (initial, transient, sustained).
+
+    Examples
+    --------
+    >>> from coordination.generator import StandbySource
+    >>> from coordination.model import Circuit, Supply
+    >>> from coordination.standby import case_levels
+    >>> s = Study("t", Supply(pfc_a=16000.0), (Circuit("in", "supply", "gG200"),
+    ...                                        Circuit("a", "in", "B16")))
+    >>> text = case_fault_table(s, case_levels(s, StandbySource("g", 500, 230, 12, 25, 0.02,
+    ...                                                         0.3, 5)))
+    >>> print(text.splitlines()[1])
+    terminals: I''k3 max 6.402 kA, I''k1 max 7.975 kA, U0 230 V
+    """
+    levels = case.levels
+    head = [case_heading(study, case),
+            f"terminals: I''k3 max {_ka(levels.origin_ik3_a)} kA, I''k1 max "
+            f"{_ka(levels.origin_ik1_a)} kA, U0 {levels.u0_v:g} V"]
+    rows = []
+    for node in levels.nodes:
+        d = case.nodes[node.circuit].earth_end
+        rows.append([
+            node.circuit + (" (ring)" if study.by_id[node.circuit].ring else ""), node.board,
+            str(node.phases), _ka(node.ik3_max_a),
+            _ka(node.ik1_max_a), _ka(node.ik_max_a), _ka(node.ief_min_a),
+            _ka(float(d.i_trans_a)), _ka(float(d.i_sust_a)),
+            _ka(node.ik_min_end_a) + ("" if node.ik_min_end_kind == "line-neutral" else " LL"),
+        ])
+    body = table(["circuit", "board", "ph", "Ik3 kA", "Ik1 kA", "window kA", "Ief min kA",
+                  "transient kA", "sustained kA", "Ik min kA"], rows, "lllrrrrrrr")
+    return _with_notes(head, body, levels.convention, (
+        "initial (subtransient) currents: at the circuit's board the maximum "
+        "three-phase (Ik3) and line-neutral (Ik1) currents and the window's end; at its far "
+        "end the minimum earth fault Ief, its transient and sustained values, and the minimum "
+        "short circuit Ik min (LL: line-line)."),
+        RING_NOTE if any(study.by_id[c].ring for c in case.circuits) else None)
 
 
 # ---------------------------------------------------------------------------------------------
@@ -347,7 +419,8 @@ def _margin_text(result: CheckResult) -> str:
 
 
 def check_table(results: Sequence[CheckResult] | Iterable[CheckResult], *,
-                attention_only: bool = False, width: int | None = TERMINAL_COLUMNS) -> str:
+                attention_only: bool = False, width: int | None = TERMINAL_COLUMNS,
+                expected: Sequence[str] | None = None) -> str:
     """The protection checks as a plain-text table, circuit by circuit, failures marked.
 
     Parameters
@@ -358,6 +431,9 @@ def check_table(results: Sequence[CheckResult] | Iterable[CheckResult], *,
         Only the checks that fail or are near their limit (the summary ``check`` prints).
     width : int or None
         The widest line; each row's reason is set under it, wrapped to this width.
+    expected : sequence of str, optional
+        The checks each circuit should have (default: ``CIRCUIT_CHECK_NAMES``); those
+        missing are listed as not checked.
 
     Returns
     -------
@@ -379,6 +455,10 @@ def check_table(results: Sequence[CheckResult] | Iterable[CheckResult], *,
     heading = ("Protection checks (worst case a compliant device allows: envelope upper edge, "
                "maximum let-through; each passes when value <= limit; near limit: within "
                f"{NEAR_LIMIT:.0%} of it; disconnection compares the loop impedance Zs)")
+    if expected is not None and "overload" not in expected:  # a standby source's checks
+        heading = heading.replace("disconnection compares the loop impedance Zs",
+                                  "disconnection compares the clearing time under the "
+                                  "decaying fault")
     grouped: dict[str, list[CheckResult]] = defaultdict(list)
     for r in results:
         grouped[r.circuit].append(r)
@@ -393,7 +473,7 @@ def check_table(results: Sequence[CheckResult] | Iterable[CheckResult], *,
                          _margin_text(r)])
             reasons.append(r.reason)
         present = {r.check for r in mine}
-        absent = [c for c in CIRCUIT_CHECK_NAMES if c not in present]
+        absent = [c for c in (expected or CIRCUIT_CHECK_NAMES) if c not in present]
         if absent:
             missing.append(f"{cid} ({', '.join(absent)})")
     if rows:
@@ -472,6 +552,38 @@ def check_text(study: Study, levels: Any, analysis: Analysis, results: Sequence[
             subsequent_indent="  ")))
     if not every_row:
         blocks.append(f"every pair and every check: coordination check {study_path} --all")
+    return "\n\n".join(blocks)
+
+
+def case_text(study: Study, case: CaseAssessment, *, every_row: bool = False,
+              width: int | None = TERMINAL_COLUMNS) -> str:
+    """A standby source's part of the ``check`` command's printout: its heading, then as for
+    the normal supply (:func:`check_text`) the pairs below their required selectivity and the
+    checks that fail or are near their limit, or with ``every_row`` every pair and check.
+
+    Examples
+    --------
+    >>> from coordination.generator import StandbySource
+    >>> from coordination.model import Cable, Circuit, Supply
+    >>> from coordination.standby import assess_case
+    >>> s = Study("t", Supply(pfc_a=16000.0), (
+    ...     Circuit("in", "supply", "gG200"), Circuit("sub", "in", "gG63", cable=Cable(30, 16)),
+    ...     Circuit("a", "sub", "B16", phases=1, cable=Cable(20, 2.5, 1.5))))
+    >>> case = assess_case(s, StandbySource("gen", 500, 230, 12, 25, 0.02, 0.3, 5))
+    >>> print(case_text(s, case).splitlines()[0])
+    Case 'gen': standby generator 500 kVA on board in (2 circuits; sustained current 0 x In)
+    """
+    from coordination.standby import CASE_CHECKS
+
+    blocks = [case_heading(study, case.case)]
+    if not every_row:
+        unmet = sum(1 for p in case.analysis.pairs if not p.ok)
+        blocks.append(f"Pairs below their required selectivity on this source: {unmet}"
+                      + (" (none)" if not unmet else ""))
+    blocks.append(pair_table(study, case.case.levels, case.analysis, unmet_only=not every_row,
+                             width=width))
+    blocks.append(check_table(case.checks, attention_only=not every_row, width=width,
+                              expected=CASE_CHECKS))
     return "\n\n".join(blocks)
 
 

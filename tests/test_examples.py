@@ -12,7 +12,7 @@ from coordination.plot import plot_circuit
 
 EXAMPLES = Path(__file__).resolve().parents[1] / "examples"
 #: The examples that show a crossover zone on purpose (README: "Examples"); the others pass.
-SELECTIVITY_DEMOS = ("small-shop.toml", "office-building.toml")
+SELECTIVITY_DEMOS = ("small-shop.toml", "office-building.toml", "standby-generator.toml")
 #: Every bundled example.
 NAMES = (*SELECTIVITY_DEMOS, "orchard-cottage-tt.toml", "cycle-shop-bs7671.toml",
          "plant-room.toml")

@@ -29,6 +29,7 @@ def loader_tables() -> dict[str, tuple[str, ...]]:
     from coordination.study import (
         CABLE_KEYS,
         CIRCUIT_KEYS,
+        STANDBY_KEYS,
         STUDY_KEYS,
         SUPPLY_KEYS,
         TOP_KEYS,
@@ -41,6 +42,7 @@ def loader_tables() -> dict[str, tuple[str, ...]]:
         "[study]": STUDY_KEYS,
         "[supply]": SUPPLY_KEYS,
         "[supply.transformer]": TRANSFORMER_KEYS,
+        "[[supply.standby]]": STANDBY_KEYS,
         "[[circuit]]": CIRCUIT_KEYS,
         "[circuit.cable]": CABLE_KEYS,
         "[circuit.motor]": MOTOR_KEYS,

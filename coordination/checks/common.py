@@ -133,6 +133,10 @@ class _Edges:
         pair = self._pair(band, i)
         return float(band.t_max(i)) if pair is None else pair[0]
 
+    def residual_time(self, band: Any, i: float) -> float:
+        """An RCD's maximum break time at an earth fault of ``i`` [s] (its upper edge there)."""
+        return float(band.t_max(i))
+
     def values_of(self, band: Band) -> Mapping[float, tuple[float, float]]:
         """The band's (upper edge [s], maximum let-through [A2s]) by current [A], as gathered
         (may be empty; :func:`_edge_and_energy` evaluates a current not in it)."""

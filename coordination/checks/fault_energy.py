@@ -292,7 +292,7 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
         cleared_by = None
         breaking = rcds_breaking(study, cid, i) if rcds and "earth fault" in what else ()
         if breaking:  # an earth fault is a residual current
-            t_rcd, name = min((float(b.t_max(i)), b.name) for _, b in breaking)
+            t_rcd, name = min((edges.residual_time(b, i), b.name) for _, b in breaking)
             if t_rcd < t:  # the RCD clears first: I2t is at most I^2 x its break time
                 t, energy, cleared_by = t_rcd, i * i * t_rcd, name
         need = adiabatic_min_csa_mm2(energy, k) if finite(energy) else math.inf

@@ -51,6 +51,8 @@ class CheckResult:
     rules : str
         The rule set the check applied (``"iec"``, ``"bs7671"``; :mod:`coordination.rules`),
         also named at the head of ``reason``.
+    case : str
+        The supply case: ``"normal"``, or a standby source's name (:mod:`coordination.standby`).
     """
 
     circuit: str
@@ -63,6 +65,7 @@ class CheckResult:
     basis: str
     details: Mapping[str, Any] = field(default_factory=dict)
     rules: str = "iec"
+    case: str = "normal"
 
     def __post_init__(self) -> None:
         if self.details.__class__ is not MappingProxyType:  # a read-only view is kept as given
@@ -91,6 +94,7 @@ class CheckResult:
         check has 8,183 results)."""
         value, limit = self.value, self.limit
         head = {
+            "case": self.case,
             "circuit": self.circuit,
             "check": self.check,
             "ok": bool(self.ok),

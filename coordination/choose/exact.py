@@ -131,7 +131,66 @@ def _exact_failure(problem: Problem, cand: Candidate) -> Failure | None:
             if problem.testable_above and testable(sel, band):
                 continue  # a remedy's search: a tested limit is assumed for this pair
             return selectivity_failure("selectivity-above", p, sel, p.band)
+    for case in problem.cases:
+        failure = case_failure(problem, case, study, band, envelope, same)
+        if failure is not None:
+            return failure
     return None
+
+
+def case_failure(problem: Problem, case: Any, study: Any, band: Band, envelope: Band,
+                 same: bool) -> Failure | None:
+    """The first requirement a candidate fails on one standby source (None: it meets them):
+    the case's checks (:func:`coordination.standby.case_checks`), then its pairs below and
+    above under the decaying faults (:func:`coordination.decay.compare_decaying`), as
+    ``coordination check`` runs them."""
+    from coordination import decay, standby
+
+    cid = problem.circuit_id
+    fed = set(case.circuits)
+    if cid not in fed:
+        return None
+    named = f"on standby {case.name!r}"
+    for r in standby.case_checks(study, case, cid, envelope):
+        if not r.ok and r.check not in problem.relaxed:
+            return Failure(r.check, f"{r.check} {named}: {r.reason}")
+    stage = "selectivity-below"
+    for p in problem.below if stage not in problem.relaxed else ():
+        for other in (p.other, *p.twins):
+            if other not in fed:
+                continue
+            family = case.nodes[other].window
+            sel = decay.compare_decaying(band, p.band, family, margin=p.margin,
+                                         interval_s=p.interval_s,
+                                         tested_limit_a=p.tested_limit_a if same else None)
+            need = _case_need(study, other, family.bolted_a)
+            if not pair_ok(sel, need) and not (problem.testable_below and testable(sel, p.band)):
+                return _case_selectivity(stage, named, p, sel, need, band)
+    stage = "selectivity-above"
+    family = case.nodes[cid].window
+    need = _case_need(study, cid, family.bolted_a)
+    for p in problem.above if stage not in problem.relaxed else ():
+        if p.other not in fed:
+            continue
+        sel = decay.compare_decaying(p.band, band, family, margin=p.margin,
+                                     interval_s=p.interval_s,
+                                     tested_limit_a=p.tested_limit_a if same else None)
+        if not pair_ok(sel, need) and not (problem.testable_above and testable(sel, band)):
+            return _case_selectivity(stage, named, p, sel, need, p.band)
+    return None
+
+
+def _case_need(study: Any, downstream: str, top_a: float) -> float:
+    """The current a pair must be selective to on a standby source: the downstream circuit's
+    ``selective_to_a``, at most the source's largest fault at its board [A]."""
+    required = study.pair_settings(downstream)[2]
+    return top_a if required is None else min(float(required), top_a)
+
+
+def _case_selectivity(stage: str, named: str, p: Pair, sel: Any, need: float,
+                      upstream: Band) -> Failure:
+    failure = selectivity_failure(stage, dataclasses.replace(p, required_a=need), sel, upstream)
+    return dataclasses.replace(failure, text=f"{failure.text} ({named})")
 
 
 def _learn_energy_limits(problem: Problem, details: Mapping[str, Any]) -> None:

@@ -112,6 +112,9 @@ class Problem:
     # the need of the devices below only where a tested limit could not help (see TESTABLE_S)
     need_untestable: np.ndarray | None = None
     state: SearchState = field(default_factory=SearchState, compare=False)
+    # the standby sources' cases (coordination.standby.SupplyCase): every candidate must meet
+    # the requirements on each source that feeds the circuit too
+    cases: tuple[Any, ...] = ()
 
     def band(self, spec: str | Mapping[str, Any], basis: str) -> Band:
         """A candidate's band as the circuit uses it: on a motor circuit with an overload
@@ -230,7 +233,8 @@ def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None
                       float(iz) if iz is not None else None, ik_board, ik_break, tuple(below),
                       tuple(above), grid, need, above_tmin, above_adj,
                       below_names={p.other: p.band.name for p in below},
-                      skip_above=skip_above, need_untestable=need_untestable)
+                      skip_above=skip_above, need_untestable=need_untestable,
+                      cases=_cases(study))
     return problem, current
 
 
@@ -238,6 +242,15 @@ def has_relay(study: Study, circuit_id: str) -> bool:
     """The circuit feeds a motor with an overload relay (IEC 60947-4-1)."""
     motor = study.by_id[circuit_id].motor
     return motor is not None and motor.relay_class is not None
+
+
+def _cases(study: Study) -> tuple[Any, ...]:
+    """The fault levels of every standby source of the study (none without one)."""
+    if not study.supply.standby:
+        return ()
+    from coordination.standby import case_levels
+
+    return tuple(case_levels(study, source) for source in study.supply.standby)
 
 
 def substitute(study: Study, circuit_id: str, spec: str | Mapping[str, Any]) -> Study:

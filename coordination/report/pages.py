@@ -1,8 +1,9 @@
 """The report's pages, in order: a cover (title, date, tool version, the title block, the supply, a
 summary, the standards used and the caution), the installation diagram (one sheet, or the boards
 then a sheet per board), the device register, fault levels, the selectivity of every
-pair, the protection checks, a time-current plot per board and per circuit that has a
-non-selective pair above it, and the notes and limitations.
+pair, the protection checks, each standby source's section (:mod:`.cases`), a time-current plot
+per board and per circuit that has a non-selective pair above it, and the notes and
+limitations.
 
 Each page is a :data:`~.layout.PageBuilder`, drawn only when the PDF is written.
 """
@@ -18,6 +19,7 @@ from coordination.faults import FaultLevels
 from coordination.model import Study
 from coordination.pipeline import Assessment
 
+from .cases import case_pages, summary_lines
 from .content import (
     CHECKS_INTRO,
     CHECKS_RCD,
@@ -106,9 +108,10 @@ def _cover(study: Study, result: Assessment) -> PageBuilder:
         summary = analysis.summary()
         failed = [r for r in results if not r.ok]
         n_boards = len(boards(study))
-        verdict = ("Every selectivity requirement and protection check is met." if
-                   (analysis.ok and not failed) else
-                   "NOT every requirement is met: see the selectivity table and the checks.")
+        verdict = ("Every selectivity requirement and protection check is met"
+                   f"{' on every supply' if result.cases else ''}." if result.ok else
+                   "NOT every requirement is met: see the selectivity table and the checks"
+                   f"{' of each supply' if result.cases else ''}.")
         y = block("Summary", [
             f"{len(study.circuits)} circuit{'s' if len(study.circuits) != 1 else ''}, "
             f"{n_boards} board{'s' if n_boards != 1 else ''} with an incoming device.",
@@ -116,6 +119,7 @@ def _cover(study: Study, result: Assessment) -> PageBuilder:
             f"{summary['partial']} partial, {summary['none']} none; "
             f"{summary['unmet']} below their required selectivity.",
             f"{len(results)} protection checks, {len(failed)} failed.",
+            *summary_lines(result),
             verdict,
         ], y)
         y = block("Bases", [_basis_summary(study, basis)], y)
@@ -147,7 +151,8 @@ def _plot_page(study: Study, result: Assessment, entry: PlannedPlot) -> PageBuil
         fig = new_page(study, heading)
         ax = fig.add_axes((0.11, 0.42, 0.84, 0.49))
         plot_circuit(study, levels, analysis, circuit_id, basis=basis, ax=ax,
-                     title=f"{circuit_id} and the devices above it", results=result.checks)
+                     title=f"{circuit_id} and the devices above it", results=result.checks,
+                     cases=[c.case for c in result.cases])
         chain = (circuit_id, *study.ancestors(circuit_id))
         y = 0.235
         parent = study.by_id[circuit_id].parent
@@ -327,6 +332,7 @@ def build_pages(study: Study, result: Assessment) -> list[PageBuilder]:
     if failures.rows:
         pages += table_pages(study, "Protection checks that fail or are near their limit",
                              FAILURES_INTRO, failures)
+    pages += case_pages(study, result)
     plan = plot_plan(study, analysis)
     for entry in plan:
         pages.append(_plot_page(study, result, entry))

@@ -29,6 +29,7 @@ from coordination.model import Study
 from coordination.pipeline import Assessment, assess
 from curves.errors import InputError
 
+from .cases import csv_records
 from .pages import build_pages
 
 
@@ -186,6 +187,14 @@ def write_report(study: Study, path: str | os.PathLike, *, csv: bool = False,
                 ("checks", [r.to_json() for r in assessment.checks]),
                 ("faults", [_node_record(n) for n in assessment.levels.nodes]),
             )
+            if assessment.cases:  # every standby source's rows after the normal supply's
+                more = csv_records(assessment)
+                tables = (
+                    ("pairs", [*tables[0][1], *(_pair_record(p) for p in more["pairs"])]),
+                    ("checks", [*tables[1][1], *more["checks"]]),
+                    ("faults", [*({"case": "normal", **n} for n in tables[2][1]),
+                                *more["faults"]]),
+                )
             for name, records in tables:
                 out = check_output_path(stem.parent / f"{stem.name}-{name}.csv",
                                         inputs=(study.source,) if study.source else (),
