@@ -24,6 +24,7 @@ HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE.parent))
 
 from coordination import engine, tables  # noqa: E402
+from coordination import pair as pair_test  # noqa: E402
 from coordination.devices import _band  # noqa: E402
 from coordination.model import Circuit, Study, Supply  # noqa: E402
 
@@ -77,8 +78,8 @@ def make_study(risers: int, boards: int, finals: int) -> tuple[Study, object, st
 
 def clear_caches() -> None:
     _band.cache_clear()
-    engine._first_crossing.cache_clear()
-    engine._compare.cache_clear()
+    pair_test._first_crossing.cache_clear()
+    pair_test.decide.cache_clear()
 
 
 def main() -> None:
@@ -98,8 +99,8 @@ def main() -> None:
         t0 = time.perf_counter()
         analysis = engine.analyse(s, levels)
         cold.append(time.perf_counter() - t0)
-    crossings = engine._first_crossing.cache_info()
-    compares = engine._compare.cache_info()
+    crossings = pair_test._first_crossing.cache_info()
+    compares = pair_test.decide.cache_info()
     warm = []
     for _ in range(args.repeats):
         t0 = time.perf_counter()
@@ -131,8 +132,8 @@ def main() -> None:
     up, down = band_for(s, pair.upstream), band_for(s, pair.downstream)
     per = []
     for _ in range(20):
-        engine._first_crossing.cache_clear()
-        engine._compare.cache_clear()
+        pair_test._first_crossing.cache_clear()
+        pair_test.decide.cache_clear()
         t0 = time.perf_counter()
         engine.compare(up, down, pair.window_a)
         per.append(time.perf_counter() - t0)
