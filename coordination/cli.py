@@ -410,6 +410,7 @@ def plot(
     """Time-current plot of a circuit and everything above it."""
     _drawing_output(output, study_path, "plot")
     from coordination import plot as plotting
+    from coordination.io import save_figure
     from coordination.pipeline import assess
 
     s = load_study(study_path)
@@ -429,7 +430,7 @@ def plot(
         fig = plotting.plot_circuit(s, result.levels, result.analysis, circuit,
                                     results=result.checks,
                                     cases=[c.case for c in result.cases])
-    plotting.save_figure(fig, output)
+    save_figure(fig, output)
     typer.echo(f"wrote {output}")
 
 

@@ -6,8 +6,12 @@ import contextlib
 import os
 from collections.abc import Callable, Iterator
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from curves.errors import InputError
+
+if TYPE_CHECKING:  # matplotlib is imported only by the commands that draw
+    from matplotlib.figure import Figure
 
 
 class Terminated(BaseException):
@@ -91,3 +95,29 @@ def atomic_write(out: str | os.PathLike, writer: Callable[[Path], None]) -> None
     """Call ``writer(tmp_path)`` and move the result onto ``out`` atomically."""
     with atomic_path(out) as tmp:
         writer(tmp)
+
+
+def save_figure(fig: Figure, path: str | os.PathLike) -> None:
+    """Save a figure atomically; PNG, SVG or PDF by the file's suffix.
+
+    On any error the target is left as it was (absent, or the previous file).
+
+    Examples
+    --------
+    >>> import tempfile
+    >>> from pathlib import Path
+    >>> from matplotlib.figure import Figure
+    >>> with tempfile.TemporaryDirectory() as folder:
+    ...     target = Path(folder) / "empty.png"
+    ...     save_figure(Figure(figsize=(2, 1)), target)
+    ...     print(target.read_bytes()[1:4], target.stat().st_size > 0)
+    b'PNG' True
+    """
+    import matplotlib
+
+    suffix = os.fspath(path).rsplit(".", 1)[-1].lower() if "." in os.fspath(path) else ""
+    if suffix not in ("png", "svg", "pdf"):
+        raise InputError(f"unknown plot format {suffix!r}; allowed: png, svg, pdf", key="-o")
+    with matplotlib.rc_context({"pdf.fonttype": 42, "svg.fonttype": "none"}), \
+            atomic_path(path) as tmp:
+        fig.savefig(tmp, format=suffix, dpi=150)

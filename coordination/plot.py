@@ -34,7 +34,6 @@ from __future__ import annotations
 
 import functools
 import math
-import os
 from collections.abc import Sequence
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any, NamedTuple
@@ -46,7 +45,6 @@ from coordination.checks import CheckResult
 from coordination.devices import band_for
 from coordination.engine import Analysis, PairResult
 from coordination.faults import FaultLevels, NodeFaults
-from coordination.io import atomic_path
 from coordination.model import Cable, Study
 from coordination.motors import StartProfile
 from coordination.plot_marks import TIME_LABEL, current_text, draw_decrements
@@ -98,31 +96,6 @@ PEAK_TIME_S = 0.01
 
 #: The adiabatic equation holds for faults up to 5 s (IEC 60364-4-43, 434.5.2).
 ADIABATIC_LIMIT_S = 5.0
-
-
-def withstand_time(current_a: Any, k: float, csa_mm2: float) -> np.ndarray:
-    """Adiabatic withstand time of a conductor, ``t = k^2 S^2 / I^2`` [s].
-
-    Parameters
-    ----------
-    current_a : array_like
-        Fault current [A].
-    k : float
-        Material factor [A s^0.5 / mm^2] (``coordination.checks.k_factor``).
-    csa_mm2 : float
-        Conductor cross-section [mm^2] (sum of parallel conductors).
-
-    References
-    ----------
-    IEC 60364-4-43:2008, 434.5.2, equation t = (k S / I)^2, valid up to 5 s.
-
-    Examples
-    --------
-    >>> print(round(float(withstand_time(1000.0, 115.0, 2.5)), 4))
-    0.0827
-    """
-    i = np.asarray(current_a, dtype=np.float64)
-    return (k * csa_mm2) ** 2 / (i * i)
 
 
 # -- helpers -----------------------------------------------------------------------------------
@@ -807,29 +780,3 @@ def _place_tags(ax: Axes, layout: _Layout,
                     bbox={"boxstyle": "round,pad=0.15", "facecolor": "white",
                           "edgecolor": "none", "alpha": 0.8})
         layout.texts.append(box_pt)
-
-
-def save_figure(fig: Figure, path: str | os.PathLike) -> None:
-    """Save a figure atomically; PNG, SVG or PDF by the file's suffix.
-
-    On any error the target is left as it was (absent, or the previous file).
-
-    Examples
-    --------
-    >>> import tempfile
-    >>> from pathlib import Path
-    >>> from matplotlib.figure import Figure
-    >>> with tempfile.TemporaryDirectory() as folder:
-    ...     target = Path(folder) / "empty.png"
-    ...     save_figure(Figure(figsize=(2, 1)), target)
-    ...     print(target.read_bytes()[1:4], target.stat().st_size > 0)
-    b'PNG' True
-    """
-    import matplotlib
-
-    suffix = os.fspath(path).rsplit(".", 1)[-1].lower() if "." in os.fspath(path) else ""
-    if suffix not in ("png", "svg", "pdf"):
-        raise InputError(f"unknown plot format {suffix!r}; allowed: png, svg, pdf", key="-o")
-    with matplotlib.rc_context({"pdf.fonttype": 42, "svg.fonttype": "none"}), \
-            atomic_path(path) as tmp:
-        fig.savefig(tmp, format=suffix, dpi=150)

@@ -13,14 +13,9 @@ import numpy as np
 import pytest
 
 from coordination import engine, faults, study
-from coordination.plot import (
-    MIN_ZONE_PT,
-    PALETTE,
-    ZONE_MARK_PT,
-    plot_circuit,
-    save_figure,
-    withstand_time,
-)
+from coordination.checks.fault_energy import withstand_time
+from coordination.io import save_figure
+from coordination.plot import MIN_ZONE_PT, PALETTE, ZONE_MARK_PT, plot_circuit
 from curves.errors import InputError
 
 EXAMPLES = Path(__file__).resolve().parents[1] / "examples"

@@ -50,6 +50,31 @@ MATERIAL_ALIASES = {"cu": "copper", "copper": "copper", "al": "aluminium",
 INSULATION_ALIASES = {"pvc": "pvc", "xlpe": "xlpe", "epr": "xlpe", "xlpe/epr": "xlpe"}
 
 
+def withstand_time(current_a: Any, k: float, csa_mm2: float) -> np.ndarray:
+    """Adiabatic withstand time of a conductor, ``t = k^2 S^2 / I^2`` [s].
+
+    Parameters
+    ----------
+    current_a : array_like
+        Fault current [A].
+    k : float
+        Material factor [A s^0.5 / mm^2] (``coordination.checks.k_factor``).
+    csa_mm2 : float
+        Conductor cross-section [mm^2] (sum of parallel conductors).
+
+    References
+    ----------
+    IEC 60364-4-43:2008, 434.5.2, equation t = (k S / I)^2, valid up to 5 s.
+
+    Examples
+    --------
+    >>> print(round(float(withstand_time(1000.0, 115.0, 2.5)), 4))
+    0.0827
+    """
+    i = np.asarray(current_a, dtype=np.float64)
+    return (k * csa_mm2) ** 2 / (i * i)
+
+
 def adiabatic_min_csa_mm2(i2t_a2s: Any, k: float) -> Any:
     """Least conductor cross-section that withstands a fault's energy adiabatically [mm2].
 
