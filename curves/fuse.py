@@ -48,6 +48,7 @@ and time. Two bases (the study chooses; the safety checks always take the envelo
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass
 from functools import lru_cache
 from itertools import pairwise
@@ -358,6 +359,32 @@ def minor_rating(rating_a: float) -> float | None:
     return GG_RATINGS_A[k - 2]
 
 
+def fuse_let_through(
+    op_max_a2s: float, upper: Callable[[np.ndarray], np.ndarray]
+) -> Callable[[np.ndarray], np.ndarray]:
+    """A fuse-link's let-through I2t [A^2 s] against prospective current [A].
+
+    The maximum operating I2t where the fuse-link limits the current (below its 0.01 s point),
+    ``I^2 t_max(I)`` where that is larger (a fault it clears in the time-current region).
+
+    References
+    ----------
+    IEC 60269-1, operating I2t; IEC 60269-2, maximum operating I2t at 0.01 s.
+
+    Examples
+    --------
+    >>> lt = fuse_let_through(1000.0, lambda i: np.full_like(i, 0.01))
+    >>> print(float(lt(np.array(100.0))), float(lt(np.array(1000.0))))
+    1000.0 10000.0
+    """
+
+    def let_through(current_a: np.ndarray) -> np.ndarray:
+        i = as_current(current_a)
+        return np.maximum(op_max_a2s, i * i * upper(i))
+
+    return let_through
+
+
 def gg_band(
     rating_a: float, *, basis: str = "typical", breaking_capacity_a: float | None = None
 ) -> Band:
@@ -469,10 +496,7 @@ def gg_band(
             "(0.04 s x Imin(0.1 s)^2, selective two steps apart)"
         )
 
-    def let_through(current_a: np.ndarray) -> np.ndarray:
-        i = as_current(current_a)
-        return np.maximum(op, i * i * upper(i))
-
+    let_through = fuse_let_through(op, upper)
     in_setting = int(rating) if rating.is_integer() else rating
     return Band(
         name=f"gG{rating:g}",

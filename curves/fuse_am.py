@@ -35,13 +35,14 @@ from functools import lru_cache
 
 import numpy as np
 
-from curves.band import Band, as_current
+from curves.band import Band
 from curves.fuse import (
     DEFAULT_BREAKING_CAPACITY_A,
     GG_RATINGS_A,
     I2T_TIME_S,
     TYPICAL_TOLERANCE,
     GGEnvelope,
+    fuse_let_through,
     gg_envelope_lower,
     gg_envelope_upper,
     gg_nominal,
@@ -225,10 +226,7 @@ def am_band(rating_a: float, *, basis: str = "typical",
         notes.append(f"typical: log-middle of the aM zone, +/-{TYPICAL_TOLERANCE:.0%} in current; "
                      f"no melting below {pickup_min / rating:.3g} In (modelling choice)")
 
-    def let_through(current_a: np.ndarray) -> np.ndarray:
-        i = as_current(current_a)
-        return np.maximum(op, i * i * upper(i))
-
+    let_through = fuse_let_through(op, upper)
     return Band(
         name=f"aM{rating:g}",
         family="aM",
