@@ -46,7 +46,7 @@ from coordination.pair import (
     pair_grid,
     upstream_edge,
 )
-from curves.band import TIME_CEILING_S, TIME_FLOOR_S, Band
+from curves.band import TIME_CEILING_S, TIME_FLOOR_S, Band, merged_grid
 from curves.errors import InputError
 
 if TYPE_CHECKING:  # shapely is imported lazily, only by overlap()
@@ -555,7 +555,7 @@ def _zone(up: Band, down: Band, start: float, hi: float, margin: float,
 
     i = pair_grid(down, up, start, hi)
     # just above the limit, so that a step there gives the zone's vertical left side at Is
-    i = np.unique(np.concatenate([i, [start * (1 + 1e-9)]]))
+    i = merged_grid(i, [start * (1 + 1e-9)])
     i = i[(i >= start) & (i <= hi)]
     t_down = downstream_edge(down, up, i, margin, interval_s)
     t_up = upstream_edge(up, i)

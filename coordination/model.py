@@ -10,11 +10,13 @@ from collections.abc import Mapping
 from dataclasses import dataclass, field
 from functools import cached_property
 from types import MappingProxyType
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from coordination import rules as national
-from coordination.generator import StandbySource
-from coordination.motors import Inrush, Motor
+
+if TYPE_CHECKING:  # imported where a study has them (coordination.study): most have neither
+    from coordination.generator import StandbySource
+    from coordination.motors import Inrush, Motor
 
 SUPPLY_ID = "supply"
 

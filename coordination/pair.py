@@ -39,7 +39,7 @@ import numpy as np
 from coordination import criterion
 from coordination.criterion import ADJUSTABLE_FAMILIES, EQUAL_RTOL
 from coordination.roots import find_crossing
-from curves.band import ENERGY_REGION_S, Band
+from curves.band import ENERGY_REGION_S, Band, merged_grid
 from curves.errors import InputError
 
 Verdict = Literal["total", "partial", "none"]
@@ -134,7 +134,7 @@ def pair_grid(down: Band, up: Band, lo: float, top: float) -> np.ndarray:
     extra = np.array([m for m in marks if m is not None and math.isfinite(m) and m > 0], float)
     extra = np.concatenate([extra * (1 - _BREAK_EPS), extra, extra * (1 + _BREAK_EPS)])
     extra = extra[(extra > lo) & (extra < top)]
-    return np.unique(np.concatenate([base, extra]))
+    return merged_grid(base, extra)
 
 
 def _refine(down: Band, up: Band, a: float, b: float, margin: float, interval_s: float) -> float:

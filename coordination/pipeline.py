@@ -8,13 +8,16 @@ results computed in the same order.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 from coordination import checks, engine, faults
 from coordination.checks import CheckResult
 from coordination.engine import Analysis
 from coordination.faults import FaultLevels
 from coordination.model import Study
-from coordination.standby import CaseAssessment, assess_case
+
+if TYPE_CHECKING:  # imported by assess for a study with standby sources: most have none
+    from coordination.standby import CaseAssessment
 
 
 @dataclass(frozen=True)
@@ -80,7 +83,11 @@ def assess(study: Study, basis: str | None = None) -> Assessment:
     levels = faults.compute(study)
     analysis = engine.analyse(study, levels, basis=basis)
     results = checks.run(study, levels)
-    cases = tuple(assess_case(study, source, basis) for source in study.supply.standby)
+    cases: tuple[CaseAssessment, ...] = ()
+    if study.supply.standby:
+        from coordination.standby import assess_case
+
+        cases = tuple(assess_case(study, source, basis) for source in study.supply.standby)
     ok = bool(analysis.ok and all(r.ok for r in results) and all(c.ok for c in cases))
     return Assessment(levels=levels, analysis=analysis, checks=results, ok=ok, basis=basis,
                       cases=cases)

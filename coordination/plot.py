@@ -49,7 +49,7 @@ from coordination.model import Cable, Study
 from coordination.motors import StartProfile
 from coordination.plot_marks import TIME_LABEL, current_text, draw_decrements
 from coordination.text import format_current, format_seconds, positive_or_none
-from curves.band import TIME_CEILING_S, TIME_FLOOR_S, Band
+from curves.band import TIME_CEILING_S, TIME_FLOOR_S, Band, merged_grid
 from curves.errors import InputError
 
 if TYPE_CHECKING:  # pragma: no cover
@@ -124,7 +124,7 @@ def _current_grid(band: Band, i_lo: float, i_hi: float, points: int = 500) -> np
         corners.append(band.settings.get(key))
     extra = [c * f for c in corners if positive_or_none(c) for f in (1 - 1e-6, 1 + 1e-6)
              if start < c * f < i_hi]
-    return np.unique(np.concatenate([grid, np.asarray(extra, dtype=np.float64)]))
+    return merged_grid(grid, extra)
 
 
 def _decade_label(value: float, unit: str) -> str:

@@ -34,14 +34,12 @@ import os
 import stat
 from collections.abc import Callable, Mapping
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import rtoml
 
 from coordination import cables, rules
-from coordination.generator import StandbySource
 from coordination.model import SUPPLY_ID, Cable, Circuit, Study, Supply, Transformer
-from coordination.motors import Inrush, Motor, inrush_from_table, motor_from_table
 from coordination.residual import RCD_KEYS
 from coordination.study_rules import (
     BASES,
@@ -78,6 +76,10 @@ from coordination.study_rules import (
     parents_first,
 )
 from curves.errors import InputError
+
+if TYPE_CHECKING:  # imported where a study has them: most have neither
+    from coordination.generator import StandbySource
+    from coordination.motors import Inrush, Motor
 
 #: The loader's functions, and the study file's keys and bounds (from coordination.study_rules).
 __all__ = [
@@ -170,6 +172,7 @@ NORMAL_CASE = "normal"
 
 def _standby_source(data: Any, number: int, u0_v: float) -> StandbySource:
     """One ``[[supply.standby]]`` table."""
+    from coordination.generator import StandbySource  # a study without standby needs none
     where = f"supply.standby[{number}]"
     t = Table(data, STANDBY_KEYS, prefix=f"{where}.", name="[[supply.standby]]",
               table="supply.standby")
@@ -432,8 +435,13 @@ def _circuit_fields(raw: Mapping[str, Any], cid: str) -> dict[str, Any]:
         raise t.error("device", f"device must be a shorthand text such as 'B32' or an inline "
                                 f"table, not {describe(device)}")
     limits = _upstream_currents(t, raw, "tested_limits_a", "selectivity limit")
-    motor: Motor | None = _load_table(raw, cid, "motor", motor_from_table)
-    inrush: Inrush | None = _load_table(raw, cid, "inrush", inrush_from_table)
+    motor: Motor | None = None
+    inrush: Inrush | None = None
+    if "motor" in raw or "inrush" in raw:  # the module is loaded for the circuits that need it
+        from coordination.motors import inrush_from_table, motor_from_table
+
+        motor = _load_table(raw, cid, "motor", motor_from_table)
+        inrush = _load_table(raw, cid, "inrush", inrush_from_table)
     load = t.number("load_a", unit="A", lo=0.0, hi=MAX_CURRENT_A)
     if inrush is not None and load is None:
         raise t.error("inrush", "an inrush is given as a multiple of the circuit's load_a; give "

@@ -59,7 +59,7 @@ from typing import Any
 
 import numpy as np
 
-from curves.band import TIME_FLOOR_S, as_current
+from curves.band import TIME_FLOOR_S, as_current, merged_grid
 from curves.errors import InputError
 from curves.validate import positive_number
 
@@ -404,7 +404,7 @@ def rcd_band(idn_ma: float, selective: bool = False, waveform: str = "A",
         notes.append(f"waveform {s.waveform}: times for sinusoidal residual current; pulsating "
                      "or smooth d.c. residual current is tested at other multiples (not modelled)")
     multiples = {NON_OPERATING_X, *TIME_POINTS_X, fast_x}
-    breakpoints = tuple(float(v) for v in np.unique([m * idn for m in multiples]))
+    breakpoints = tuple(float(v) for v in merged_grid([m * idn for m in multiples]))
     label = f"RCD {idn * 1000:g} mA type {s.waveform}" + (
         " S" if s.selective else (f" delay {s.delay_s:g} s" if s.delay_s > 0 else ""))
     return ResidualBand(
@@ -490,7 +490,7 @@ def residual_selective(upstream: ResidualBand, downstream: ResidualBand) -> Resi
             f"IΔn ratio {ratio:.3g} is below {SELECTIVITY_RATIO:g} ({upstream.name} over "
             f"{downstream.name}; IEC 60364-5-53, from memory)"), "conditions")
     steps = np.array(upstream.breakpoints_a + downstream.breakpoints_a)
-    grid = np.unique(np.concatenate([steps, steps * (1 + 1e-9), [steps.max() * 10.0]]))
+    grid = merged_grid(steps, steps * (1 + 1e-9), [steps.max() * 10.0])
     t_up, t_down = upstream.t_min(grid), downstream.t_max(grid)
     ok = np.isinf(t_up) | (t_up > t_down)
     if ok.all():

@@ -63,3 +63,17 @@ def test_loglog_line_is_a_power_law_and_reads_back(slope, decades, where):
     assert time == pytest.approx(1e3 * (current / i[0]) ** slope, rel=1e-9)
     back = float(loglog_interpolate(time, ln_t, ln_i, descending=True))
     assert math.isclose(back, current, rel_tol=1e-9)
+
+
+# numpy's own np.unique (a general-purpose reference library) is the reference for the merged
+# grid of currents that replaces it on the engine's and the RCD bands' paths
+@settings(max_examples=60, deadline=None)
+@given(st.lists(st.lists(st.floats(min_value=1e-3, max_value=1e6, allow_nan=False),
+                         max_size=40), min_size=1, max_size=4))
+def test_merged_grid_is_numpys_unique(grids):
+    from curves.band import merged_grid
+
+    got = merged_grid(*grids)
+    want = np.unique(np.concatenate([np.asarray(g, dtype=float) for g in grids]))
+    assert got.dtype == want.dtype
+    np.testing.assert_array_equal(got, want)

@@ -8,17 +8,15 @@ passes and the standard's envelope would not, the reason says so.
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 from coordination import rules
 from coordination.checks.results import CheckResult
 from coordination.model import Study
-from coordination.motors import (
-    ChainDevice,
-    StartProfile,
-    inrush_start,
-    motor_start,
-    starting_verdict,
-)
 from curves.band import Band
+
+if TYPE_CHECKING:  # coordination.motors is loaded with the first motor or inrush of a study
+    from coordination.motors import ChainDevice, StartProfile
 
 #: Where the starting check's rule comes from, as its results say.
 STARTING_SOURCE = ("IEC 60947-4-1 (a starter's devices carry the start); first peak and "
@@ -41,8 +39,12 @@ def start_profile(study: Study, circuit_id: str) -> StartProfile | None:
     """
     circuit = study.by_id[circuit_id]
     if circuit.motor is not None:
+        from coordination.motors import motor_start
+
         return motor_start(circuit.motor)
     if circuit.inrush is not None and circuit.load_a is not None:
+        from coordination.motors import inrush_start
+
         return inrush_start(circuit.inrush, float(circuit.load_a))
     return None
 
@@ -60,6 +62,7 @@ def starting_chain(study: Study, circuit_id: str,
         default: the study's own.
     """
     from coordination.devices import band_for
+    from coordination.motors import ChainDevice
 
     own = envelope if envelope is not None else band_for(study, circuit_id, "envelope")
     chain = [ChainDevice(circuit_id, band_for(study, circuit_id), 0.0, own)]
@@ -77,6 +80,8 @@ def _starting(study: Study, circuit_id: str, envelope: Band) -> CheckResult | No
     profile = start_profile(study, circuit_id)
     if profile is None:
         return None
+    from coordination.motors import starting_verdict
+
     verdict = starting_verdict(profile, starting_chain(study, circuit_id, envelope))
     b = verdict.binding
     details = {**verdict.details(), "source": STARTING_SOURCE}

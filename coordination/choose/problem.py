@@ -20,7 +20,7 @@ from coordination.choose.candidates import FAMILIES, family_of, normalise_family
 from coordination.choose.screening import ADJUSTABLE, TESTABLE_S, clamped_lower, need_of, short_of
 from coordination.criterion import breaking_duty
 from coordination.model import Study
-from curves.band import Band
+from curves.band import Band, merged_grid
 from curves.errors import InputError
 
 #: Points on the common current grid of the vectorised selectivity screen.
@@ -206,7 +206,7 @@ def build_problem(study: Study, levels: Any, circuit_id: str, family: str | None
     grid = np.geomspace(max(min(lows) * 0.9, 0.5), max(highs), GRID_POINTS)
     tops = np.asarray([p.required_a for p in below] + [required_c], dtype=float)
     extra = np.concatenate([[p.window_a[0] for p in below], tops, tops * (1 - SCREEN_EDGE)])
-    grid = np.unique(np.concatenate([grid, extra]))
+    grid = merged_grid(grid, extra)
 
     need = np.full((2, grid.size), -np.inf)
     need_untestable = need.copy()
