@@ -74,9 +74,11 @@ def declared_backups(circuit: Any, feeder: Any | None) -> tuple[Backup, ...]:
     >>> print([(b.upstream, b.current_a, b.key) for b in got])
     [('cu', 16000.0, 'conditional_a'), ('main', 10000.0, 'backup_a')]
     """
-    found = [Backup(str(up), float(a), BACKUP_KEY)
-             for up, a in (getattr(circuit, BACKUP_KEY, None) or {}).items()]
+    backups = getattr(circuit, BACKUP_KEY, None)
     conditional = None if feeder is None else getattr(feeder, CONDITIONAL_KEY, None)
+    if not backups and conditional is None:
+        return ()  # most circuits declare none
+    found = [Backup(str(up), float(a), BACKUP_KEY) for up, a in (backups or {}).items()]
     if conditional is not None:
         found.append(Backup(str(feeder.id), float(conditional), CONDITIONAL_KEY))
     return tuple(sorted(found, key=lambda b: -b.current_a))

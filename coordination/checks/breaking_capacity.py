@@ -25,9 +25,12 @@ def _rating_name(band: Band) -> str:
     return "Icn" if band.family == "mcb" else "rated breaking capacity"
 
 
-def _breaking_capacity(study: Study, cid: str, band: Band, node: Any) -> CheckResult:
+def _breaking_capacity(study: Study, cid: str, band: Band, node: Any,
+                       duty: tuple[float, str] | None = None) -> CheckResult:
+    """The breaking-capacity check of one circuit; ``duty`` is its
+    :func:`~coordination.criterion.breaking_duty` where the caller has it already."""
     circuit = study.by_id[cid]
-    fault, kind = breaking_duty(node, circuit.phases)
+    fault, kind = breaking_duty(node, circuit.phases) if duty is None else duty
     rating = _rating_name(band)
     if circuit.breaking_capacity_a is not None:
         capacity, origin = float(circuit.breaking_capacity_a), "given in the study"

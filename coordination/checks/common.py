@@ -11,6 +11,7 @@ from typing import Any
 
 import numpy as np
 
+from coordination.text import significant
 from curves.band import Band
 
 
@@ -67,6 +68,21 @@ def mm2_text(s: float) -> str:
     2.5 mm2
     """
     return "-" if not math.isfinite(s) else f"{s:.3g} mm2"
+
+
+@lru_cache(maxsize=4096)
+def a2s_text(energy: float) -> str:
+    """An energy in words, three figures in plain decimals: ``"32500 A2s"`` [A2s].
+
+    Cached like the others: the energy that governs a circuit's fault-energy check is most
+    often let through at its board's largest fault, the same for the board's alike circuits.
+
+    Examples
+    --------
+    >>> print(a2s_text(32526.46))
+    32500 A2s
+    """
+    return f"{significant(energy, 3)} A2s"
 
 
 # -------------------------------------------------------------------------------------------

@@ -228,16 +228,17 @@ def _carried_a(study: Study, cid: str, band: Band) -> float:
     return float(ib) if ib else _in_a(band)
 
 
-def _rcd_needed(study: Study, cid: str, band: Band, node: Any, edges: _Edges) -> bool:
+def _rcd_needed(study: Study, cid: str, band: Band, node: Any, edges: _Edges,
+                limit_s: float | None = None) -> bool:
     """TT, no RCD on the circuit or above it, and the earth fault too small for any
     overcurrent device able to carry the load: the disconnection check fails and asks for an
-    RCD."""
+    RCD. ``limit_s`` is the circuit's disconnection limit [s] where the caller has it."""
     if EARTHING_KIND.get(str(study.supply.earthing).upper(), "TN") != "TT":
         return False
     if rcds_on_path(study, cid):
         return False
     ief = _get(node, "ief_min_a", 0.0) or 0.0
-    limit = _disconnection_limit(study, cid, band)[0]
+    limit = _disconnection_limit(study, cid, band)[0] if limit_s is None else limit_s
     carry = _carried_a(study, cid, band)
     return edges.t_max(band, ief) > limit and ief < FASTEST_OVERCURRENT_MULTIPLE * carry
 
@@ -246,7 +247,6 @@ def _rcd_needed(study: Study, cid: str, band: Band, node: Any, edges: _Edges) ->
 # the check of one circuit
 def _disconnection(study: Study, cid: str, band: Band, node: Any, edges: _Edges) -> CheckResult:
     supply = study.supply
-    kind = EARTHING_KIND.get(str(supply.earthing).upper(), "TN")
     limit, what, source, final = _disconnection_limit(study, cid, band)
     ief = _get(node, "ief_min_a", 0.0) or 0.0
     zs = _get(node, "zs_ohm", math.nan)
@@ -258,12 +258,13 @@ def _disconnection(study: Study, cid: str, band: Band, node: Any, edges: _Edges)
     details = {"current_a": ief, "zs_ohm": zs, "zs_max_ohm": zs_max, "ia_a": ia,
                "final": final, "circuit_class": what, "source": source}
     zs_text = f"Zs {ohm_text(zs)}" if math.isfinite(zs) else "Zs"
-    times = f"{_takes(band, ief, t)}, limit {s_text(limit)} ({what})"
     if ok:
         reason = (f"{zs_text} within {ohm_text(zs_max)} for {band.name}: {a_text(ief)} cleared "
                   f"within {s_text(t)}, limit {s_text(limit)} ({what})")
     else:
+        times = f"{_takes(band, ief, t)}, limit {s_text(limit)} ({what})"
         carry = _carried_a(study, cid, band)
+        kind = EARTHING_KIND.get(str(supply.earthing).upper(), "TN")
         head = f"{zs_text} exceeds {ohm_text(zs_max)} for {band.name}"
         if kind == "TT" and ief < FASTEST_OVERCURRENT_MULTIPLE * carry:
             reason = (f"{head}: {times}; too high for any overcurrent device carrying "

@@ -16,6 +16,7 @@ from coordination.checks.common import (
     _Edges,
     _get,
     _never,
+    a2s_text,
     a_text,
     mm2_text,
     s_text,
@@ -25,7 +26,6 @@ from coordination.checks.results import CheckResult, _result
 from coordination.criterion import breaking_duty
 from coordination.model import Study
 from coordination.residual import rcds_breaking, rcds_on_path
-from coordination.text import significant
 from curves.band import Band
 from curves.errors import InputError
 
@@ -273,7 +273,13 @@ def _sizes(cable: Any) -> ConductorSizes:
 
 
 def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protected: bool,
-                  edges: _Edges) -> CheckResult | None:
+                  edges: _Edges, *, duty: tuple[float, str] | None = None,
+                  limit_s: float | None = None) -> CheckResult | None:
+    """The fault-energy check of one circuit; None without a cable.
+
+    ``duty`` is the circuit's :func:`~coordination.criterion.breaking_duty` and ``limit_s`` its
+    disconnection limit [s], where the caller has them already (else they are found here).
+    """
     circuit = study.by_id[cid]
     cable = circuit.cable
     if cable is None:
@@ -285,7 +291,9 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
     one_line, one_cpc = float(cable.csa_mm2), sizes.cpc_each_mm2
 
     # (what, conductor, current [A], installed S [mm2], k)
-    i_max = breaking_duty(node, circuit.phases)[0]  # the largest, earth faults included
+    if duty is None:
+        duty = breaking_duty(node, circuit.phases)
+    i_max = duty[0]  # the largest, earth faults included
     ief_max = _get(node, "ief_max_board_a")
     if ief_max is not None and not (ief_max > 0 and math.isfinite(ief_max)):
         ief_max = None
@@ -293,7 +301,7 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
     ik_min = _get(node, "ik_min_end_a")
     if ik_min is not None and ik_min > 0:
         cases.append(("minimum fault at the far end", "line", ik_min, s_line, k_line))
-    rcd = _rcd_needed(study, cid, band, node, edges)
+    rcd = _rcd_needed(study, cid, band, node, edges, limit_s)
     rcds = rcds_on_path(study, cid)
     ief = _get(node, "ief_min_a")
     if ief is not None and ief > 0:
@@ -347,12 +355,13 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
         if worst_key is None or key > worst_key:
             worst, worst_key = (need, s, what, conductor, i, energy, k, cleared_by), key
         fits = fits and need <= s
-        checked.append({"case": what, "conductor": conductor,
-                        "current_a": i if finite(i) else None,
-                        "t_max_s": t if finite(t) else None,
-                        "i2t_a2s": energy if finite(energy) else None, "k": k,
-                        "need_mm2": need if finite(need) else None, "have_mm2": s,
-                        **({"cleared_by": cleared_by} if cleared_by else {})})
+        row = {"case": what, "conductor": conductor, "current_a": i if finite(i) else None,
+               "t_max_s": t if finite(t) else None,
+               "i2t_a2s": energy if finite(energy) else None, "k": k,
+               "need_mm2": need if finite(need) else None, "have_mm2": s}
+        if cleared_by:
+            row["cleared_by"] = cleared_by
+        checked.append(row)
     if worst is None:
         return None
     need, s, what, conductor, i, energy, k, cleared_by = worst
@@ -372,17 +381,17 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
         reason = problems[0]
     elif ok:
         reason = (f"{conductor} conductor {mm2_text(s)} withstands the {what} ({a_text(i)}, "
-                  f"I2t {significant(energy, 3)} A2s, k {k:g}): needs {mm2_text(need)}")
+                  f"I2t {a2s_text(energy)}, k {k:g}): needs {mm2_text(need)}")
         if cleared_by:
             reason += f" ({cleared_by} clears it first: I2t taken as I^2 x its break time)"
     else:
         part = "protective conductor" if conductor == "protective" else "line conductors"
         reason = (f"{part} {mm2_text(s)} too small for the {what} ({a_text(i)}): {band.name} may "
-                  f"let through up to {significant(energy, 3)} A2s (the most its standard "
+                  f"let through up to {a2s_text(energy)} (the most its standard "
                   "allows), needing "
                   f"{mm2_text(need)} at k {k:g}; enlarge the "
                   f"{'cpc' if conductor == 'protective' else 'conductors'}, choose a device "
                   "that lets through less energy, or show from the maker's let-through data "
-                  f"that it stays within k2S2 = {significant((k * s) ** 2, 3)} A2s")
+                  f"that it stays within k2S2 = {a2s_text((k * s) ** 2)}")
     return _result(cid, "fault-energy", ok, need, s, "mm2", reason, band, details,
                    study.rule_set)

@@ -12,6 +12,7 @@ from coordination.checks.overload import _overload
 from coordination.checks.residual_checks import residual_results
 from coordination.checks.results import CheckResult
 from coordination.checks.starting import _starting
+from coordination.criterion import breaking_duty
 from coordination.faults import FaultLevels
 from coordination.model import Study
 from coordination.residual import has_rcds
@@ -80,17 +81,21 @@ def check_device(study: Study, levels: FaultLevels, circuit_id: str,
 def _check_device(study: Study, circuit_id: str, band: Band, node: Any,
                   edges: _Edges) -> tuple[CheckResult, ...]:
     """:func:`check_device` with the band's edges at the node's currents already evaluated."""
+    circuit = study.by_id[circuit_id]
     try:
-        results: list[CheckResult | None] = [_disconnection(study, circuit_id, band, node, edges)]
+        disconnection = _disconnection(study, circuit_id, band, node, edges)
         overload = _overload(study, circuit_id, band)
-        results.append(overload)
-        circuit = study.by_id[circuit_id]
+        results: list[CheckResult | None] = [disconnection, overload]
         protected = (overload is not None and overload.ok and circuit.cable is not None
                      and circuit.cable.iz_a is not None)
-        results.append(_fault_energy(study, circuit_id, band, node, protected, edges))
+        # the largest fault at the board, found once for the fault energy and the breaking
+        # capacity; the disconnection limit passed on to the fault energy
+        duty = breaking_duty(node, circuit.phases)
+        results.append(_fault_energy(study, circuit_id, band, node, protected, edges,
+                                     duty=duty, limit_s=disconnection.limit))
         if circuit.device is not None:  # an RCCB breaks no fault current: the device above
-            results.append(_breaking_capacity(study, circuit_id, band, node))  # does, and is
-            # checked at its own board
+            results.append(_breaking_capacity(study, circuit_id, band, node, duty))  # does,
+            # and is checked at its own board
         results.append(_starting(study, circuit_id, band))
     except InputError as error:
         if error.key is not None and error.key.startswith("supply"):
