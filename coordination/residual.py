@@ -215,8 +215,24 @@ def rcd_clearing(circuit: str, band: ResidualBand, earth_fault_a: float,
     0.04 True
     """
     i = float(earth_fault_a)
-    t = float(band.t_max(i)) if i > 0 and math.isfinite(i) else math.inf
+    t = break_time_s(band, i) if i > 0 and math.isfinite(i) else math.inf
     return RcdClearing(circuit, band, i, t, float(limit_s), t <= float(limit_s))
+
+
+@lru_cache(maxsize=4096)
+def break_time_s(band: ResidualBand, residual_a: float) -> float:
+    """An RCD's maximum break time at a residual current [s]: its upper edge there, ``inf``
+    below IΔn.
+
+    Cached: a study's alike RCDs meet the same currents again and again (in TT every circuit's
+    earth fault is held to c_min U0 / RA), and the edge is evaluated one current at a time.
+
+    Examples
+    --------
+    >>> print(break_time_s(rcd_band(30), 0.06))
+    0.15
+    """
+    return float(band.t_max(residual_a))
 
 
 def tt_earth_fault_a(ief_a: float, u0_v: float, ra_ohm: float | None,
@@ -474,7 +490,11 @@ def rcd_of(study: Any, circuit_id: str) -> ResidualBand | None:
         raise error.within(circuit=circuit_id, key="rcd") from None
 
 
-def rcds_on_path(study: Any, circuit_id: str) -> tuple[tuple[str, ResidualBand], ...]:
+#: The RCDs on a circuit's path, as :func:`rcds_on_path` gives them: (circuit id, band).
+RcdPath = tuple[tuple[str, ResidualBand], ...]
+
+
+def rcds_on_path(study: Any, circuit_id: str) -> RcdPath:
     """The RCDs an earth fault on a circuit flows through: its own, then those above, nearest
     first, as (circuit id, band)."""
     with_rcd = study.rcd_circuits
@@ -484,12 +504,14 @@ def rcds_on_path(study: Any, circuit_id: str) -> tuple[tuple[str, ResidualBand],
                  if cid in with_rcd)
 
 
-def rcds_breaking(study: Any, circuit_id: str,
-                  current_a: float) -> tuple[tuple[str, ResidualBand], ...]:
-    """The RCDs on a circuit's path (:func:`rcds_on_path`) credited with breaking an earth
-    fault of ``current_a`` [A]: every RCD beside an overcurrent device (an RCBO breaks with its
-    breaker), an RCCB only up to :data:`RCCB_BREAKING_A`."""
-    return tuple((cid, band) for cid, band in rcds_on_path(study, circuit_id)
+def rcds_breaking(study: Any, circuit_id: str, current_a: float,
+                  rcds: RcdPath | None = None) -> RcdPath:
+    """The RCDs on a circuit's path (:func:`rcds_on_path`, or ``rcds`` where the caller has
+    them) credited with breaking an earth fault of ``current_a`` [A]: every RCD beside an
+    overcurrent device (an RCBO breaks with its breaker), an RCCB only up to
+    :data:`RCCB_BREAKING_A`."""
+    on_path = rcds_on_path(study, circuit_id) if rcds is None else rcds
+    return tuple((cid, band) for cid, band in on_path
                  if study.by_id[cid].device is not None or current_a <= RCCB_BREAKING_A)
 
 
@@ -502,7 +524,9 @@ def rccb_label(study: Any, circuit_id: str) -> str:
 def leakage_below_ma(study: Any, circuit_id: str) -> float | None:
     """The standing leakage an RCD on this circuit carries: the circuit's ``leakage_ma`` and
     that of every circuit below it [mA]; ``None`` when none of them gives one."""
-    given = [study.by_id[c].leakage_ma for c in (circuit_id, *study.descendants(circuit_id))]
+    # a final circuit has none below it: no walk over the study for it
+    below = study.descendants(circuit_id) if study.children.get(circuit_id) else ()
+    given = [study.by_id[c].leakage_ma for c in (circuit_id, *below)]
     given = [float(v) for v in given if v is not None]
     return sum(given) if given else None
 

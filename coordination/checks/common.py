@@ -11,6 +11,7 @@ from typing import Any
 
 import numpy as np
 
+from coordination.residual import break_time_s
 from coordination.text import significant
 from curves.band import Band
 
@@ -150,8 +151,9 @@ class _Edges:
         return float(band.t_max(i)) if pair is None else pair[0]
 
     def residual_time(self, band: Any, i: float) -> float:
-        """An RCD's maximum break time at an earth fault of ``i`` [s] (its upper edge there)."""
-        return float(band.t_max(i))
+        """An RCD's maximum break time at an earth fault of ``i`` [s] (its upper edge there,
+        :func:`coordination.residual.break_time_s`)."""
+        return break_time_s(band, i)
 
     def values_of(self, band: Band) -> Mapping[float, tuple[float, float]]:
         """The band's (upper edge [s], maximum let-through [A2s]) by current [A], as gathered

@@ -18,7 +18,7 @@ from coordination.checks.residual_checks import (
 )
 from coordination.checks.results import CheckResult, _result
 from coordination.model import Study
-from coordination.residual import rcds_on_path
+from coordination.residual import RcdPath, rcds_on_path
 from curves.band import Band
 from curves.errors import InputError
 
@@ -229,13 +229,14 @@ def _carried_a(study: Study, cid: str, band: Band) -> float:
 
 
 def _rcd_needed(study: Study, cid: str, band: Band, node: Any, edges: _Edges,
-                limit_s: float | None = None) -> bool:
+                limit_s: float | None = None, rcds: RcdPath | None = None) -> bool:
     """TT, no RCD on the circuit or above it, and the earth fault too small for any
     overcurrent device able to carry the load: the disconnection check fails and asks for an
-    RCD. ``limit_s`` is the circuit's disconnection limit [s] where the caller has it."""
+    RCD. ``limit_s`` is the circuit's disconnection limit [s] and ``rcds`` the RCDs on its path,
+    where the caller has them."""
     if EARTHING_KIND.get(str(study.supply.earthing).upper(), "TN") != "TT":
         return False
-    if rcds_on_path(study, cid):
+    if rcds_on_path(study, cid) if rcds is None else rcds:
         return False
     ief = _get(node, "ief_min_a", 0.0) or 0.0
     limit = _disconnection_limit(study, cid, band)[0] if limit_s is None else limit_s
@@ -245,7 +246,10 @@ def _rcd_needed(study: Study, cid: str, band: Band, node: Any, edges: _Edges,
 
 # -------------------------------------------------------------------------------------------
 # the check of one circuit
-def _disconnection(study: Study, cid: str, band: Band, node: Any, edges: _Edges) -> CheckResult:
+def _disconnection(study: Study, cid: str, band: Band, node: Any, edges: _Edges,
+                   rcds: RcdPath | None = None) -> CheckResult:
+    """The disconnection check of one circuit; ``rcds`` are the RCDs on its path
+    (:func:`~coordination.residual.rcds_on_path`), where the caller has them."""
     supply = study.supply
     limit, what, source, final = _disconnection_limit(study, cid, band)
     ief = _get(node, "ief_min_a", 0.0) or 0.0
@@ -273,7 +277,7 @@ def _disconnection(study: Study, cid: str, band: Band, node: Any, edges: _Edges)
         else:
             reason = (f"{head}: {times}; shorten the run, enlarge the conductors, choose a "
                       "faster device or use an RCD")
-        clearings = rcd_disconnection(study, cid, ief, limit)
+        clearings = rcd_disconnection(study, cid, ief, limit, rcds)
         relied = rcd_relied_on(clearings)
         if relied is not None:  # IEC 60364-4-41 411.4.5 (TN), 411.5 (TT)
             ok, t = True, relied.t_s

@@ -25,7 +25,7 @@ from coordination.checks.disconnection import _rcd_needed
 from coordination.checks.results import CheckResult, _result
 from coordination.criterion import breaking_duty
 from coordination.model import Study
-from coordination.residual import rcds_breaking, rcds_on_path
+from coordination.residual import RcdPath, rcds_breaking, rcds_on_path
 from curves.band import Band
 from curves.errors import InputError
 
@@ -274,11 +274,14 @@ def _sizes(cable: Any) -> ConductorSizes:
 
 def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protected: bool,
                   edges: _Edges, *, duty: tuple[float, str] | None = None,
-                  limit_s: float | None = None) -> CheckResult | None:
+                  limit_s: float | None = None,
+                  rcds: RcdPath | None = None) -> CheckResult | None:
     """The fault-energy check of one circuit; None without a cable.
 
-    ``duty`` is the circuit's :func:`~coordination.criterion.breaking_duty` and ``limit_s`` its
-    disconnection limit [s], where the caller has them already (else they are found here).
+    ``duty`` is the circuit's :func:`~coordination.criterion.breaking_duty`, ``limit_s`` its
+    disconnection limit [s] and ``rcds`` the RCDs on its path
+    (:func:`~coordination.residual.rcds_on_path`), where the caller has them already (else they
+    are found here).
     """
     circuit = study.by_id[cid]
     cable = circuit.cable
@@ -301,8 +304,9 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
     ik_min = _get(node, "ik_min_end_a")
     if ik_min is not None and ik_min > 0:
         cases.append(("minimum fault at the far end", "line", ik_min, s_line, k_line))
-    rcd = _rcd_needed(study, cid, band, node, edges, limit_s)
-    rcds = rcds_on_path(study, cid)
+    if rcds is None:
+        rcds = rcds_on_path(study, cid)
+    rcd = _rcd_needed(study, cid, band, node, edges, limit_s, rcds)
     ief = _get(node, "ief_min_a")
     if ief is not None and ief > 0:
         if ik_min is None or ief < ik_min:  # the smallest fault in the line conductors
@@ -323,7 +327,7 @@ def _fault_energy(study: Study, cid: str, band: Band, node: Any, overload_protec
             continue
         t, energy = computed.get(i) or _edge_and_energy(band, i)
         cleared_by = None
-        breaking = rcds_breaking(study, cid, i) if rcds and "earth fault" in what else ()
+        breaking = rcds_breaking(study, cid, i, rcds) if rcds and "earth fault" in what else ()
         if breaking:  # an earth fault is a residual current
             t_rcd, name = min((edges.residual_time(b, i), b.name) for _, b in breaking)
             if t_rcd < t:  # the RCD clears first: I2t is at most I^2 x its break time

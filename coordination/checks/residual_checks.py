@@ -20,6 +20,7 @@ from coordination.residual import (
     RCD_TIMES_SOURCE,
     TOUCH_VOLTAGE_SOURCE,
     RcdClearing,
+    RcdPath,
     idn_ma,
     leakage_below_ma,
     leakage_limit_ma,
@@ -50,13 +51,13 @@ def rcd_earth_fault_a(study: Study, ief_a: float) -> float:
     return tt_earth_fault_a(ief_a, supply.u0_v, getattr(supply, "ra_ohm", None), supply.c_min)
 
 
-def rcd_disconnection(study: Study, circuit_id: str, ief_a: float,
-                      limit_s: float) -> tuple[RcdClearing, ...]:
-    """How each RCD on the circuit or above it clears the circuit's minimum earth fault, own
-    first then nearest first (empty when there is none)."""
+def rcd_disconnection(study: Study, circuit_id: str, ief_a: float, limit_s: float,
+                      rcds: RcdPath | None = None) -> tuple[RcdClearing, ...]:
+    """How each RCD on the circuit or above it (``rcds``, where the caller has them) clears the
+    circuit's minimum earth fault, own first then nearest first (empty when there is none)."""
     current = rcd_earth_fault_a(study, ief_a)
     return tuple(rcd_clearing(cid, band, current, limit_s)
-                 for cid, band in rcds_breaking(study, circuit_id, current))
+                 for cid, band in rcds_breaking(study, circuit_id, current, rcds))
 
 
 def rcd_relied_on(clearings: tuple[RcdClearing, ...]) -> RcdClearing | None:
@@ -111,12 +112,14 @@ def _touch_voltage(study: Study, cid: str, band: ResidualBand) -> CheckResult | 
                    study.rule_set)
 
 
-def _additional_protection(study: Study, cid: str, in_a: float | None) -> CheckResult | None:
+def _additional_protection(study: Study, cid: str, in_a: float | None,
+                           rcds: RcdPath | None) -> CheckResult | None:
     circuit = study.by_id[cid]
     if not needs_additional_protection(getattr(circuit, "sockets", False), in_a):
         return None
     limit = ADDITIONAL_PROTECTION_IDN_MA
-    rcds = rcds_on_path(study, cid)
+    if rcds is None:
+        rcds = rcds_on_path(study, cid)
     details: dict[str, Any] = {"in_a": in_a, "source": ADDITIONAL_PROTECTION_SOURCE}
     if not rcds:
         reason = (f"socket-outlet circuit up to 32 A with no RCD on it or above it: give it an "
@@ -154,7 +157,8 @@ def _leakage(study: Study, cid: str, band: ResidualBand) -> CheckResult | None:
     return _result(cid, "leakage", ok, leak, limit, "mA", reason, band, details, study.rule_set)
 
 
-def residual_results(study: Study, cid: str, in_a: float | None) -> tuple[CheckResult, ...]:
+def residual_results(study: Study, cid: str, in_a: float | None,
+                     rcds: RcdPath | None = None) -> tuple[CheckResult, ...]:
     """The residual-current checks of one circuit, in the order of
     :data:`RESIDUAL_CHECK_NAMES` (a check that does not apply is left out).
 
@@ -162,12 +166,15 @@ def residual_results(study: Study, cid: str, in_a: float | None) -> tuple[CheckR
     ----------
     in_a : float or None
         The circuit's overcurrent device's In (Ir) [A]; ``None`` for an RCCB.
+    rcds : tuple of (str, ResidualBand), optional
+        The RCDs on the circuit's path (:func:`coordination.residual.rcds_on_path`), where the
+        caller has them.
     """
     band = rcd_of(study, cid)
     out = []
     if band is not None:
         out.append(_touch_voltage(study, cid, band))
-    out.append(_additional_protection(study, cid, in_a))
+    out.append(_additional_protection(study, cid, in_a, rcds))
     if band is not None:
         out.append(_leakage(study, cid, band))
     return tuple(r for r in out if r is not None)

@@ -15,7 +15,7 @@ from coordination.checks.starting import _starting
 from coordination.criterion import breaking_duty
 from coordination.faults import FaultLevels
 from coordination.model import Study
-from coordination.residual import has_rcds
+from coordination.residual import RcdPath, has_rcds, rcds_on_path
 from curves.band import Band
 from curves.errors import InputError
 
@@ -75,15 +75,25 @@ def check_device(study: Study, levels: FaultLevels, circuit_id: str,
     if circuit_id not in study.by_id:
         raise InputError(f"no circuit {circuit_id!r} in the study", key="circuit")
     node = levels.by_circuit[circuit_id]
-    return _check_device(study, circuit_id, band, node, _Edges.for_nodes([(band, node)]))
+    return _check_device(study, circuit_id, band, node, _Edges.for_nodes([(band, node)]),
+                         _rcds_on_path(study, circuit_id))
 
 
-def _check_device(study: Study, circuit_id: str, band: Band, node: Any,
-                  edges: _Edges) -> tuple[CheckResult, ...]:
-    """:func:`check_device` with the band's edges at the node's currents already evaluated."""
+def _rcds_on_path(study: Study, circuit_id: str) -> RcdPath:
+    """:func:`coordination.residual.rcds_on_path`, an error naming the circuit."""
+    try:
+        return rcds_on_path(study, circuit_id)
+    except InputError as error:
+        raise error.within(circuit=circuit_id) from None
+
+
+def _check_device(study: Study, circuit_id: str, band: Band, node: Any, edges: _Edges,
+                  rcds: RcdPath) -> tuple[CheckResult, ...]:
+    """:func:`check_device` with the band's edges at the node's currents already evaluated
+    and the RCDs on the circuit's path found (:func:`coordination.residual.rcds_on_path`)."""
     circuit = study.by_id[circuit_id]
     try:
-        disconnection = _disconnection(study, circuit_id, band, node, edges)
+        disconnection = _disconnection(study, circuit_id, band, node, edges, rcds)
         overload = _overload(study, circuit_id, band)
         results: list[CheckResult | None] = [disconnection, overload]
         protected = (overload is not None and overload.ok and circuit.cable is not None
@@ -92,7 +102,7 @@ def _check_device(study: Study, circuit_id: str, band: Band, node: Any,
         # capacity; the disconnection limit passed on to the fault energy
         duty = breaking_duty(node, circuit.phases)
         results.append(_fault_energy(study, circuit_id, band, node, protected, edges,
-                                     duty=duty, limit_s=disconnection.limit))
+                                     duty=duty, limit_s=disconnection.limit, rcds=rcds))
         if circuit.device is not None:  # an RCCB breaks no fault current: the device above
             results.append(_breaking_capacity(study, circuit_id, band, node, duty))  # does,
             # and is checked at its own board
@@ -154,11 +164,13 @@ def run(study: Study, levels: FaultLevels) -> tuple[CheckResult, ...]:
                              if circuit.id in by_circuit)
     out: list[CheckResult] = []
     for band, circuit in zip(bands, study.circuits, strict=True):
-        out.extend(_check_device(study, circuit.id, band, by_circuit[circuit.id], edges))
+        on_path = _rcds_on_path(study, circuit.id)  # once for all the circuit's checks
+        out.extend(_check_device(study, circuit.id, band, by_circuit[circuit.id], edges,
+                                 on_path))
         if rcds or circuit.sockets:
             in_a = _in_a(band) if circuit.device is not None else None
             try:
-                out.extend(residual_results(study, circuit.id, in_a))
+                out.extend(residual_results(study, circuit.id, in_a, on_path))
             except InputError as error:
                 raise error.within(circuit=circuit.id) from None
     return tuple(out)
