@@ -35,6 +35,8 @@ def freeze(value: Any) -> Any:
     >>> thaw(freeze({"sd_i2t": False, "lower": [[1, 2]]}))
     {'lower': [[1, 2]], 'sd_i2t': False}
     """
+    if isinstance(value, str):  # a shorthand, most devices: hashable as it is
+        return value
     if isinstance(value, bool):
         return _Flag(value)
     if isinstance(value, Mapping):

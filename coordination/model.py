@@ -118,12 +118,37 @@ class Circuit:
     inrush: Inrush | None = None  # an inrush load: its first peak and duration
 
     def __post_init__(self) -> None:
-        if isinstance(self.device, Mapping) and not isinstance(self.device, MappingProxyType):
-            object.__setattr__(self, "device", MappingProxyType(dict(self.device)))
-        if isinstance(self.rcd, Mapping) and not isinstance(self.rcd, MappingProxyType):
-            object.__setattr__(self, "rcd", MappingProxyType(dict(self.rcd)))
-        object.__setattr__(self, "tested_limits_a", MappingProxyType(dict(self.tested_limits_a)))
-        object.__setattr__(self, "backup_a", MappingProxyType(dict(self.backup_a)))
+        # the tables made read-only copies; most circuits (a shorthand device, no rcd, no
+        # upstream currents) have none to copy and are left as built
+        device, rcd = _read_only_table(self.device), _read_only_table(self.rcd)
+        limits, backup = _read_only(self.tested_limits_a), _read_only(self.backup_a)
+        if device is not self.device:
+            object.__setattr__(self, "device", device)
+        if rcd is not self.rcd:
+            object.__setattr__(self, "rcd", rcd)
+        if limits is not self.tested_limits_a:
+            object.__setattr__(self, "tested_limits_a", limits)
+        if backup is not self.backup_a:
+            object.__setattr__(self, "backup_a", backup)
+
+
+def _read_only_table(value: Any) -> Any:
+    """An inline table (a device's, an rcd's) as a read-only copy; a shorthand text, None or a
+    read-only table as it is."""
+    if value is None or isinstance(value, str | MappingProxyType):
+        return value
+    return MappingProxyType(dict(value)) if isinstance(value, Mapping) else value
+
+
+#: The read-only empty table of upstream currents, shared by the circuits that give none.
+NO_CURRENTS: Mapping[str, float] = MappingProxyType({})
+
+
+def _read_only(currents: Mapping[str, float]) -> Mapping[str, float]:
+    """A read-only copy of a circuit's table of upstream circuit id = current [A]."""
+    if currents is NO_CURRENTS:
+        return currents
+    return MappingProxyType(dict(currents)) if currents else NO_CURRENTS
 
 
 @dataclass(frozen=True)

@@ -39,7 +39,15 @@ from typing import TYPE_CHECKING, Any
 import rtoml
 
 from coordination import cables, rules
-from coordination.model import SUPPLY_ID, Cable, Circuit, Study, Supply, Transformer
+from coordination.model import (
+    NO_CURRENTS,
+    SUPPLY_ID,
+    Cable,
+    Circuit,
+    Study,
+    Supply,
+    Transformer,
+)
 from coordination.residual import RCD_KEYS
 from coordination.study_rules import (
     BASES,
@@ -68,6 +76,7 @@ from coordination.study_rules import (
     check_boards,
     check_devices,
     check_feeds,
+    check_keys,
     check_rated_voltage,
     check_rccbs,
     check_source,
@@ -295,8 +304,9 @@ _CABLES_MAX = 4096
 
 def _cable(data: Any, circuit: str) -> Cable:
     try:
-        # with each value's type: 1, 1.0 and true are equal keys but not equally valid
-        key = (tuple(sorted((k, type(v), v) for k, v in data.items()))
+        # the items as written, with each value's type: 1, 1.0 and true are equal keys but not
+        # equally valid
+        key = ((tuple(data.items()), tuple(map(type, data.values())))
                if isinstance(data, dict) else None)
         cached = _CABLES.get(key) if key is not None else None
     except TypeError:  # an unhashable or unorderable value: validate it the long way
@@ -361,20 +371,19 @@ def _protective_conductor(t: Table) -> dict[str, Any]:
             "armour_ohm_per_m": armour_ohm}
 
 
-def _ring(t: Table, raw: Mapping[str, Any]) -> bool:
+def _ring(t: Table) -> bool:
     ring = bool(t.boolean("ring"))
-    if ring and not isinstance(raw.get("cable"), Mapping):
+    if ring and not isinstance(t.data.get("cable"), Mapping):
         raise t.error("ring", "ring = true needs the ring's cable: a [circuit.cable] table with "
                               "length_m the ring's whole route length")
     return ring
 
 
-def _upstream_currents(t: Table, raw: Mapping[str, Any], key: str,
-                       what: str) -> dict[str, float]:
+def _upstream_currents(t: Table, key: str, what: str) -> Mapping[str, float]:
     """A table of upstream circuit id = current [A] (``tested_limits_a``, ``backup_a``)."""
     if not t.has(key):
-        return {}
-    given = raw[key]
+        return NO_CURRENTS
+    given = t.data[key]
     if not isinstance(given, Mapping):
         raise t.error(key, f"{key} must be a table of upstream circuit id = {what} [A], not "
                            f"{describe(given)}")
@@ -387,12 +396,13 @@ def _circuit_id(raw: Any, number: int) -> str:
     if not isinstance(raw, Mapping):
         raise InputError(f"{where} is {describe(raw)}, not a table; write each circuit as a "
                          "[[circuit]] table", key="circuit")
-    cable = raw.get("cable")
-    if "id" not in raw and isinstance(cable, Mapping) and "id" in cable:
-        raise InputError(f"{where}: its id is written below its [circuit.cable] line, where it "
-                         "is read as a cable key; move it above that line, since in TOML every "
-                         "key below a table header belongs to that table", key="cable.id")
     if "id" not in raw:
+        cable = raw.get("cable")
+        if isinstance(cable, Mapping) and "id" in cable:
+            raise InputError(f"{where}: its id is written below its [circuit.cable] line, where "
+                             "it is read as a cable key; move it above that line, since in TOML "
+                             "every key below a table header belongs to that table",
+                             key="cable.id")
         raise InputError(f"{where} has no id; every circuit needs a unique id (a text)",
                          key="id")
     cid = raw["id"]
@@ -409,13 +419,20 @@ def _circuit_id(raw: Any, number: int) -> str:
 
 
 def _circuit_fields(raw: Mapping[str, Any], cid: str) -> dict[str, Any]:
+    """A circuit's keys read and checked, as :class:`~coordination.model.Circuit` takes them.
+
+    First the keys the others depend on (from, device, tested_limits_a, motor, inrush,
+    load_a); then the others given, in the order of :data:`_OTHER_KEYS`. A key not given is not
+    read: it keeps its value in :data:`_NOT_GIVEN` (most circuits give two or three of them).
+    """
     t = Table(raw, CIRCUIT_KEYS, circuit=cid, table="circuit")
     if isinstance(raw.get("cable"), Mapping):  # a circuit key below [circuit.cable], such as
         # 'from' or 'device', is named there before it is reported missing here
-        Table(raw["cable"], CABLE_KEYS, circuit=cid, prefix="cable.", table="circuit.cable")
+        check_keys(raw["cable"], CABLE_KEYS, circuit=cid, prefix="cable.",
+                   table="circuit.cable")
     parent = t.text("from", required=True,
                     what="the id of the circuit that feeds this one's board, or 'supply'")
-    if not t.has("device") and not t.has("rcd"):
+    if "device" not in raw and "rcd" not in raw:
         raise t.error("device", "missing key 'device'; give a shorthand such as 'B32' or "
                                 "'gG100', or an inline table (or an rcd table alone for a "
                                 "residual-current switch)")
@@ -434,7 +451,7 @@ def _circuit_fields(raw: Mapping[str, Any], cid: str) -> dict[str, Any]:
     else:
         raise t.error("device", f"device must be a shorthand text such as 'B32' or an inline "
                                 f"table, not {describe(device)}")
-    limits = _upstream_currents(t, raw, "tested_limits_a", "selectivity limit")
+    limits = _upstream_currents(t, "tested_limits_a", "selectivity limit")
     motor: Motor | None = None
     inrush: Inrush | None = None
     if "motor" in raw or "inrush" in raw:  # the module is loaded for the circuits that need it
@@ -449,31 +466,20 @@ def _circuit_fields(raw: Mapping[str, Any], cid: str) -> dict[str, Any]:
     if motor is not None and inrush is not None:
         raise t.error("inrush", "give motor or inrush on one circuit, not both (a motor's start "
                                 "is its inrush)")
-    return {
+    fields = {
+        **_NOT_GIVEN,
         "id": cid,
         "parent": parent,
         "device": device,
-        "phases": t.integer("phases", choices=(1, 3)),
         "load_a": load if load is not None or motor is None else motor.flc_a,
         "motor": motor,
         "inrush": inrush,
-        "cable": _cable(raw["cable"], cid) if t.has("cable") else None,
-        "basis": t.choice("basis", BASES),
-        "final": t.boolean("final"),
-        "selective_to_a": t.number("selective_to_a", unit="A", lo=0.0, hi=MAX_CURRENT_A),
         "tested_limits_a": limits,
-        "breaking_capacity_a": t.number("breaking_capacity_a", unit="A", lo=0.0,
-                                        hi=MAX_CURRENT_A),
-        "margin": t.number("margin", unit="(factor)", lo=1.0, hi=10.0, lo_open=False),
-        "interval_s": t.number("interval_s", unit="s", lo=0.0, hi=10.0, lo_open=False),
-        "board": t.text("board", what="a text (the name of the board this circuit feeds)"),
-        "rcd": _rcd_table(t, raw),
-        "sockets": bool(t.boolean("sockets")),
-        "leakage_ma": t.number("leakage_ma", unit="mA", lo=0.0, hi=100000.0, lo_open=False),
-        "ring": _ring(t, raw),
-        "backup_a": _upstream_currents(t, raw, "backup_a", "back-up current"),
-        "conditional_a": t.number("conditional_a", unit="A", lo=0.0, hi=MAX_CURRENT_A),
     }
+    for key, read in _OTHER_KEYS.items():
+        if key in raw:
+            fields[key] = read(t)
+    return fields
 
 
 def _load_table(raw: Mapping[str, Any], cid: str, key: str,
@@ -488,13 +494,52 @@ def _load_table(raw: Mapping[str, Any], cid: str, key: str,
         raise error.within(circuit=cid, key=key) from None
 
 
-def _rcd_table(t: Table, raw: Mapping[str, Any]) -> dict[str, Any] | None:
+def _rcd_table(t: Table) -> dict[str, Any]:
     """The circuit's ``rcd`` table with its keys checked (the values are checked when its band
     is built, :func:`coordination.residual.rcd_of`)."""
-    if not t.has("rcd"):
-        return None
-    Table(raw["rcd"], RCD_KEYS, circuit=t.circuit, prefix="rcd.", name="rcd")
-    return dict(raw["rcd"])
+    Table(t.data["rcd"], RCD_KEYS, circuit=t.circuit, prefix="rcd.", name="rcd")
+    return dict(t.data["rcd"])
+
+
+#: The circuit keys read after those the others depend on, each with how it is read and
+#: checked, in the order they are checked (the first problem is the one reported).
+_OTHER_KEYS: dict[str, Callable[[Table], Any]] = {
+    "phases": lambda t: t.integer("phases", choices=(1, 3)),
+    "cable": lambda t: _cable(t.data["cable"], t.circuit),
+    "basis": lambda t: t.choice("basis", BASES),
+    "final": lambda t: t.boolean("final"),
+    "selective_to_a": lambda t: t.number("selective_to_a", unit="A", lo=0.0, hi=MAX_CURRENT_A),
+    "breaking_capacity_a": lambda t: t.number("breaking_capacity_a", unit="A", lo=0.0,
+                                              hi=MAX_CURRENT_A),
+    "margin": lambda t: t.number("margin", unit="(factor)", lo=1.0, hi=10.0, lo_open=False),
+    "interval_s": lambda t: t.number("interval_s", unit="s", lo=0.0, hi=10.0, lo_open=False),
+    "board": lambda t: t.text("board", what="a text (the name of the board this circuit feeds)"),
+    "rcd": _rcd_table,
+    "sockets": lambda t: t.boolean("sockets"),
+    "leakage_ma": lambda t: t.number("leakage_ma", unit="mA", lo=0.0, hi=100000.0,
+                                     lo_open=False),
+    "ring": _ring,
+    "backup_a": lambda t: _upstream_currents(t, "backup_a", "back-up current"),
+    "conditional_a": lambda t: t.number("conditional_a", unit="A", lo=0.0, hi=MAX_CURRENT_A),
+}
+#: The value of each of :data:`_OTHER_KEYS` on a circuit that does not give it.
+_NOT_GIVEN: dict[str, Any] = {
+    "phases": None,  # its board's (check_feeds fills it in)
+    "cable": None,
+    "basis": None,
+    "final": None,
+    "selective_to_a": None,
+    "breaking_capacity_a": None,
+    "margin": None,
+    "interval_s": None,
+    "board": None,
+    "rcd": None,
+    "sockets": False,
+    "leakage_ma": None,
+    "ring": False,
+    "backup_a": NO_CURRENTS,
+    "conditional_a": None,
+}
 
 
 def from_dict(data: Any, source: str | None = None) -> Study:

@@ -216,6 +216,38 @@ def _key_set(allowed: Sequence[str]) -> frozenset[str]:
     return frozenset(allowed)
 
 
+def check_keys(data: Mapping[str, Any], allowed: Sequence[str], *, circuit: str | None = None,
+               prefix: str = "", table: str | None = None) -> None:
+    """Refuse the first key of a table, in the order written, that ``allowed`` does not hold.
+
+    ``table`` is the table's dotted name in :data:`TABLES`: a key that belongs in another table
+    is told which (:func:`_unknown`); without it, the nearest allowed key is suggested.
+
+    Examples
+    --------
+    >>> check_keys({"length_m": 10}, ("length_m", "csa_mm2"), table="circuit.cable")
+    """
+    if data.keys() <= _key_set(allowed):
+        return
+    for key in data:
+        if key not in allowed:
+            problem = (_unknown(str(key), table, allowed) if table is not None
+                       else _suggest(str(key), allowed))
+            raise InputError(problem, circuit=circuit, key=f"{prefix}{key}")
+
+
+def _range(lo: float, hi: float, lo_open: bool, unit: str) -> str:
+    """The allowed range of a number, as :meth:`Table.number`'s messages say it."""
+    low = f"more than {_g(lo)}" if lo_open else f"at least {_g(lo)}"
+    return f"allowed: {low} and at most {_g(hi)} {unit}".rstrip()
+
+
+def _whole_numbers(choices: Sequence[int] | None, lo: int, hi: int) -> str:
+    """The whole numbers allowed, as :meth:`Table.integer`'s messages say them."""
+    return (" or ".join(str(c) for c in choices) if choices is not None
+            else f"a whole number from {lo} to {hi}")
+
+
 class Table:
     """One TOML table being read: unknown keys are refused first, then each value is typed.
 
@@ -226,6 +258,8 @@ class Table:
     20.0 1
     """
 
+    __slots__ = ("circuit", "data", "prefix")
+
     def __init__(self, data: Any, allowed: Sequence[str], *, circuit: str | None = None,
                  prefix: str = "", name: str = "", table: str | None = None) -> None:
         self.circuit = circuit
@@ -235,14 +269,7 @@ class Table:
                              f"not {describe(data)}", circuit=circuit,
                              key=prefix.rstrip(".") or None)
         self.data = data
-        if data.keys() <= _key_set(allowed):
-            return
-        for key in data:  # the first unknown key, in the order written
-            if key not in allowed:
-                problem = (_unknown(str(key), table, allowed) if table is not None
-                           else _suggest(str(key), allowed))
-                raise InputError(problem, circuit=circuit,
-                                 key=f"{prefix}{key}")
+        check_keys(data, allowed, circuit=circuit, prefix=prefix, table=table)
 
     def error(self, key: str, problem: str) -> InputError:
         return InputError(problem, circuit=self.circuit, key=f"{self.prefix}{key}")
@@ -257,19 +284,16 @@ class Table:
                 raise self.error(key, f"missing key {key!r}; give a number [{unit}]")
             return default
         value = self.data[key]
-
-        def allowed() -> str:  # the message is built only for an error
-            low = f"more than {_g(lo)}" if lo_open else f"at least {_g(lo)}"
-            return f"allowed: {low} and at most {_g(hi)} {unit}".rstrip()
-
         if isinstance(value, bool) or not isinstance(value, int | float):
             raise self.error(key, f"{key} must be a number [{unit}], not {describe(value)}; "
-                                  f"{allowed()}")
+                                  f"{_range(lo, hi, lo_open, unit)}")
         value = float(value)
         if not math.isfinite(value):
-            raise self.error(key, f"{key} = {_g(value)} is not a finite number; {allowed()}")
+            raise self.error(key, f"{key} = {_g(value)} is not a finite number; "
+                                  f"{_range(lo, hi, lo_open, unit)}")
         if value < lo or (lo_open and value == lo) or value > hi:
-            raise self.error(key, f"{key} = {_g(value)} is out of range; {allowed()}")
+            raise self.error(key, f"{key} = {_g(value)} is out of range; "
+                                  f"{_range(lo, hi, lo_open, unit)}")
         return value
 
     def integer(self, key: str, *, choices: Sequence[int] | None = None, lo: int = 1,
@@ -277,19 +301,15 @@ class Table:
         if key not in self.data:
             return default
         value = self.data[key]
-
-        def allowed() -> str:  # the message is built only for an error
-            return (" or ".join(str(c) for c in choices) if choices is not None
-                    else f"a whole number from {lo} to {hi}")
-
         if (isinstance(value, bool) or not isinstance(value, int | float)
                 or not math.isfinite(value) or value != int(value)):
             raise self.error(key, f"{key} must be a whole number, not {describe(value)}; "
-                                  f"allowed: {allowed()}")
+                                  f"allowed: {_whole_numbers(choices, lo, hi)}")
         number = int(value)
         if (choices is not None and number not in choices) or (
                 choices is None and not lo <= number <= hi):
-            raise self.error(key, f"{key} = {number} is not allowed; allowed: {allowed()}")
+            raise self.error(key, f"{key} = {number} is not allowed; "
+                                  f"allowed: {_whole_numbers(choices, lo, hi)}")
         return number
 
     def text(self, key: str, *, required: bool = False, default: str | None = None,
@@ -518,9 +538,9 @@ def check_feeds(fields: Mapping[str, dict[str, Any]], order: Sequence[str],
     for cid in order:
         f = fields[cid]
         parent = f["parent"]
-        above = "the supply" if parent == SUPPLY_ID else f"circuit {parent!r}"
         own = f["phases"] if f["phases"] is not None else phases[parent]
         if own == 3 and phases[parent] == 1:
+            above = "the supply" if parent == SUPPLY_ID else f"circuit {parent!r}"
             raise InputError(f"a three-phase circuit cannot be fed from a single-phase board "
                              f"({above} is single-phase); allowed: phases = 1",
                              circuit=cid, key="phases")
@@ -536,10 +556,10 @@ def check_feeds(fields: Mapping[str, dict[str, Any]], order: Sequence[str],
                              "neutral) is allowed for three-phase circuits only",
                              circuit=cid, key="cable.neutral_mm2")
         neutral[cid] = cid if lacks else neutral[parent]
-        for key, what in (("tested_limits_a", "a tested limit"),
-                          ("backup_a", "a back-up declaration")):
-            for up in f.get(key) or ():
-                _check_above(fields, cid, parent, up, key, what)
+        for up in f["tested_limits_a"]:
+            _check_above(fields, cid, parent, up, "tested_limits_a", "a tested limit")
+        for up in f["backup_a"]:
+            _check_above(fields, cid, parent, up, "backup_a", "a back-up declaration")
 
 
 def _check_above(fields: Mapping[str, dict[str, Any]], cid: str, parent: str, up: str,
@@ -592,7 +612,8 @@ def check_devices(study: Study) -> None:
         from coordination.residual import rcd_of
 
         for c in study.circuits:
-            rcd_of(study, c.id)
+            if c.rcd is not None:
+                rcd_of(study, c.id)
             try:
                 band_for(study, c.id)
             except InputError:
