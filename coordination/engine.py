@@ -107,10 +107,11 @@ class PairResult:
         """
         if self.decided_by == "tested":
             return "tested"
-        bases = {self.upstream_basis, self.downstream_basis}
-        for basis in ("envelope", "typical"):
-            if basis in bases:
-                return basis
+        bases = (self.upstream_basis, self.downstream_basis)
+        if "envelope" in bases:
+            return "envelope"
+        if "typical" in bases:
+            return "typical"
         return "datasheet"
 
     @property
@@ -230,23 +231,31 @@ class _Run:
 
 
 def _ancestor_runs(study: Study, bands: Mapping[str, Band]) -> dict[str, _Run | None]:
-    """The runs above every circuit (``None``: fed from the supply), in study order."""
+    """The runs above every circuit (``None``: fed from the supply), in study order.
+
+    They depend only on the circuit's parent, so the children of one circuit share one list,
+    built for the first of them.
+    """
     runs: dict[str, _Run | None] = {}
+    below: dict[str, _Run | None] = {}  # the runs above the children of a circuit, by its id
     for c in study.circuits:  # parents first
-        if c.parent not in bands:
-            runs[c.id] = None
-            continue
-        if study.by_id[c.parent].device is None:  # an RCCB: no overcurrent device of its own
-            runs[c.id] = runs[c.parent]  # (the runs above it are the ones above its circuits)
-            continue
-        above, band = runs[c.parent], bands[c.parent]
-        if above is not None and above.band is band:  # the parent extends the run above it
-            runs[c.id] = _Run(band, c.parent, above.last, above.count + 1, above.rest,
-                              above.rows)
-        else:
-            runs[c.id] = _Run(band, c.parent, c.parent, 1, above,
-                              1 + (above.rows if above is not None else 0))
+        if c.parent not in below:
+            below[c.parent] = _runs_below(study, bands, runs, c.parent)
+        runs[c.id] = below[c.parent]
     return runs
+
+
+def _runs_below(study: Study, bands: Mapping[str, Band], runs: Mapping[str, _Run | None],
+                parent: str) -> _Run | None:
+    """The runs above the children of ``parent``, from the runs above ``parent`` itself."""
+    if parent not in bands:  # the supply
+        return None
+    if study.by_id[parent].device is None:  # an RCCB: no overcurrent device of its own
+        return runs[parent]  # (the runs above it are the ones above its circuits)
+    above, band = runs[parent], bands[parent]
+    if above is not None and above.band is band:  # the parent extends the run above it
+        return _Run(band, parent, above.last, above.count + 1, above.rest, above.rows)
+    return _Run(band, parent, parent, 1, above, 1 + (above.rows if above is not None else 0))
 
 
 def _segments(study: Study, head: _Run | None,
@@ -361,6 +370,8 @@ def analyse(study: Study, levels: FaultLevels, *, basis: str | None = None) -> A
             "one per board", circuit=deepest.id, key="from")
     results: list[PairResult] = []
     by_down: dict[str, tuple[PairResult, ...]] = {}
+    # the ancestors of a circuit without tested limits, by its parent: its siblings share them
+    untested: dict[str, list[tuple[Band, str, str, int]]] = {}
     all_ok = True
     for circuit in study.circuits:
         head = runs[circuit.id]
@@ -379,8 +390,14 @@ def analyse(study: Study, levels: FaultLevels, *, basis: str | None = None) -> A
             raise error.within(circuit=circuit.id) from None
         required = circuit.selective_to_a
         need = hi if required is None else min(float(required), hi)
+        if tested_limits:
+            segments = _segments(study, head, tested_limits)
+        elif circuit.parent in untested:
+            segments = untested[circuit.parent]
+        else:
+            segments = untested[circuit.parent] = _segments(study, head, tested_limits)
         mine = []
-        for up, first, last, count in _segments(study, head, tested_limits):
+        for up, first, last, count in segments:
             tested = tested_limits.get(first) if count == 1 else None
             sel = decide(up, down, lo, hi, margin, interval, tested)
             ok = criterion.requirement_met(sel.verdict, sel.limit_a, need)

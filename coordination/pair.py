@@ -155,13 +155,26 @@ def _refine(down: Band, up: Band, a: float, b: float, margin: float, interval_s:
     return float(10.0 ** float(x_lo))
 
 
+@lru_cache(maxsize=16)
+def _sampled_edges(up: Band, down: Band, lo: float, top: float, margin: float,
+                   interval_s: float) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """The pair's grid of currents over [lo, top] [A] (:func:`pair_grid`), D's edge there with
+    margin and interval [s] and U's edge [s] (cached: read, never written, by their users).
+
+    :func:`_first_crossing` and, for a pair selective over its window, :func:`_approach` read
+    the same samples of a pair one after the other, so the edges are evaluated once for both.
+    Only the latest few pairs are kept: the two readers cache what they find.
+    """
+    i = pair_grid(down, up, lo, top)
+    return i, downstream_edge(down, up, i, margin, interval_s), upstream_edge(up, i)
+
+
 @lru_cache(maxsize=65536)
 def _first_crossing(up: Band, down: Band, lo: float, top: float, margin: float,
                     interval_s: float) -> float | None:
     """Lowest current in [lo, top] where the pair is not selective [A], or None (cached)."""
-    i = pair_grid(down, up, lo, top)
-    bad = criterion.not_selective(downstream_edge(down, up, i, margin, interval_s),
-                                  upstream_edge(up, i))
+    i, td, tu = _sampled_edges(up, down, lo, top, margin, interval_s)
+    bad = criterion.not_selective(td, tu)
     if not bad.any():
         return None
     k = int(np.argmax(bad))
@@ -186,9 +199,7 @@ def _approach(up: Band, down: Band, lo: float, margin: float,
     in their top): currents [A], D's edge with margin and interval [s], U's edge [s], and for
     each point the index of the least ratio t_U / t_D at or below it (the first, as argmin).
     As lists: each window reads a few points of them, which numpy's scalars make slower."""
-    i = pair_grid(down, up, lo, SEARCH_TOP_A)
-    td = downstream_edge(down, up, i, margin, interval_s)
-    tu = upstream_edge(up, i)
+    i, td, tu = _sampled_edges(up, down, lo, SEARCH_TOP_A, margin, interval_s)
     both = np.isfinite(td) & np.isfinite(tu) & (td > 0)
     ratio = np.where(both, tu / np.where(both, td, 1.0), np.inf)
     before = np.concatenate([[np.inf], np.minimum.accumulate(ratio)[:-1]])
