@@ -93,13 +93,23 @@ def in_process(path: Path) -> dict[str, float]:
 
 
 def _stages(path: Path) -> dict[str, float]:
-    from coordination import checks, devices, engine, faults, pair, study, study_rules, tables
+    from coordination import (
+        checks,
+        devices,
+        engine,
+        faults,
+        pair,
+        residual,
+        study,
+        study_rules,
+        tables,
+    )
     from coordination.checks import common, disconnection, fault_energy, overload
     from coordination.cli import to_json
 
     # every cache, as a new process (the checks' caches live in their package's modules)
-    for module in (devices, engine, pair, faults, study, study_rules, common, disconnection,
-                   fault_energy, overload):
+    for module in (devices, engine, pair, faults, residual, study, study_rules, common,
+                   disconnection, fault_energy, overload):
         for value in vars(module).values():
             if callable(getattr(value, "cache_clear", None)):
                 value.cache_clear()
