@@ -51,3 +51,30 @@ def test_report_refuses_an_assessment_on_another_basis(tmp_path):
     with pytest.raises(ValueError, match="basis"):
         write_report(s, tmp_path / "shop.pdf", basis="typical", assessment=assess(s, "envelope"))
     assert list(tmp_path.iterdir()) == []
+
+
+# common practice (start-up time): a check loads only what its study uses; the standby and
+# motor modules come with the studies that have standby sources or motors, and no grid of
+# currents goes through np.unique, whose first call imports numpy.ma (docs/performance.md)
+@pytest.mark.parametrize(("name", "loaded", "absent"), [
+    ("small-shop.toml", (), ("coordination.standby", "coordination.decay",
+                             "coordination.generator", "coordination.motors", "numpy.ma")),
+    ("plant-room.toml", ("coordination.motors",), ("coordination.standby",)),
+    ("standby-generator.toml", ("coordination.standby", "coordination.generator"), ()),
+])
+def test_a_check_imports_what_its_study_uses(name, loaded, absent):
+    import subprocess
+    import sys
+
+    code = ("import sys\n"
+            "from coordination import study\n"
+            "from coordination.pipeline import assess\n"
+            f"assess(study.load({str(EXAMPLES / name)!r}))\n"
+            "print(' '.join(sorted(m for m in sys.modules if m.startswith(('coordination', "
+            "'numpy.ma')))))\n")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                         check=True, cwd=Path(__file__).resolve().parents[1]).stdout.split()
+    for module in loaded:
+        assert module in out
+    for module in absent:
+        assert module not in out
